@@ -1,0 +1,31 @@
+#!/usr/bin/env bash
+# Vet, all tests, race tests and a short fuzz smoke. Called by `make test` (and so by .ci/run).
+set -euo pipefail
+cd "$(dirname "$0")/.."
+export LANG=${LANG:-C.UTF-8}
+[ "$LANG" = "C" ] && export LANG=C.UTF-8
+
+step() { printf '\n== %s\n' "$*"; }
+
+step "gofmt"
+unformatted=$(gofmt -l cmd ui trial stats export sampledata)
+if [ -n "$unformatted" ]; then echo "gofmt would change:"; echo "$unformatted"; exit 1; fi
+
+step "go vet ./..."
+go vet ./...
+
+step "go test ./..."
+go test -count=1 -timeout 20m ./...
+
+step "go test -race (statistics, trial model, files, export, window)"
+go test -count=1 -race -timeout 30m ./stats/... ./trial/... ./export/... ./ui/... ./sampledata/...
+
+step "fuzz smoke"
+fuzz() { # package, target, time
+  go test -run='^$' -fuzz="^$2\$" -fuzztime="$3" "$1"
+}
+fuzz ./trial/trialfile FuzzDecode 15s
+fuzz ./trial/fieldbook FuzzReadTable 15s
+fuzz ./trial/fieldbook FuzzPlan 10s
+
+step "all checks passed"

@@ -1,0 +1,28 @@
+# Furlong developer commands. `make demo` and `make test` do all the set-up
+# on a fresh Debian/Ubuntu machine (see .ci/setup.sh).
+
+GO       ?= go
+BIN      := bin/furlong
+VERSION  := $(shell sed -n 's/^ *Version *= *"\(.*\)"/\1/p' FyneApp.toml)
+LDFLAGS  := -X main.version=$(VERSION)
+export LANG ?= C.UTF-8
+
+.PHONY: setup build demo test screenshots clean
+
+setup:
+	@bash .ci/setup.sh
+
+build: setup
+	$(GO) build -tags migrated_fynedo -ldflags "$(LDFLAGS)" -o $(BIN) ./cmd/furlong
+
+demo: build
+	./$(BIN) --demo
+
+test: setup
+	@bash .ci/test.sh
+
+screenshots: build
+	@bash .ci/screenshots.sh $(BIN) ui/screenshots
+
+clean:
+	rm -rf bin

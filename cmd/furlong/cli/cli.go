@@ -1,0 +1,216 @@
+// Package cli holds Furlong's headless subcommands. Each command has a
+// runX(ctx, opts, ...) error function that tests call directly; Main maps
+// their errors to messages and exit codes. Nothing here opens a window.
+package cli
+
+import (
+	"context"
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"sort"
+	"strings"
+)
+
+// Exit codes.
+const (
+	ExitOK      = 0
+	ExitFailure = 1 // the command could not do its job
+	ExitUsage   = 2 // the command line was wrong
+)
+
+// Env is what every command gets from the process.
+type Env struct {
+	Stdout  io.Writer
+	Stderr  io.Writer
+	Version string
+}
+
+// command is one subcommand.
+type command struct {
+	name    string
+	summary string
+	usage   string // the synopsis line(s)
+	details string // plain-words explanation printed by help
+	flags   func(env Env) (*flag.FlagSet, func(ctx context.Context, args []string) error)
+}
+
+var commands = map[string]*command{}
+
+func register(c *command) { commands[c.name] = c }
+
+// UsageError is a mistake on the command line.
+type UsageError struct{ Msg string }
+
+func (e *UsageError) Error() string { return e.Msg }
+
+func usagef(format string, a ...any) error { return &UsageError{Msg: fmt.Sprintf(format, a...)} }
+
+// ExitError carries a specific exit status with an optional message (for
+// example an import that found problems: the report was already printed).
+type ExitError struct {
+	Code int
+	Msg  string
+}
+
+func (e *ExitError) Error() string { return e.Msg }
+
+// IsCommand reports whether args start with a headless subcommand (or a
+// help or version request), as opposed to the window path.
+func IsCommand(args []string) bool {
+	if len(args) == 0 {
+		return false
+	}
+	switch args[0] {
+	case "help", "-h", "-help", "--help", "version", "--version", "-version":
+		return true
+	}
+	_, ok := commands[args[0]]
+	return ok
+}
+
+// Main runs a subcommand and returns the process exit code.
+func Main(ctx context.Context, args []string, env Env) int {
+	return Exit(dispatch(ctx, args, env), env)
+}
+
+// Exit prints err in plain words on env.Stderr and returns its exit code.
+func Exit(err error, env Env) int {
+	if err == nil {
+		return ExitOK
+	}
+	var ue *UsageError
+	var ee *ExitError
+	switch {
+	case errors.Is(err, flag.ErrHelp):
+		return ExitOK
+	case errors.As(err, &ue):
+		fmt.Fprintf(env.Stderr, "furlong: %s\n", ue.Msg)
+		fmt.Fprintln(env.Stderr, "Run 'furlong --help' for the list of commands.")
+		return ExitUsage
+	case errors.As(err, &ee):
+		if ee.Msg != "" {
+			fmt.Fprintf(env.Stderr, "furlong: %s\n", ee.Msg)
+		}
+		return ee.Code
+	case errors.Is(err, context.Canceled):
+		fmt.Fprintln(env.Stderr, "furlong: stopped before finishing")
+		return ExitFailure
+	default:
+		fmt.Fprintf(env.Stderr, "furlong: %s\n", Message(err))
+		return ExitFailure
+	}
+}
+
+func dispatch(ctx context.Context, args []string, env Env) error {
+	if len(args) == 0 {
+		printOverview(env.Stdout)
+		return nil
+	}
+	switch args[0] {
+	case "-h", "-help", "--help":
+		printOverview(env.Stdout)
+		return nil
+	case "version", "--version", "-version":
+		fmt.Fprintf(env.Stdout, "furlong %s\n", env.Version)
+		return nil
+	case "help":
+		if len(args) == 1 {
+			printOverview(env.Stdout)
+			return nil
+		}
+		c, ok := commands[args[1]]
+		if !ok {
+			return usagef("there is no command %q", args[1])
+		}
+		fs, _ := c.flags(env)
+		printCommandHelp(env.Stdout, c, fs)
+		return nil
+	}
+	c, ok := commands[args[0]]
+	if !ok {
+		return usagef("there is no command %q", args[0])
+	}
+	fs, run := c.flags(env)
+	fs.SetOutput(io.Discard)
+	if err := fs.Parse(interleave(fs, args[1:])); err != nil {
+		if errors.Is(err, flag.ErrHelp) {
+			printCommandHelp(env.Stdout, c, fs)
+			return flag.ErrHelp
+		}
+		return usagef("%s: %v", c.name, err)
+	}
+	return run(ctx, fs.Args())
+}
+
+// interleave lets flags follow positional arguments ("furlong show
+// trial.furlong --verbose"), which the flag package alone does not allow:
+// it moves every flag (and its value) in front of the positional arguments.
+func interleave(fs *flag.FlagSet, args []string) []string {
+	var flags, pos []string
+	for i := 0; i < len(args); i++ {
+		a := args[i]
+		if a == "--" {
+			pos = append(pos, args[i+1:]...)
+			break
+		}
+		if len(a) < 2 || a[0] != '-' {
+			pos = append(pos, a)
+			continue
+		}
+		flags = append(flags, a)
+		name := strings.TrimLeft(a, "-")
+		if strings.Contains(name, "=") {
+			continue
+		}
+		f := fs.Lookup(name)
+		if f == nil {
+			continue // the parser reports it
+		}
+		if bf, ok := f.Value.(interface{ IsBoolFlag() bool }); ok && bf.IsBoolFlag() {
+			continue
+		}
+		if i+1 < len(args) {
+			flags = append(flags, args[i+1])
+			i++
+		}
+	}
+	return append(flags, pos...)
+}
+
+func printOverview(w io.Writer) {
+	fmt.Fprint(w, `Furlong plans, randomises, records and analyses replicated field trials.
+
+Usage:
+  furlong                      open the window
+  furlong TRIAL.furlong        open the window on a trial file
+  furlong --demo               open the window on the built-in demo trial
+  furlong COMMAND [flags]      run a command without a window
+
+Commands:
+`)
+	names := make([]string, 0, len(commands))
+	for n := range commands {
+		names = append(names, n)
+	}
+	sort.Strings(names)
+	for _, n := range names {
+		fmt.Fprintf(w, "  %-10s %s\n", n, commands[n].summary)
+	}
+	fmt.Fprint(w, `
+Run 'furlong help COMMAND' for a command's flags.
+Exit status: 0 done, 1 the command failed (the message says why), 2 the command line was wrong.
+`)
+}
+
+func printCommandHelp(w io.Writer, c *command, fs *flag.FlagSet) {
+	fmt.Fprintf(w, "Usage:\n  %s\n\n%s\n", strings.ReplaceAll(strings.TrimSpace(c.usage), "\n", "\n  "), strings.TrimSpace(c.details))
+	has := false
+	fs.VisitAll(func(*flag.Flag) { has = true })
+	if has {
+		fmt.Fprintln(w, "\nFlags:")
+		fs.SetOutput(w)
+		fs.PrintDefaults()
+	}
+}

@@ -1,0 +1,537 @@
+package cli
+
+import (
+	"context"
+	"encoding/csv"
+	"encoding/json"
+	"flag"
+	"fmt"
+	"io"
+	"os"
+	"sort"
+	"strconv"
+	"strings"
+	"text/tabwriter"
+
+	"furlong/stats"
+	"furlong/trial"
+	"furlong/trial/analysis"
+	"furlong/trial/fieldbook"
+	"furlong/trial/trialfile"
+)
+
+type analyzeOptions struct {
+	trait, treatment, block, row, column, format, method, transform string
+	responses                                                       stringList
+	alpha                                                           float64
+	unprotected                                                     bool
+}
+
+type stringList []string
+
+func (s *stringList) String() string     { return strings.Join(*s, ",") }
+func (s *stringList) Set(v string) error { *s = append(*s, v); return nil }
+
+func init() {
+	register(&command{
+		name:    "analyze",
+		summary: "analyse traits: ANOVA, means with LSD and Tukey letters, diagnostics",
+		usage: `furlong analyze TRIAL.furlong [--trait KEY] [--alpha 0.05] [--format text|json|csv]
+furlong analyze DATA.csv --treatment COL [--block COL | --row COL --column COL] [--response COL]... [flags]`,
+		details: `Analyses every trait of a trial (or the one named by --trait) with the ANOVA that fits its design:
+one-way for a completely randomised design, treatment + block for an RCBD, treatment + row + column
+for a Latin square. With missing plots the model is fitted by least squares, each sum of squares is
+adjusted for the other terms, and means are least-squares means.
+
+A CSV file (comma, semicolon or tab separated, header row first) can be analysed too: name the
+treatment column, and a block column for an RCBD or row and column columns for a Latin square.
+Without --response every numeric column that is not a factor is analysed. Empty cells are missing.
+
+Output: text (aligned tables for a terminal), json (every number at full precision; see the README
+for the fields) or csv (one row per treatment mean).`,
+		flags: func(env Env) (*flag.FlagSet, func(context.Context, []string) error) {
+			o := &analyzeOptions{}
+			fs := flag.NewFlagSet("analyze", flag.ContinueOnError)
+			fs.StringVar(&o.trait, "trait", "", "analyse only this trait `key` (trial files)")
+			fs.StringVar(&o.treatment, "treatment", "", "CSV: the treatment `column`")
+			fs.StringVar(&o.block, "block", "", "CSV: the block `column` (gives an RCBD)")
+			fs.StringVar(&o.row, "row", "", "CSV: the Latin square row `column`")
+			fs.StringVar(&o.column, "column", "", "CSV: the Latin square column `column`")
+			fs.Var(&o.responses, "response", "CSV: a response `column` to analyse (repeatable)")
+			fs.Float64Var(&o.alpha, "alpha", analysis.DefaultAlpha, "significance level")
+			fs.StringVar(&o.format, "format", "text", "output format: text, json or csv")
+			fs.StringVar(&o.transform, "transform", "", "analyse transformed values: log, sqrt or arcsin")
+			fs.BoolVar(&o.unprotected, "unprotected", false, "give LSD letters even when the treatment F test is not significant")
+			return fs, func(ctx context.Context, args []string) error {
+				if len(args) != 1 {
+					return usagef("analyze: give one input file (a .furlong trial or a .csv table)")
+				}
+				return runAnalyze(ctx, o, args[0], env)
+			}
+		},
+	})
+}
+
+func runAnalyze(ctx context.Context, o *analyzeOptions, path string, env Env) error {
+	switch o.format {
+	case "text", "json", "csv":
+	default:
+		return usagef("analyze: --format must be text, json or csv, not %q", o.format)
+	}
+	if !(o.alpha > 0 && o.alpha < 1) {
+		return usagef("analyze: --alpha must be between 0 and 1, for example 0.05")
+	}
+	tf, err := parseTransform(o.transform)
+	if err != nil {
+		return err
+	}
+	opts := analysis.Options{Alpha: o.alpha, Unprotected: o.unprotected, Transform: tf}
+	var outcomes []analysis.Outcome
+	if isCSV(path) {
+		outcomes, err = analyzeCSV(o, path, opts)
+	} else {
+		if o.treatment != "" || o.block != "" || o.row != "" || o.column != "" || len(o.responses) > 0 {
+			return usagef("analyze: --treatment, --block, --row, --column and --response are for CSV input; a trial file knows its design")
+		}
+		var t *trial.Trial
+		t, err = trialfile.Load(path)
+		if err != nil {
+			return err
+		}
+		var keys []string
+		if o.trait != "" {
+			if t.Trait(o.trait) == nil {
+				return fmt.Errorf("the trial has no trait %q (it has %s)", o.trait, traitKeys(t))
+			}
+			keys = []string{o.trait}
+		}
+		outcomes, err = analysis.AnalyzeAll(ctx, t, keys, opts)
+	}
+	if err != nil {
+		return err
+	}
+	switch o.format {
+	case "json":
+		err = writeAnalysisJSON(env.Stdout, outcomes)
+	case "csv":
+		err = writeAnalysisCSV(env.Stdout, outcomes)
+	default:
+		err = writeAnalysisText(env.Stdout, outcomes)
+	}
+	if err != nil {
+		return err
+	}
+	failed := 0
+	for _, oc := range outcomes {
+		if oc.Err != nil {
+			failed++
+			if o.format != "text" {
+				fmt.Fprintf(env.Stderr, "furlong: %s\n", oc.Err)
+			}
+		}
+	}
+	if failed == len(outcomes) {
+		return &ExitError{Code: ExitFailure, Msg: "no trait could be analysed"}
+	}
+	return nil
+}
+
+func parseTransform(s string) (stats.Transform, error) {
+	switch strings.ToLower(s) {
+	case "", "none":
+		return stats.NoTransform, nil
+	case "log":
+		return stats.Log, nil
+	case "sqrt":
+		return stats.Sqrt, nil
+	case "arcsin", "arcsine":
+		return stats.ArcsineSqrt, nil
+	}
+	return "", usagef("--transform must be log, sqrt or arcsin, not %q", s)
+}
+
+func isCSV(path string) bool {
+	l := strings.ToLower(path)
+	return strings.HasSuffix(l, ".csv") || strings.HasSuffix(l, ".tsv") || strings.HasSuffix(l, ".txt")
+}
+
+func traitKeys(t *trial.Trial) string {
+	var ks []string
+	for _, tr := range t.Traits {
+		ks = append(ks, tr.Key)
+	}
+	if len(ks) == 0 {
+		return "no traits"
+	}
+	return strings.Join(ks, ", ")
+}
+
+// analyzeCSV reads a table and analyses each response column.
+func analyzeCSV(o *analyzeOptions, path string, opts analysis.Options) ([]analysis.Outcome, error) {
+	if o.trait != "" {
+		return nil, usagef("analyze: --trait is for trial files; use --response for a CSV column")
+	}
+	if o.treatment == "" {
+		return nil, usagef("analyze: say which column holds the treatments with --treatment COL")
+	}
+	if (o.row == "") != (o.column == "") {
+		return nil, usagef("analyze: a Latin square needs both --row and --column")
+	}
+	if o.block != "" && o.row != "" {
+		return nil, usagef("analyze: give --block (RCBD) or --row and --column (Latin square), not both")
+	}
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	rows, err := fieldbook.ReadTable(f)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", path, err)
+	}
+	tab, err := analysis.ParseTable(rows, analysis.TableColumns{
+		Treatment: o.treatment, Block: o.block, Row: o.row, Column: o.column, Responses: o.responses,
+	})
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", path, err)
+	}
+	var out []analysis.Outcome
+	for _, d := range tab {
+		r, err := analysis.AnalyzeData(d, opts)
+		out = append(out, analysis.Outcome{Key: d.TraitKey, Result: r, Err: err})
+	}
+	return out, nil
+}
+
+// ---- output ----
+
+type jsonANOVA struct {
+	Source string   `json:"source"`
+	DF     int      `json:"df"`
+	SS     float64  `json:"ss"`
+	MS     *float64 `json:"ms"`
+	F      *float64 `json:"f"`
+	P      *float64 `json:"p"`
+}
+
+type jsonMean struct {
+	Treatment    string   `json:"treatment"`
+	N            int      `json:"n"`
+	Mean         float64  `json:"mean"`
+	RawMean      float64  `json:"raw_mean"`
+	SE           float64  `json:"se"`
+	BackMean     *float64 `json:"back_transformed_mean,omitempty"`
+	LettersLSD   *string  `json:"letters_lsd"`
+	LettersTukey string   `json:"letters_tukey"`
+}
+
+type jsonPair struct {
+	A      string  `json:"a"`
+	B      string  `json:"b"`
+	Diff   float64 `json:"diff"`
+	SE     float64 `json:"se"`
+	PLSD   float64 `json:"p_lsd"`
+	PTukey float64 `json:"p_tukey"`
+}
+
+type jsonOutlier struct {
+	Plot        int     `json:"plot"`
+	Treatment   string  `json:"treatment"`
+	Value       float64 `json:"value"`
+	Residual    float64 `json:"residual"`
+	StdResidual float64 `json:"std_residual"`
+}
+
+type jsonDiagnostics struct {
+	ShapiroW       *float64      `json:"shapiro_w"`
+	ShapiroP       *float64      `json:"shapiro_p"`
+	LeveneF        *float64      `json:"levene_f"`
+	LeveneP        *float64      `json:"levene_p"`
+	BartlettK2     *float64      `json:"bartlett_k2"`
+	BartlettP      *float64      `json:"bartlett_p"`
+	NonAdditivityF *float64      `json:"nonadditivity_f"`
+	NonAdditivityP *float64      `json:"nonadditivity_p"`
+	Outliers       []jsonOutlier `json:"outliers"`
+}
+
+type jsonTrait struct {
+	Trait       string           `json:"trait"`
+	Error       *string          `json:"error,omitempty"`
+	Design      string           `json:"design,omitempty"`
+	Transform   *string          `json:"transform,omitempty"`
+	N           int              `json:"n"`
+	Missing     int              `json:"missing"`
+	Excluded    int              `json:"excluded"`
+	ANOVA       []jsonANOVA      `json:"anova"`
+	GrandMean   *float64         `json:"grand_mean"`
+	MSE         *float64         `json:"mse"`
+	DFError     *int             `json:"df_error"`
+	CVPercent   *float64         `json:"cv_percent"`
+	RSquared    *float64         `json:"r_squared"`
+	RelEff      *float64         `json:"relative_efficiency"`
+	Means       []jsonMean       `json:"means"`
+	LSD         *float64         `json:"lsd"`
+	HSD         *float64         `json:"hsd"`
+	Pairs       []jsonPair       `json:"pairs"`
+	Diagnostics *jsonDiagnostics `json:"diagnostics"`
+	Warnings    []string         `json:"warnings"`
+}
+
+func fp(v float64) *float64 { return &v }
+
+func toJSON(oc analysis.Outcome) jsonTrait {
+	jt := jsonTrait{Trait: oc.Key, ANOVA: []jsonANOVA{}, Means: []jsonMean{}, Pairs: []jsonPair{}, Warnings: []string{}}
+	if oc.Err != nil {
+		msg := oc.Err.Error()
+		jt.Error = &msg
+		return jt
+	}
+	r := oc.Result
+	a := r.ANOVA
+	jt.Design = string(r.Design)
+	if r.Transform != stats.NoTransform {
+		s := string(r.Transform)
+		jt.Transform = &s
+	}
+	jt.N, jt.Missing, jt.Excluded = r.N, r.Missing, len(r.Excluded)
+	for _, s := range a.Sources {
+		row := jsonANOVA{Source: s.Name, DF: s.DF, SS: s.SS}
+		if s.Name != "total" {
+			row.MS = fp(s.MS)
+		}
+		if s.HasTest {
+			row.F, row.P = fp(s.F), fp(s.P)
+		}
+		jt.ANOVA = append(jt.ANOVA, row)
+	}
+	jt.GrandMean, jt.MSE, jt.CVPercent, jt.RSquared = fp(a.GrandMean), fp(a.MSE), fp(a.CVPercent), fp(a.RSquared)
+	df := a.DFError
+	jt.DFError = &df
+	if a.RelativeEfficiency > 0 {
+		jt.RelEff = fp(a.RelativeEfficiency)
+	}
+	for _, m := range r.Means {
+		jm := jsonMean{Treatment: m.Treatment, N: m.N, Mean: m.Mean, RawMean: m.RawMean, SE: m.SE, LettersTukey: m.LettersTukey}
+		if r.LSDLettersGiven {
+			l := m.LettersLSD
+			jm.LettersLSD = &l
+		}
+		if r.Transform != stats.NoTransform {
+			jm.BackMean = fp(m.BackMean)
+		}
+		jt.Means = append(jt.Means, jm)
+	}
+	jt.LSD, jt.HSD = r.LSD, r.HSD
+	for _, p := range r.Pairs {
+		jt.Pairs = append(jt.Pairs, jsonPair{A: p.A, B: p.B, Diff: p.Diff, SE: p.SE, PLSD: p.PLSD, PTukey: p.PTukey})
+	}
+	d := r.Diagnostics
+	jd := &jsonDiagnostics{ShapiroW: d.ShapiroW, ShapiroP: d.ShapiroP, LeveneF: d.LeveneF, LeveneP: d.LeveneP,
+		BartlettK2: d.BartlettK2, BartlettP: d.BartlettP, NonAdditivityF: d.NonAdditivityF, NonAdditivityP: d.NonAdditivityP,
+		Outliers: []jsonOutlier{}}
+	for _, o := range d.Outliers {
+		jd.Outliers = append(jd.Outliers, jsonOutlier{Plot: o.Plot, Treatment: o.Treatment, Value: o.Value, Residual: o.Residual, StdResidual: o.StdResidual})
+	}
+	jt.Diagnostics = jd
+	jt.Warnings = append(jt.Warnings, r.Warnings...)
+	return jt
+}
+
+func writeAnalysisJSON(w io.Writer, outcomes []analysis.Outcome) error {
+	doc := struct {
+		Traits []jsonTrait `json:"traits"`
+	}{Traits: []jsonTrait{}}
+	for _, oc := range outcomes {
+		doc.Traits = append(doc.Traits, toJSON(oc))
+	}
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", "  ")
+	return enc.Encode(doc)
+}
+
+func writeAnalysisCSV(w io.Writer, outcomes []analysis.Outcome) error {
+	cw := csv.NewWriter(w)
+	_ = cw.Write([]string{"trait", "treatment", "n", "mean", "raw_mean", "se", "letters_lsd", "letters_tukey",
+		"grand_mean", "cv_percent", "df_error", "mse", "p_treatment", "lsd", "hsd"})
+	g := func(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+	gp := func(v *float64) string {
+		if v == nil {
+			return ""
+		}
+		return g(*v)
+	}
+	for _, oc := range outcomes {
+		if oc.Err != nil {
+			continue
+		}
+		r := oc.Result
+		a := r.ANOVA
+		for _, m := range r.Means {
+			_ = cw.Write([]string{r.TraitKey, m.Treatment, strconv.Itoa(m.N), g(m.Mean), g(m.RawMean), g(m.SE),
+				m.LettersLSD, m.LettersTukey, g(a.GrandMean), g(a.CVPercent), strconv.Itoa(a.DFError), g(a.MSE),
+				g(a.Sources[0].P), gp(r.LSD), gp(r.HSD)})
+		}
+	}
+	cw.Flush()
+	return cw.Error()
+}
+
+// FormatP prints a p-value for people: "<0.001" below a thousandth.
+func FormatP(p float64) string {
+	if p < 0.001 {
+		return "<0.001"
+	}
+	return strconv.FormatFloat(p, 'f', 3, 64)
+}
+
+func writeAnalysisText(w io.Writer, outcomes []analysis.Outcome) error {
+	for n, oc := range outcomes {
+		if n > 0 {
+			fmt.Fprintln(w)
+		}
+		if oc.Err != nil {
+			fmt.Fprintf(w, "%s\n%s\nNot analysed: %s\n", oc.Key, strings.Repeat("-", len(oc.Key)), strings.TrimPrefix(oc.Err.Error(), oc.Key+": "))
+			continue
+		}
+		writeResultText(w, oc.Result)
+	}
+	return nil
+}
+
+func writeResultText(w io.Writer, r *analysis.Result) {
+	a := r.ANOVA
+	title := r.TraitKey
+	if r.TraitName != "" && r.TraitName != r.TraitKey {
+		title += " — " + r.TraitName
+	}
+	if r.Unit != "" {
+		title += " (" + r.Unit + ")"
+	}
+	fmt.Fprintln(w, title)
+	fmt.Fprintln(w, strings.Repeat("-", len([]rune(title))))
+	dec := r.Decimals
+	if dec < 2 {
+		dec = 2
+	}
+	num := func(v float64, d int) string { return strconv.FormatFloat(v, 'f', d, 64) }
+	fmt.Fprintf(w, "%s, %d observations", designLabel(r.Design), r.N)
+	if r.Missing > 0 {
+		fmt.Fprintf(w, ", %d missing", r.Missing)
+	}
+	if len(r.Excluded) > 0 {
+		fmt.Fprintf(w, ", %d excluded", len(r.Excluded))
+	}
+	if r.Transform != stats.NoTransform {
+		fmt.Fprintf(w, ", analysed as %s", r.Transform)
+	}
+	fmt.Fprintln(w)
+	fmt.Fprintln(w)
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
+	fmt.Fprintln(tw, "Source\tdf\tSS\tMS\tF\tp\t")
+	for _, s := range a.Sources {
+		ms, f, p := "", "", ""
+		if s.Name != "total" {
+			ms = num(s.MS, 4)
+		}
+		if s.HasTest {
+			f, p = num(s.F, 2), FormatP(s.P)
+		}
+		fmt.Fprintf(tw, "%s\t%d\t%s\t%s\t%s\t%s\t\n", s.Name, s.DF, num(s.SS, 4), ms, f, p)
+	}
+	tw.Flush()
+	fmt.Fprintln(w)
+	fmt.Fprintf(w, "Grand mean %s   CV %.1f%%   R² %.3f   error df %d   MSE %s\n",
+		num(a.GrandMean, dec), a.CVPercent, a.RSquared, a.DFError, num(a.MSE, 4))
+	var line []string
+	if a.Balanced && a.SEMean > 0 {
+		line = append(line, "SE of a mean "+num(a.SEMean, dec), "SED "+num(a.SED, dec))
+	}
+	if r.LSD != nil {
+		line = append(line, fmt.Sprintf("LSD(%g) %s", r.Alpha, num(*r.LSD, dec)))
+	}
+	if r.HSD != nil {
+		line = append(line, fmt.Sprintf("HSD(%g) %s", r.Alpha, num(*r.HSD, dec)))
+	}
+	if r.LSD == nil && r.HSD == nil {
+		line = append(line, "replication is unequal: each pair has its own standard error")
+	}
+	if a.RelativeEfficiency > 0 {
+		line = append(line, fmt.Sprintf("blocking efficiency vs CRD %.2f", a.RelativeEfficiency))
+	}
+	fmt.Fprintln(w, strings.Join(line, "   "))
+	fmt.Fprintln(w)
+
+	tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	hdr := "Treatment\tn\tMean\tRaw mean\tSE\tLSD\tTukey\t"
+	if r.Transform != stats.NoTransform {
+		hdr = "Treatment\tn\tMean\tBack-transformed\tRaw mean\tSE\tLSD\tTukey\t"
+	}
+	fmt.Fprintln(tw, hdr)
+	order := meanOrder(r)
+	for _, i := range order {
+		m := r.Means[i]
+		code := m.Treatment
+		if m.Check {
+			code += " (check)"
+		}
+		lsd := m.LettersLSD
+		if !r.LSDLettersGiven {
+			lsd = "-"
+		}
+		if r.Transform != stats.NoTransform {
+			fmt.Fprintf(tw, "%s\t%d\t%s\t%s\t%s\t%s\t%s\t%s\t\n", code, m.N, num(m.Mean, dec), num(m.BackMean, dec), num(m.RawMean, dec), num(m.SE, dec), lsd, m.LettersTukey)
+		} else {
+			fmt.Fprintf(tw, "%s\t%d\t%s\t%s\t%s\t%s\t%s\t\n", code, m.N, num(m.Mean, dec), num(m.RawMean, dec), num(m.SE, dec), lsd, m.LettersTukey)
+		}
+	}
+	tw.Flush()
+	fmt.Fprintf(w, "Means sharing a letter do not differ at the %g level.\n", r.Alpha)
+	if d := r.Diagnostics; d.ShapiroW != nil || d.LeveneF != nil || d.NonAdditivityF != nil {
+		var parts []string
+		if d.ShapiroW != nil {
+			parts = append(parts, fmt.Sprintf("Shapiro–Wilk W %.4f, p %s", *d.ShapiroW, FormatP(*d.ShapiroP)))
+		}
+		if d.LeveneF != nil {
+			parts = append(parts, fmt.Sprintf("Levene (median) F %.3f, p %s", *d.LeveneF, FormatP(*d.LeveneP)))
+		}
+		if d.BartlettK2 != nil {
+			parts = append(parts, fmt.Sprintf("Bartlett K² %.3f, p %s", *d.BartlettK2, FormatP(*d.BartlettP)))
+		}
+		if d.NonAdditivityF != nil {
+			parts = append(parts, fmt.Sprintf("non-additivity F %.3f, p %s", *d.NonAdditivityF, FormatP(*d.NonAdditivityP)))
+		}
+		fmt.Fprintf(w, "Diagnostics: %s\n", strings.Join(parts, "; "))
+	}
+	for _, s := range r.Warnings {
+		fmt.Fprintf(w, "Note: %s\n", s)
+	}
+}
+
+// meanOrder lists treatments best first (highest mean first, or lowest
+// when lower is better).
+func meanOrder(r *analysis.Result) []int {
+	idx := make([]int, len(r.Means))
+	for i := range idx {
+		idx[i] = i
+	}
+	sort.SliceStable(idx, func(a, b int) bool {
+		ma, mb := r.Means[idx[a]].Mean, r.Means[idx[b]].Mean
+		if r.HigherBetter {
+			return ma > mb
+		}
+		return ma < mb
+	})
+	return idx
+}
+
+func designLabel(k trial.DesignKind) string {
+	switch k {
+	case trial.CRD:
+		return "Completely randomised design (one-way ANOVA)"
+	case trial.RCBD:
+		return "Randomised complete blocks"
+	case trial.Latin:
+		return "Latin square"
+	}
+	return string(k)
+}

@@ -1,0 +1,175 @@
+package cli
+
+import (
+	"context"
+	"flag"
+	"fmt"
+	"io"
+	"sort"
+	"strings"
+
+	"furlong/trial"
+	"furlong/trial/trialfile"
+)
+
+func init() {
+	register(&command{
+		name:    "show",
+		summary: "print a trial's summary and field map as text",
+		usage:   "furlong show TRIAL",
+		details: `Prints the trial's details, treatments, traits with how much data is entered, excluded plots,
+and the field map block by block: each cell is a plot number and its treatment code.
+Field row 1 is printed at the bottom and column 1 at the left, as on the printed map.`,
+		flags: func(env Env) (*flag.FlagSet, func(context.Context, []string) error) {
+			fs := flag.NewFlagSet("show", flag.ContinueOnError)
+			return fs, func(ctx context.Context, args []string) error {
+				if len(args) != 1 {
+					return usagef("show: give one trial file")
+				}
+				t, err := trialfile.Load(args[0])
+				if err != nil {
+					return err
+				}
+				return writeShow(env.Stdout, t)
+			}
+		},
+	})
+}
+
+func writeShow(w io.Writer, t *trial.Trial) error {
+	s := t.Summary()
+	fmt.Fprintln(w, t.Title)
+	fmt.Fprintln(w, strings.Repeat("=", len([]rune(t.Title))))
+	line := func(label, v string) {
+		if v != "" {
+			fmt.Fprintf(w, "%-14s %s\n", label+":", v)
+		}
+	}
+	line("Crop", t.Crop)
+	line("Season", t.Season)
+	line("Site", t.Site.Name)
+	if t.Site.Latitude != nil && t.Site.Longitude != nil {
+		line("Coordinates", fmt.Sprintf("%.5f, %.5f", *t.Site.Latitude, *t.Site.Longitude))
+	}
+	line("Soil", t.Site.Soil)
+	line("Previous crop", t.Site.PreviousCrop)
+	line("Investigator", t.Investigator)
+	line("Objective", t.Objective)
+	line("Design", designName(t.Design))
+	l := t.Layout
+	line("Plot", fmt.Sprintf("%g × %g m, harvested %.4g m², alley %g m", l.PlotLength, l.PlotWidth, l.HarvestedArea(), l.Alley))
+	line("Plots", fmt.Sprintf("%d in %d blocks, numbered %s, walked %s", s.Plots, s.Blocks, l.Numbering, l.Walk))
+	if t.Randomized() {
+		line("Randomised", fmt.Sprintf("seed %d (%s) on %s", t.Random.Seed, t.Random.Method, t.Random.Done.Format("2 Jan 2006")))
+	} else {
+		line("Randomised", "not yet")
+	}
+	line("Notes", t.Notes)
+
+	fmt.Fprintf(w, "\nTreatments (%d, %d check):\n", s.Treatments, s.Checks)
+	for _, tr := range t.Treatments {
+		role := ""
+		if tr.Role == trial.RoleCheck {
+			role = "check"
+		}
+		fmt.Fprintf(w, "  %-12s %-30s %s\n", tr.Code, tr.Name, role)
+	}
+
+	if len(t.Traits) > 0 {
+		fmt.Fprintf(w, "\nTraits (%.0f%% of recorded values entered):\n", s.PercentEntered)
+		for i, tr := range t.Traits {
+			unit := ""
+			if tr.Unit != "" {
+				unit = " (" + tr.Unit + ")"
+			}
+			state := ""
+			if tr.Derived != nil {
+				state = "derived from " + tr.Derived.WeightTrait + " and " + tr.Derived.MoistureTrait
+			} else if i < len(s.Traits) {
+				ts := s.Traits[i]
+				state = fmt.Sprintf("%d of %d plots entered", ts.Entered, s.Plots)
+			}
+			fmt.Fprintf(w, "  %-10s %-30s %s\n", tr.Key, tr.Name+unit, state)
+		}
+	}
+	var excl []string
+	for _, p := range t.Plots {
+		for _, e := range p.Exclusions {
+			what := "all traits"
+			if e.Trait != "" {
+				what = e.Trait
+			}
+			excl = append(excl, fmt.Sprintf("  plot %d (%s): %s", p.Number, what, e.Reason))
+		}
+	}
+	if len(excl) > 0 {
+		fmt.Fprintln(w, "\nExcluded from analysis:")
+		fmt.Fprintln(w, strings.Join(excl, "\n"))
+	}
+	fmt.Fprintln(w)
+	writeTextMap(w, t)
+	return nil
+}
+
+// writeTextMap prints each block's plots as a grid, field row 1 at the bottom.
+func writeTextMap(w io.Writer, t *trial.Trial) {
+	byBlock := map[int][]trial.Plot{}
+	width := 0
+	for _, p := range t.Plots {
+		byBlock[p.Block] = append(byBlock[p.Block], p)
+		if n := len(fmt.Sprintf("%d %s", p.Number, p.Treatment)); n > width {
+			width = n
+		}
+	}
+	blocks := make([]int, 0, len(byBlock))
+	for b := range byBlock {
+		blocks = append(blocks, b)
+	}
+	sort.Ints(blocks)
+	label := "Block"
+	if t.Design.Kind == trial.Latin {
+		// A Latin square is one block; its rows are the field rows.
+		label = "Square row"
+		blocks = []int{0}
+		byBlock[0] = t.Plots
+	}
+	if t.Design.Kind == trial.CRD {
+		label = ""
+	}
+	fmt.Fprintln(w, "Field map (plot number and treatment; field row 1 at the bottom, column 1 at the left):")
+	for _, b := range blocks {
+		plots := byBlock[b]
+		minR, maxR, minC, maxC := plots[0].Row, plots[0].Row, plots[0].Column, plots[0].Column
+		cell := map[[2]int]trial.Plot{}
+		for _, p := range plots {
+			minR, maxR = min(minR, p.Row), max(maxR, p.Row)
+			minC, maxC = min(minC, p.Column), max(maxC, p.Column)
+			cell[[2]int{p.Row, p.Column}] = p
+		}
+		switch {
+		case t.Design.Kind == trial.Latin:
+			fmt.Fprintln(w, "\nSquare")
+		case label != "":
+			fmt.Fprintf(w, "\n%s %d\n", label, b)
+		default:
+			fmt.Fprintln(w)
+		}
+		for r := maxR; r >= minR; r-- {
+			fmt.Fprintf(w, "  row %3d |", r)
+			for c := minC; c <= maxC; c++ {
+				p, ok := cell[[2]int{r, c}]
+				txt := ""
+				if ok {
+					txt = fmt.Sprintf("%d %s", p.Number, p.Treatment)
+				}
+				fmt.Fprintf(w, " %-*s |", width, txt)
+			}
+			fmt.Fprintln(w)
+		}
+		fmt.Fprintf(w, "  %9s", "")
+		for c := minC; c <= maxC; c++ {
+			fmt.Fprintf(w, " %-*s  ", width, fmt.Sprintf("col %d", c))
+		}
+		fmt.Fprintln(w)
+	}
+}

@@ -1,0 +1,367 @@
+// Package export holds the tables that every Furlong report format shares:
+// the summary of treatment means across traits, the choice of the yield trait
+// and each entry's yield as a percentage of the check, and the plain-language
+// reading of an analysis' diagnostics. The writers for particular formats
+// live in sub-packages (export/xlsx, export/chart).
+package export
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"strconv"
+	"strings"
+
+	"furlong/stats"
+	"furlong/trial"
+	"furlong/trial/analysis"
+)
+
+// TraitResult is the analysis of one trait of a trial, or the reason it
+// could not be analysed.
+type TraitResult struct {
+	Trait  string           // trait key
+	Result *analysis.Result // nil when Err is set
+	Err    error
+}
+
+// ErrNoValues is the reason given for a trait that has no analysis because no
+// values were recorded for it.
+var ErrNoValues = errors.New("no values recorded for this trait yet")
+
+// Reason returns the plain-language reason a trait has no analysis, or "" when
+// it has one.
+func (r TraitResult) Reason() string {
+	switch {
+	case r.Result != nil && r.Err == nil:
+		return ""
+	case r.Err != nil:
+		return r.Err.Error()
+	default:
+		return ErrNoValues.Error()
+	}
+}
+
+// Summary is the table most trial reports lead with: one row per treatment,
+// one column per trait with the mean and its letters, and the lines of
+// statistics under the means.
+type Summary struct {
+	Method analysis.Method
+	Alpha  float64
+	Traits []SummaryTrait
+	Rows   []SummaryRow
+	// Yield is the index in Traits of the trait used for the percentage of
+	// the check, -1 when there is none (see YieldTrait).
+	Yield int
+	// CheckMean is the mean of the check entries for the yield trait; valid
+	// when HasCheck.
+	CheckMean float64
+	HasCheck  bool
+}
+
+// SummaryTrait is one trait column of a Summary.
+type SummaryTrait struct {
+	Key, Name, Unit string
+	Decimals        int
+	Result          *analysis.Result // nil when the trait could not be analysed
+	Reason          string           // why there is no Result
+
+	GrandMean float64
+	CVPercent float64
+	// MSD is the least significant difference (LSD) or honestly significant
+	// difference (HSD) at Alpha, by Method; nil when replication is unequal.
+	MSD *float64
+	// P is the p-value of the treatment F test; HasP is false when the
+	// ANOVA has no treatment test.
+	P    float64
+	HasP bool
+}
+
+// SummaryRow is one treatment of a Summary.
+type SummaryRow struct {
+	Treatment string // code
+	Name      string
+	Check     bool
+	Cells     []SummaryCell // one per Summary.Traits
+	// PercentOfCheck is the entry's yield as a percentage of the check mean,
+	// nil when the summary has no yield trait or no check.
+	PercentOfCheck *float64
+}
+
+// SummaryCell is the mean of one treatment for one trait.
+type SummaryCell struct {
+	OK      bool    // false when the trait has no analysis or no mean for the treatment
+	Mean    float64 // on the original scale (back-transformed when the analysis was transformed)
+	Letters string  // mean separation letters by the summary's method; "" when withheld
+}
+
+// MSDLabel names the minimum significant difference of the method:
+// "LSD (0.05)" or "HSD (0.05)".
+func MSDLabel(m analysis.Method, alpha float64) string {
+	name := "LSD"
+	if m == analysis.Tukey {
+		name = "HSD"
+	}
+	return fmt.Sprintf("%s (%s)", name, strconv.FormatFloat(alpha, 'f', -1, 64))
+}
+
+// Letters returns the letters of mean m by method.
+func Letters(m analysis.Mean, method analysis.Method) string {
+	if method == analysis.Tukey {
+		return m.LettersTukey
+	}
+	return m.LettersLSD
+}
+
+// MSD returns the LSD or HSD of r by method, nil when replication is unequal.
+func MSD(r *analysis.Result, method analysis.Method) *float64 {
+	if method == analysis.Tukey {
+		return r.HSD
+	}
+	return r.LSD
+}
+
+// TreatmentSource returns the treatment line of an ANOVA table, false when
+// there is none.
+func TreatmentSource(a *stats.ANOVA) (stats.Source, bool) {
+	if a == nil {
+		return stats.Source{}, false
+	}
+	for _, s := range a.Sources {
+		if s.Name == "treatment" {
+			return s, true
+		}
+	}
+	return stats.Source{}, false
+}
+
+// YieldTrait returns the index in traits of the trait whose means are shown
+// as a percentage of the check: the first derived adjusted-yield trait, else
+// the first trait keyed or named "yield" (case-insensitively), else -1.
+func YieldTrait(traits []trial.Trait) int {
+	for i, tr := range traits {
+		if tr.Derived != nil && tr.Derived.Kind == trial.AdjustedYield {
+			return i
+		}
+	}
+	for i, tr := range traits {
+		if strings.EqualFold(strings.TrimSpace(tr.Key), "yield") || strings.EqualFold(strings.TrimSpace(tr.Name), "yield") {
+			return i
+		}
+	}
+	return -1
+}
+
+// FindTrait returns the index of the trait with key in t, -1 when absent.
+func FindTrait(t *trial.Trial, key string) int {
+	for i := range t.Traits {
+		if t.Traits[i].Key == key {
+			return i
+		}
+	}
+	return -1
+}
+
+// ReportTraits returns the traits of t that a report covers: those listed in
+// keys, in that order, or every trait of t when keys is empty. Unknown keys
+// are skipped.
+func ReportTraits(t *trial.Trial, keys []string) []trial.Trait {
+	if len(keys) == 0 {
+		return append([]trial.Trait(nil), t.Traits...)
+	}
+	var out []trial.Trait
+	seen := make(map[string]bool)
+	for _, k := range keys {
+		if seen[k] {
+			continue
+		}
+		seen[k] = true
+		if i := FindTrait(t, k); i >= 0 {
+			out = append(out, t.Traits[i])
+		}
+	}
+	return out
+}
+
+// LookupResult returns the result for trait key in results.
+func LookupResult(results []TraitResult, key string) (TraitResult, bool) {
+	for _, r := range results {
+		if r.Trait == key {
+			return r, true
+		}
+		if r.Trait == "" && r.Result != nil && r.Result.TraitKey == key {
+			return r, true
+		}
+	}
+	return TraitResult{}, false
+}
+
+// NewSummary builds the summary table of the traits of t listed in keys
+// (every trait when empty) from their results, separating means by method.
+// A trait with no result, or whose result carries an error, has a column
+// with no means and its Reason set.
+func NewSummary(t *trial.Trial, results []TraitResult, keys []string, method analysis.Method, alpha float64) *Summary {
+	traits := ReportTraits(t, keys)
+	s := &Summary{Method: method, Alpha: alpha, Yield: YieldTrait(traits)}
+	s.Traits = make([]SummaryTrait, len(traits))
+	for j, tr := range traits {
+		st := SummaryTrait{Key: tr.Key, Name: tr.Name, Unit: tr.Unit, Decimals: tr.Decimals}
+		if st.Name == "" {
+			st.Name = tr.Key
+		}
+		r, ok := LookupResult(results, tr.Key)
+		switch {
+		case !ok:
+			st.Reason = "this trait was not analysed"
+		case r.Reason() != "":
+			st.Reason = r.Reason()
+		default:
+			st.Result = r.Result
+			if a := r.Result.ANOVA; a != nil {
+				st.GrandMean = a.GrandMean
+				st.CVPercent = a.CVPercent
+			}
+			st.MSD = MSD(r.Result, method)
+			if src, ok := TreatmentSource(r.Result.ANOVA); ok && src.HasTest {
+				st.P, st.HasP = src.P, true
+			}
+		}
+		s.Traits[j] = st
+	}
+
+	s.Rows = make([]SummaryRow, len(t.Treatments))
+	for i, tm := range t.Treatments {
+		row := SummaryRow{Treatment: tm.Code, Name: tm.Name, Check: tm.Role == trial.RoleCheck}
+		row.Cells = make([]SummaryCell, len(s.Traits))
+		for j, st := range s.Traits {
+			if st.Result == nil {
+				continue
+			}
+			for _, m := range st.Result.Means {
+				if m.Treatment == tm.Code {
+					if finite(m.BackMean) {
+						row.Cells[j] = SummaryCell{OK: true, Mean: m.BackMean, Letters: Letters(m, method)}
+					}
+					break
+				}
+			}
+		}
+		s.Rows[i] = row
+	}
+
+	if s.Yield >= 0 && s.Traits[s.Yield].Result != nil {
+		var sum float64
+		var n int
+		for _, row := range s.Rows {
+			if c := row.Cells[s.Yield]; row.Check && c.OK {
+				sum += c.Mean
+				n++
+			}
+		}
+		if n > 0 && sum != 0 {
+			s.CheckMean, s.HasCheck = sum/float64(n), true
+			for i := range s.Rows {
+				if c := s.Rows[i].Cells[s.Yield]; c.OK {
+					p := 100 * c.Mean / s.CheckMean
+					s.Rows[i].PercentOfCheck = &p
+				}
+			}
+		}
+	}
+	return s
+}
+
+func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
+
+// PText writes a p-value for prose: "<0.001" below 0.001, else three
+// decimals.
+func PText(p float64) string {
+	if p < 0.001 {
+		return "<0.001"
+	}
+	return strconv.FormatFloat(p, 'f', 3, 64)
+}
+
+// DiagnosticAlpha is the level at which the model checks are read. The 5%
+// level is the usual convention for assumption tests (common practice).
+const DiagnosticAlpha = 0.05
+
+// Diagnostics reads the model checks of r in plain words, one sentence each:
+// normality of the residuals (Shapiro–Wilk), equality of variances (Levene,
+// Bartlett), additivity of blocks and treatments (Tukey's test) and large
+// residuals.
+func Diagnostics(r *analysis.Result) []string {
+	d := r.Diagnostics
+	var out []string
+	if d.ShapiroW != nil && d.ShapiroP != nil {
+		s := fmt.Sprintf("Normality of residuals (Shapiro–Wilk): W = %.3f, p = %s: ", *d.ShapiroW, PText(*d.ShapiroP))
+		if *d.ShapiroP < DiagnosticAlpha {
+			s += "the residuals depart from a normal distribution; look for outliers or consider a transformation."
+		} else {
+			s += "no evidence against normally distributed residuals."
+		}
+		out = append(out, s)
+	}
+	variance := func(test, stat string, v, p *float64) {
+		if v == nil || p == nil {
+			return
+		}
+		s := fmt.Sprintf("Equal variances among treatments (%s): %s = %.3f, p = %s: ", test, stat, *v, PText(*p))
+		if *p < DiagnosticAlpha {
+			s += "the spread differs between treatments; means of the more variable treatments are less certain."
+		} else {
+			s += "no evidence that the spread differs between treatments."
+		}
+		out = append(out, s)
+	}
+	variance("Levene, median-centred", "F", d.LeveneF, d.LeveneP)
+	variance("Bartlett", "K²", d.BartlettK2, d.BartlettP)
+	if d.NonAdditivityF != nil && d.NonAdditivityP != nil {
+		s := fmt.Sprintf("Additivity of blocks and treatments (Tukey's one-degree-of-freedom test): F = %.3f, p = %s: ", *d.NonAdditivityF, PText(*d.NonAdditivityP))
+		if *d.NonAdditivityP < DiagnosticAlpha {
+			s += "treatment differences change from block to block; a log transformation may help."
+		} else {
+			s += "no evidence that treatment differences change from block to block."
+		}
+		out = append(out, s)
+	}
+	for _, o := range d.Outliers {
+		out = append(out, fmt.Sprintf("Plot %d (%s): value %s lies far from its expected value (standardised residual %.2f); check the field record.",
+			o.Plot, o.Treatment, strconv.FormatFloat(o.Value, 'f', max(r.Decimals, 0), 64), o.StdResidual))
+	}
+	return out
+}
+
+// ExclusionReason returns why plot p is left out of the analysis of the
+// trait with key, "" when it is not. Reasons of several exclusions are
+// joined with "; ".
+func ExclusionReason(p trial.Plot, key string) string {
+	var reasons []string
+	for _, e := range p.Exclusions {
+		if e.Trait == "" || e.Trait == key {
+			r := strings.TrimSpace(e.Reason)
+			if r == "" {
+				r = "excluded"
+			}
+			reasons = append(reasons, r)
+		}
+	}
+	return strings.Join(reasons, "; ")
+}
+
+// PlotExclusions returns every exclusion reason of plot p, for all traits,
+// "" when the plot has none.
+func PlotExclusions(p trial.Plot) string {
+	var reasons []string
+	for _, e := range p.Exclusions {
+		r := strings.TrimSpace(e.Reason)
+		if r == "" {
+			r = "excluded"
+		}
+		if e.Trait != "" {
+			r = e.Trait + ": " + r
+		}
+		reasons = append(reasons, r)
+	}
+	return strings.Join(reasons, "; ")
+}

@@ -1,0 +1,465 @@
+package xlsx
+
+import (
+	"context"
+	"errors"
+	"math"
+	"strconv"
+	"strings"
+	"testing"
+	"unicode/utf16"
+
+	"github.com/xuri/excelize/v2"
+
+	"furlong/export"
+	"furlong/trial"
+	"furlong/trial/analysis"
+)
+
+func TestReportSummaryNumbers(t *testing.T) {
+	t.Parallel()
+	tr, exp := barleyTrial(t)
+	res := barleyResults(tr, exp)
+	f, _ := writeReport(t, tr, res, ReportOptions{Method: analysis.LSD, Version: "test"})
+	sum := export.NewSummary(tr, res, nil, analysis.LSD, 0.05)
+	yield := res[0].Result
+
+	head := findRow(t, f, SummarySheet, 1, "Treatment")
+	if head == 0 {
+		t.Fatal("summary has no header row")
+	}
+	// Trait columns start at D, two columns (mean, letters) per trait.
+	for j, st := range sum.Traits {
+		col := 4 + 2*j
+		if got := textAt(t, f, SummarySheet, cell(col, head)); got != traitLabel(st.Name, st.Unit) {
+			t.Errorf("header of trait %d = %q, want %q", j, got, traitLabel(st.Name, st.Unit))
+		}
+	}
+	checkMean := 0.0
+	for _, m := range yield.Means {
+		if m.Check {
+			checkMean = m.Mean
+		}
+	}
+	for i, m := range yield.Means {
+		row := head + 1 + i
+		if got := textAt(t, f, SummarySheet, cell(1, row)); got != m.Treatment {
+			t.Fatalf("row %d: treatment %q, want %q", row, got, m.Treatment)
+		}
+		// The stored number is the analysis' mean exactly: full float64
+		// precision, not the 2 decimals shown.
+		if got := numberAt(t, f, SummarySheet, cell(4, row)); got != m.BackMean {
+			t.Errorf("%s mean = %v, want %v", m.Treatment, got, m.BackMean)
+		}
+		// And against the R reference (testdata, emmeans least-squares mean).
+		if got := numberAt(t, f, SummarySheet, cell(4, row)); !near(got, exp.Means[i].LSMean, 1e-12) {
+			t.Errorf("%s mean = %v, R gives %v", m.Treatment, got, exp.Means[i].LSMean)
+		}
+		if got := textAt(t, f, SummarySheet, cell(5, row)); got != m.LettersLSD {
+			t.Errorf("%s letters = %q, want %q", m.Treatment, got, m.LettersLSD)
+		}
+		role := textAt(t, f, SummarySheet, cell(3, row))
+		if (role == "check") != m.Check {
+			t.Errorf("%s role %q, check %v", m.Treatment, role, m.Check)
+		}
+		// Yield as % of the check: 100 × mean / check mean (common practice).
+		pctCol := 4 + 2*len(sum.Traits)
+		if got, want := numberAt(t, f, SummarySheet, cell(pctCol, row)), 100*m.Mean/checkMean; !near(got, want, 1e-14) {
+			t.Errorf("%s %% of check = %v, want %v", m.Treatment, got, want)
+		}
+		// The all-missing trait (column after the three analysed ones) shows a dash.
+		if got := textAt(t, f, SummarySheet, cell(4+2*4, row)); got != "—" {
+			t.Errorf("all-missing trait shows %q, want a dash", got)
+		}
+	}
+	stat := head + 1 + len(yield.Means)
+	for i, want := range []struct {
+		label string
+		v     float64
+		ref   float64
+	}{
+		{"Grand mean", yield.ANOVA.GrandMean, exp.GrandMean},
+		{"CV%", yield.ANOVA.CVPercent, exp.CV},
+		{"LSD (0.05)", *yield.LSD, exp.LSD},
+		{"p (treatments)", yield.ANOVA.Sources[0].P, *exp.ANOVA[1].P},
+	} {
+		if got := textAt(t, f, SummarySheet, cell(1, stat+i)); got != want.label {
+			t.Errorf("statistics row %d: %q, want %q", i, got, want.label)
+		}
+		got := numberAt(t, f, SummarySheet, cell(4, stat+i))
+		if got != want.v {
+			t.Errorf("%s = %v, want %v", want.label, got, want.v)
+		}
+		if !near(got, want.ref, 1e-6) {
+			t.Errorf("%s = %v, R gives %v", want.label, got, want.ref)
+		}
+	}
+	// Number formats: the trait's 2 decimals, and <0.001 for p.
+	if got := cellFormat(t, f, SummarySheet, cell(4, head+1)); got != "0.00" {
+		t.Errorf("mean number format %q, want 0.00", got)
+	}
+	if got := cellFormat(t, f, SummarySheet, cell(4, stat+3)); got != PFormat {
+		t.Errorf("p number format %q, want %q", got, PFormat)
+	}
+	// The shown value through excelize's own formatter (RawCellValue off).
+	if got, _ := f.GetCellValue(SummarySheet, cell(4, head+1)); got != strconv.FormatFloat(yield.Means[0].BackMean, 'f', 2, 64) {
+		t.Errorf("shown mean %q", got)
+	}
+}
+
+// cellFormat returns the custom number format of a cell.
+func cellFormat(tb testing.TB, f *excelize.File, sheet, c string) string {
+	tb.Helper()
+	id, err := f.GetCellStyle(sheet, c)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	st, err := f.GetStyle(id)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	if st.CustomNumFmt == nil {
+		return ""
+	}
+	return *st.CustomNumFmt
+}
+
+func TestReportTraitSheet(t *testing.T) {
+	t.Parallel()
+	tr, exp := barleyTrial(t)
+	res := barleyResults(tr, exp)
+	f, _ := writeReport(t, tr, res, ReportOptions{Method: analysis.Tukey})
+	r := res[0].Result
+	sh := "Yield"
+	head := findRow(t, f, sh, 1, "Source")
+	if head == 0 {
+		t.Fatal("no ANOVA table")
+	}
+	for i, src := range r.ANOVA.Sources {
+		row := head + 1 + i
+		if got := textAt(t, f, sh, cell(1, row)); got != sourceName(src.Name) {
+			t.Errorf("source %d = %q", i, got)
+		}
+		if got := numberAt(t, f, sh, cell(2, row)); got != float64(src.DF) {
+			t.Errorf("%s df = %v", src.Name, got)
+		}
+		if got := numberAt(t, f, sh, cell(3, row)); got != src.SS {
+			t.Errorf("%s SS = %v, want %v", src.Name, got, src.SS)
+		}
+		if src.Name != "total" {
+			if got := numberAt(t, f, sh, cell(4, row)); got != src.MS {
+				t.Errorf("%s MS = %v", src.Name, got)
+			}
+		}
+		if src.HasTest {
+			if got := numberAt(t, f, sh, cell(5, row)); got != src.F {
+				t.Errorf("%s F = %v", src.Name, got)
+			}
+			if got := numberAt(t, f, sh, cell(6, row)); got != src.P {
+				t.Errorf("%s p = %v", src.Name, got)
+			}
+		} else if got := textAt(t, f, sh, cell(5, row)); got != "" {
+			t.Errorf("%s has F %q; the error and total lines have no test", src.Name, got)
+		}
+	}
+	// Against R (car::Anova type II, testdata): variety SS and F.
+	if got := numberAt(t, f, sh, cell(3, head+1)); !near(got, exp.ANOVA[1].SS, 1e-12) {
+		t.Errorf("treatment SS %v, R gives %v", got, exp.ANOVA[1].SS)
+	}
+	mh := findRow(t, f, sh, 1, "Treatment")
+	for i, m := range r.Means {
+		row := mh + 1 + i
+		if got := textAt(t, f, sh, cell(1, row)); got != m.Treatment {
+			t.Fatalf("means row %d = %q", i, got)
+		}
+		for c, want := range []float64{float64(m.N), m.Mean, m.RawMean, m.SE} {
+			if got := numberAt(t, f, sh, cell(3+c, row)); got != want {
+				t.Errorf("%s column %d = %v, want %v", m.Treatment, 3+c, got, want)
+			}
+		}
+		if got := textAt(t, f, sh, cell(7, row)); got != m.LettersTukey {
+			t.Errorf("%s letters %q", m.Treatment, got)
+		}
+	}
+	for _, want := range []struct {
+		label string
+		v     float64
+	}{
+		{"Grand mean", r.ANOVA.GrandMean}, {"CV%", r.ANOVA.CVPercent}, {"R²", r.ANOVA.RSquared},
+		{"SE of a mean", r.ANOVA.SEMean}, {"SED", r.ANOVA.SED}, {"HSD (0.05)", *r.HSD},
+		{"Relative efficiency of blocking", r.ANOVA.RelativeEfficiency},
+	} {
+		row := findRow(t, f, sh, 1, want.label)
+		if row == 0 {
+			t.Errorf("no %s line", want.label)
+			continue
+		}
+		if got := numberAt(t, f, sh, cell(2, row)); got != want.v {
+			t.Errorf("%s = %v, want %v", want.label, got, want.v)
+		}
+	}
+	// The Shapiro–Wilk reading is given in words with its p.
+	rows, _ := f.GetRows(sh)
+	var all strings.Builder
+	for _, r := range rows {
+		all.WriteString(strings.Join(r, " ") + "\n")
+	}
+	if !strings.Contains(all.String(), "Shapiro–Wilk") || !strings.Contains(all.String(), "p = 0.019") {
+		t.Errorf("trait sheet lacks the Shapiro–Wilk reading:\n%s", all.String())
+	}
+	if strings.Contains(all.String(), "NaN") {
+		t.Error("trait sheet shows NaN")
+	}
+}
+
+func TestReportAllMissingTrait(t *testing.T) {
+	t.Parallel()
+	tr, exp := barleyTrial(t)
+	res := barleyResults(tr, exp)
+	f, _ := writeReport(t, tr, res, ReportOptions{})
+	if idx, _ := f.GetSheetIndex("Lodging"); idx < 0 {
+		t.Fatalf("no sheet for the all-missing trait; sheets %v", f.GetSheetList())
+	}
+	if got := textAt(t, f, "Lodging", "A3"); !strings.Contains(got, export.ErrNoValues.Error()) {
+		t.Errorf("all-missing trait sheet says %q", got)
+	}
+	// A trait with no result at all is reported too, not a failure.
+	f2, _ := writeReport(t, tr, res[:1], ReportOptions{Traits: []string{"yield", "lodge"}})
+	if got := textAt(t, f2, "Lodging", "A3"); !strings.Contains(got, "not analysed") {
+		t.Errorf("unanalysed trait sheet says %q", got)
+	}
+}
+
+// validSheetName applies Excel's rules for sheet names, as documented by
+// Microsoft ("Rename a worksheet": at most 31 characters; not blank; none of
+// / \ ? * : [ ]; not beginning or ending with an apostrophe; not "History").
+func validSheetName(s string) bool {
+	n := len(utf16.Encode([]rune(s)))
+	return n > 0 && n <= 31 && !strings.ContainsAny(s, `/\?*:[]`) &&
+		!strings.HasPrefix(s, "'") && !strings.HasSuffix(s, "'") && !strings.EqualFold(s, "History")
+}
+
+func TestSheetNamesHostile(t *testing.T) {
+	t.Parallel()
+	tr, exp := barleyTrial(t)
+	// More hostile names: duplicates by case, reserved, quotes, empty, the
+	// fixed sheets' names, brackets and astral-plane letters (invented).
+	extra := []string{"yield", "YIELD", "History", "'quoted'", "", "Data", "Summary", "[a]*?\\b", strings.Repeat("𝔸", 40), "   "}
+	for i, n := range extra {
+		key := "x" + strconv.Itoa(i)
+		tr.Traits = append(tr.Traits, trial.Trait{Key: key, Name: n, Kind: trial.Continuous, Values: make([]float64, len(tr.Plots))})
+	}
+	res := barleyResults(tr, exp)[:4]
+	f, _ := writeReport(t, tr, res, ReportOptions{})
+	names := f.GetSheetList()
+	if len(names) != 4+len(tr.Traits) {
+		t.Fatalf("%d sheets, want %d: %q", len(names), 4+len(tr.Traits), names)
+	}
+	seen := map[string]bool{}
+	for _, n := range names {
+		if !validSheetName(n) {
+			t.Errorf("invalid sheet name %q", n)
+		}
+		k := strings.ToLower(n)
+		if seen[k] {
+			t.Errorf("sheet name %q repeated (case-insensitively)", n)
+		}
+		seen[k] = true
+	}
+	for _, want := range []string{"Ertrag-Fläche- Σ", "收获"} {
+		if !seen[strings.ToLower(want)] {
+			t.Errorf("no sheet %q in %q", want, names)
+		}
+	}
+	// Hostile-named traits carry the same numbers as yield.
+	for _, sh := range []string{"Ertrag-Fläche- Σ", "收获"} {
+		mh := findRow(t, f, sh, 1, "Treatment")
+		if got := numberAt(t, f, sh, cell(4, mh+1)); got != res[0].Result.Means[0].Mean {
+			t.Errorf("%s first mean %v", sh, got)
+		}
+	}
+}
+
+func TestSheetNamer(t *testing.T) {
+	t.Parallel()
+	n := newSheetNamer()
+	for _, c := range []struct{ in, want string }{
+		{"Yield", "Yield"},
+		{"yield", "yield (2)"},
+		{"a/b:c", "a-b-c"},
+		{"history", "history (2)"},
+		{"''", "Sheet"},
+		{strings.Repeat("x", 40), strings.Repeat("x", 31)},
+		{strings.Repeat("x", 40), strings.Repeat("x", 27) + " (2)"},
+	} {
+		if got := n.name(c.in, ""); got != c.want || !validSheetName(got) {
+			t.Errorf("name(%q) = %q, want %q", c.in, got, c.want)
+		}
+	}
+}
+
+func TestReportDataSheet(t *testing.T) {
+	t.Parallel()
+	tr, exp := barleyTrial(t)
+	// Plot 3 missing, plot 5 excluded (hail).
+	tr.Traits[0].Values[2] = trial.Missing
+	tr.Plots[4].Exclusions = []trial.Exclusion{{Reason: "hail"}}
+	tr.Plots[6].Note = "bird damage"
+	f, _ := writeReport(t, tr, barleyResults(tr, exp), ReportOptions{})
+	rows, err := f.GetRows(DataSheet, excelize.Options{RawCellValue: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	head := rows[0]
+	if head[0] != "Plot" || head[6] != "yield (bu/ac)" || head[len(head)-2] != "Excluded" {
+		t.Fatalf("data header %q", head)
+	}
+	for i, p := range tr.Plots {
+		row := i + 2
+		if got := numberAt(t, f, DataSheet, cell(1, row)); got != float64(p.Number) {
+			t.Errorf("row %d plot %v, want %d", row, got, p.Number)
+		}
+		if got := numberAt(t, f, DataSheet, cell(3, row)); got != float64(p.Row) {
+			t.Errorf("row %d field row %v", row, got)
+		}
+		v := tr.Traits[0].Values[i]
+		if trial.IsMissing(v) {
+			// A missing value is an empty cell, not zero.
+			if got := textAt(t, f, DataSheet, cell(7, row)); got != "" {
+				t.Errorf("missing value written as %q", got)
+			}
+			continue
+		}
+		if got := numberAt(t, f, DataSheet, cell(7, row)); got != v {
+			t.Errorf("plot %d yield %v, want %v", p.Number, got, v)
+		}
+	}
+	if got := textAt(t, f, DataSheet, cell(len(head)-1, 6)); got != "hail" {
+		t.Errorf("excluded plot marked %q", got)
+	}
+	if got := textAt(t, f, DataSheet, cell(len(head), 8)); got != "bird damage" {
+		t.Errorf("note %q", got)
+	}
+}
+
+func TestReportFieldMap(t *testing.T) {
+	t.Parallel()
+	tr, exp := barleyTrial(t)
+	f, _ := writeReport(t, tr, barleyResults(tr, exp), ReportOptions{})
+	colour := map[string]string{}
+	for i, tm := range tr.Treatments {
+		colour[tm.Code] = OkabeIto[i%8]
+	}
+	for _, p := range tr.Plots {
+		c := cell(1+p.Column, 3+p.Row)
+		want := strconv.Itoa(p.Number) + "\n" + p.Treatment
+		if got := textAt(t, f, FieldMapSheet, c); got != want {
+			t.Errorf("map %s = %q, want %q", c, got, want)
+		}
+		id, _ := f.GetCellStyle(FieldMapSheet, c)
+		st, _ := f.GetStyle(id)
+		if len(st.Fill.Color) == 0 || !strings.EqualFold(strings.TrimPrefix(st.Fill.Color[0], "#"), colour[p.Treatment]) {
+			t.Errorf("plot %d fill %v, want %s", p.Number, st.Fill.Color, colour[p.Treatment])
+		}
+	}
+}
+
+// The palette is Okabe & Ito (2008), "Color Universal Design", as listed in
+// the brief; the font chosen on each fill must reach the WCAG 2.1 contrast of
+// at least 4.5:1 for normal text (WCAG 2.1, success criterion 1.4.3).
+func TestFieldMapContrast(t *testing.T) {
+	t.Parallel()
+	want := []string{"E69F00", "56B4E9", "009E73", "F0E442", "0072B2", "D55E00", "CC79A7", "000000"}
+	for i, hex := range want {
+		if OkabeIto[i] != hex {
+			t.Errorf("palette[%d] = %s, want %s", i, OkabeIto[i], hex)
+		}
+		l, lf := luminance(hex), luminance(fontFor(hex))
+		ratio := (math.Max(l, lf) + 0.05) / (math.Min(l, lf) + 0.05)
+		if ratio < 4.5 {
+			t.Errorf("%s with font %s: contrast %.2f < 4.5", hex, fontFor(hex), ratio)
+		}
+	}
+	// WCAG's extremes: black on white is 21:1.
+	if got := (luminance("FFFFFF") + 0.05) / (luminance("000000") + 0.05); math.Abs(got-21) > 1e-12 {
+		t.Errorf("white/black contrast %v, want 21", got)
+	}
+	if fontFor("000000") != "FFFFFF" || fontFor("0072B2") != "FFFFFF" || fontFor("F0E442") != "000000" {
+		t.Error("font colours on black, blue or yellow fills")
+	}
+}
+
+func TestReportPrintSetup(t *testing.T) {
+	t.Parallel()
+	tr, exp := barleyTrial(t)
+	f, _ := writeReport(t, tr, barleyResults(tr, exp), ReportOptions{Paper: Letter})
+	for _, sh := range f.GetSheetList() {
+		pl, err := f.GetPageLayout(sh)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if pl.FitToWidth == nil || *pl.FitToWidth != 1 || pl.FitToHeight == nil || *pl.FitToHeight != 0 {
+			t.Errorf("%s: fit to width %v height %v", sh, pl.FitToWidth, pl.FitToHeight)
+		}
+		// Paper size codes, ECMA-376 Part 1 §18.3.1.64: 1 is Letter.
+		if pl.Size == nil || *pl.Size != 1 {
+			t.Errorf("%s: paper %v, want Letter (1)", sh, pl.Size)
+		}
+		if sh != CoverSheet && (pl.Orientation == nil || *pl.Orientation != "landscape") {
+			t.Errorf("%s: orientation %v", sh, pl.Orientation)
+		}
+		props, err := f.GetSheetProps(sh)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if props.FitToPage == nil || !*props.FitToPage {
+			t.Errorf("%s: fit to page not set", sh)
+		}
+		hf, err := f.GetHeaderFooter(sh)
+		if err != nil {
+			t.Fatal(err)
+		}
+		// "&" in the title is doubled in a header (ECMA-376 §18.3.1.39).
+		if !strings.Contains(hf.OddHeader, "Barley variety test && demo") {
+			t.Errorf("%s: header %q", sh, hf.OddHeader)
+		}
+	}
+	panes, err := f.GetPanes(SummarySheet)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !panes.Freeze || panes.YSplit != 4 {
+		t.Errorf("summary panes %+v", panes)
+	}
+	// Column widths fit: the name column of the summary is at least as wide
+	// as its longest name.
+	w, _ := f.GetColWidth(SummarySheet, "B")
+	if w < float64(len("Wisconsin_No_38")) {
+		t.Errorf("summary name column width %v", w)
+	}
+}
+
+func TestReportProgressCancel(t *testing.T) {
+	t.Parallel()
+	tr, exp := barleyTrial(t)
+	res := barleyResults(tr, exp)
+	var calls [][2]int
+	writeReport(t, tr, res, ReportOptions{Progress: func(d, n int) { calls = append(calls, [2]int{d, n}) }})
+	total := 4 + len(tr.Traits)
+	if len(calls) != total || calls[total-1] != [2]int{total, total} {
+		t.Errorf("progress calls %v", calls)
+	}
+	ctx, cancel := context.WithCancel(context.Background())
+	var b strings.Builder
+	err := WriteReport(&b, tr, res, ReportOptions{Ctx: ctx, Progress: func(d, n int) {
+		if d == 2 {
+			cancel()
+		}
+	}})
+	if !errors.Is(err, context.Canceled) {
+		t.Errorf("cancelled report returned %v", err)
+	}
+	if b.Len() != 0 {
+		t.Error("cancelled report wrote output")
+	}
+}

@@ -1,0 +1,235 @@
+package xlsx
+
+import (
+	"fmt"
+	"strings"
+
+	"github.com/xuri/excelize/v2"
+
+	"furlong/export"
+	"furlong/stats"
+	"furlong/trial"
+)
+
+// sourceName is the ANOVA line label shown for a stats source name.
+func sourceName(n string) string {
+	switch n {
+	case "treatment":
+		return "Treatments"
+	case "block":
+		return "Blocks"
+	case "row":
+		return "Rows"
+	case "column":
+		return "Columns"
+	case "error":
+		return "Error"
+	case "total":
+		return "Total"
+	}
+	if n == "" {
+		return dash
+	}
+	return strings.ToUpper(n[:1]) + n[1:]
+}
+
+func transformName(t stats.Transform) string {
+	switch t {
+	case stats.Log:
+		return "natural log"
+	case stats.Sqrt:
+		return "square root"
+	case stats.ArcsineSqrt:
+		return "arcsine square root"
+	}
+	return string(t)
+}
+
+// Columns of the means table on a trait sheet.
+const (
+	meansFirstCol = 1
+	chartCol      = 10 // column J: the chart sits right of the tables
+)
+
+func (r *report) writeTrait(name string, tr trial.Trait) error {
+	s := newSheet(r.f, r.st, name)
+	title := traitLabel(nonEmpty(tr.Name, tr.Key), tr.Unit)
+	s.textNoWidth(1, 1, title, titleStyle)
+	res, _ := export.LookupResult(r.res, tr.Key)
+	reason := res.Reason()
+	if _, ok := export.LookupResult(r.res, tr.Key); !ok {
+		reason = "this trait was not analysed"
+	}
+	if reason != "" {
+		s.textNoWidth(1, 3, "No analysis: "+reason+".", styleKey{bold: true})
+		s.textNoWidth(1, 4, "Record values for this trait in the field book, then run the report again.", noteStyle)
+		s.widths[1] = 12
+		s.fitColumns(8, 40)
+		s.printSetup(r.opts.Paper, true, r.t.Title+": "+title)
+		return s.err
+	}
+	a := res.Result
+	dec := tr.Decimals
+	s.textNoWidth(1, 2, fmt.Sprintf("%s; key %q; %d plots analysed, %d missing, %d excluded.",
+		designName(a.Design), tr.Key, a.N, a.Missing, len(a.Excluded)), noteStyle)
+	row := 3
+	if a.Transform != stats.NoTransform {
+		s.textNoWidth(1, row, "Analysed on the "+transformName(a.Transform)+" scale; the back-transformed means are on the original scale.", noteStyle)
+		row++
+	}
+	row++
+
+	// Analysis of variance.
+	s.textNoWidth(1, row, "Analysis of variance", sectionStyle)
+	row++
+	for i, h := range []string{"Source", "df", "SS", "MS", "F", "p"} {
+		s.text(1+i, row, h, headStyle)
+	}
+	row++
+	if a.ANOVA != nil {
+		for _, src := range a.ANOVA.Sources {
+			s.text(1, row, sourceName(src.Name), styleKey{})
+			s.integer(2, row, src.DF, styleKey{})
+			s.numOrDash(3, row, src.SS, numStyle(3))
+			if src.Name != "total" {
+				s.numOrDash(4, row, src.MS, numStyle(3))
+			}
+			if src.HasTest {
+				s.numOrDash(5, row, src.F, numStyle(2))
+				s.numOrDash(6, row, src.P, pStyle)
+			}
+			row++
+		}
+		if a.ANOVA.Adjusted {
+			s.textNoWidth(1, row, "Unbalanced data: each sum of squares is adjusted for the other terms, so they do not add up to the total.", noteStyle)
+			row++
+		}
+	}
+	row++
+
+	// Means.
+	meanDec := dec
+	if a.Transform != stats.NoTransform {
+		meanDec = dec + 2
+	}
+	s.textNoWidth(1, row, "Treatment means", sectionStyle)
+	row++
+	s.textNoWidth(1, row, r.methodNote(), noteStyle)
+	row++
+	heads := []string{"Treatment", "Name", "n", "LS mean", "Raw mean", "SE", "Letters"}
+	if a.Transform != stats.NoTransform {
+		heads = append(heads, "Back-transformed mean")
+	}
+	for i, h := range heads {
+		s.text(meansFirstCol+i, row, h, headStyle)
+	}
+	meansHead := row
+	row++
+	for _, m := range a.Means {
+		label := m.Name
+		if m.Check {
+			label = strings.TrimSpace(label + " (check)")
+		}
+		s.text(1, row, m.Treatment, styleKey{})
+		s.text(2, row, label, styleKey{bold: m.Check})
+		s.integer(3, row, m.N, styleKey{})
+		s.numOrDash(4, row, m.Mean, numStyle(meanDec))
+		s.numOrDash(5, row, m.RawMean, numStyle(dec))
+		s.numOrDash(6, row, m.SE, numStyle(meanDec+1))
+		s.text(7, row, export.Letters(m, r.opts.Method), styleKey{})
+		if a.Transform != stats.NoTransform {
+			s.numOrDash(8, row, m.BackMean, numStyle(dec))
+		}
+		row++
+	}
+	row++
+
+	// Statistics.
+	s.textNoWidth(1, row, "Statistics", sectionStyle)
+	row++
+	stat := func(label string, v float64, ok bool, k styleKey, note string) {
+		s.text(1, row, label, labelStyle)
+		switch {
+		case ok && finiteF(v):
+			s.num(2, row, v, k)
+		case note != "":
+			s.textNoWidth(2, row, note, noteStyle)
+		default:
+			s.text(2, row, dash, dashStyle)
+		}
+		row++
+	}
+	if an := a.ANOVA; an != nil {
+		stat("Grand mean", an.GrandMean, true, numStyle(meanDec), "")
+		stat("CV%", an.CVPercent, true, numStyle(1), "")
+		stat("R²", an.RSquared, true, numStyle(3), "")
+		stat("SE of a mean", an.SEMean, an.SEMean > 0, numStyle(meanDec+1), "unequal n: see the SE of each mean")
+		stat("SED", an.SED, an.SED > 0, numStyle(meanDec+1), "unequal n: each pair has its own SED")
+	}
+	msd := export.MSD(a, r.opts.Method)
+	stat(export.MSDLabel(r.opts.Method, r.opts.Alpha), deref(msd), msd != nil, numStyle(meanDec+1), "unequal n: each pair has its own")
+	if a.ANOVA != nil {
+		stat("Relative efficiency of blocking", a.ANOVA.RelativeEfficiency, a.ANOVA.RelativeEfficiency > 0, numStyle(2), "not applicable")
+	}
+	row++
+
+	notes := append([]string(nil), a.Warnings...)
+	diag := export.Diagnostics(a)
+	if len(notes) > 0 {
+		s.textNoWidth(1, row, "Notes", sectionStyle)
+		row++
+		for _, n := range notes {
+			s.textNoWidth(1, row, n, proseStyle)
+			row++
+		}
+		row++
+	}
+	if len(diag) > 0 {
+		s.textNoWidth(1, row, "Model checks", sectionStyle)
+		row++
+		for _, n := range diag {
+			s.textNoWidth(1, row, n, proseStyle)
+			row++
+		}
+	}
+
+	s.widths[1] = maxF(s.widths[1], 10)
+	s.freeze(0, 0)
+	s.fitColumns(6, 40)
+	if r.opts.Charts && s.err == nil {
+		png, err := meansChartPNG(r.t, a, r.opts)
+		if err != nil {
+			// A chart that cannot be drawn leaves a note, not a failed report.
+			s.textNoWidth(chartCol, meansHead, err.Error(), noteStyle)
+		} else {
+			yes := true
+			s.fail(r.f.AddPictureFromBytes(name, cellName(chartCol, meansHead), &excelize.Picture{
+				Extension: ".png", File: png,
+				Format: &excelize.GraphicOptions{AltText: "Chart of the means of " + title, PrintObject: &yes, LockAspectRatio: true},
+			}))
+		}
+	}
+	s.printSetup(r.opts.Paper, true, r.t.Title+": "+title)
+	return s.err
+}
+
+func nonEmpty(a, b string) string {
+	if strings.TrimSpace(a) != "" {
+		return a
+	}
+	return b
+}
+
+func deref(p *float64) float64 {
+	if p == nil {
+		return 0
+	}
+	return *p
+}
+
+func maxF(a, b float64) float64 {
+	if a > b {
+		return a
+	}
+	return b
+}

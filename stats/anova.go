@@ -1,0 +1,55 @@
+package stats
+
+// ANOVA is the fitted model and its analysis of variance.
+type ANOVA struct {
+	// Sources lists treatment, then the nuisance factors in Model order,
+	// then "error" and "total". With unbalanced data (missing plots) each
+	// factor's SS is adjusted for all the others (type II, equal to type III
+	// for these additive models) and the lines no longer add up to the total.
+	Sources []Source
+	N       int // observations fitted
+
+	GrandMean float64 // arithmetic mean of all observations
+	MSE       float64 // error mean square
+	DFError   int
+	CVPercent float64 // 100·√MSE / GrandMean
+	RSquared  float64 // 1 − SS(error)/SS(total)
+
+	// Balanced is true when every treatment×nuisance cell has the same
+	// count (no missing plots); sums of squares then add up.
+	Balanced bool
+	Adjusted bool // true when SS are adjusted (unbalanced data)
+
+	Means []LevelMean // one per treatment level, in level order
+	// SEMean and SED are the standard error of a treatment mean and of a
+	// difference of two means for balanced data (0 when unbalanced: use
+	// PairSE).
+	SEMean float64
+	SED    float64
+	// RelativeEfficiency of the blocking against a completely randomised
+	// design (Gomez & Gomez 1984, section 2.2.3), with that section's
+	// adjustment when the error df are below 20; 0 when not applicable
+	// (only an RCBD with one plot of each treatment in every block and no
+	// missing plots has one).
+	RelativeEfficiency float64
+
+	Fitted    []float64 // per observation, in input order
+	Residuals []float64
+
+	// Leverage of each observation (diagonal of the hat matrix), for
+	// standardised residuals: r_i / √(MSE·(1−h_i)). h_i is 1 for the only
+	// observation of a treatment; its residual is then 0 and has no
+	// standardised value.
+	Leverage []float64
+
+	pairSE func(i, j int) float64
+}
+
+// PairSE is the standard error of the difference of the least-squares means
+// of treatment levels i and j, from the fitted model:
+// √(MSE·(1/nᵢ + 1/nⱼ + (cᵢ−cⱼ)ᵀS(cᵢ−cⱼ))), where S is the covariance (over
+// σ²) of the nuisance effects and cᵢ the imbalance of treatment i over the
+// nuisance levels (zero for balanced data). It costs O(p) for p nuisance
+// parameters, so all pairs of a large trial are cheap. PairSE(i, i) is 0;
+// it panics when i or j is not a treatment level.
+func (a *ANOVA) PairSE(i, j int) float64 { return a.pairSE(i, j) }

@@ -1,0 +1,5 @@
+package meansep
+
+import "math"
+
+func nanValue() float64 { return math.NaN() }

@@ -1,0 +1,372 @@
+package analysis
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+	"strings"
+
+	"furlong/stats"
+	"furlong/stats/diag"
+	"furlong/trial"
+)
+
+// Data is one response classified by the factors of a design: the input of
+// AnalyzeData. Analyze builds it from a trial; the CLI builds it from a CSV
+// file. Observations with a NaN value are counted as missing and left out.
+type Data struct {
+	TraitKey     string
+	TraitName    string
+	Unit         string
+	Decimals     int
+	HigherBetter bool
+	Kind         trial.TraitKind
+
+	Design trial.DesignKind
+	// Treatments are the treatment labels in report order; Names and
+	// Checks (optional, same length) describe them.
+	Treatments []string
+	Names      []string
+	Checks     []bool
+	// Per observation: treatment index, value, and the plot label used in
+	// messages (the plot number, or the input line).
+	Treatment []int
+	Values    []float64
+	Plot      []int
+	// Blocks for an RCBD (Blocks levels, Block[i] in [0, Blocks)); rows and
+	// columns for a Latin square.
+	Block       []int
+	Blocks      int
+	BlockLabels []string // optional, for messages
+	Row, Column []int
+	Rows, Cols  int
+	// Excluded plots (already left out of the slices above).
+	Excluded []Excluded
+	// PlotIndex[i], when set, is the index of observation i in the trial's
+	// plots (Result.PlotIndex keeps the fitted ones).
+	PlotIndex []int
+}
+
+// Error is a trait that could not be analysed, with the reason in plain words.
+type Error struct {
+	Trait string
+	Msg   string
+	Err   error // the underlying cause, for errors.Is
+}
+
+func (e *Error) Error() string {
+	if e.Trait == "" {
+		return e.Msg
+	}
+	return e.Trait + ": " + e.Msg
+}
+
+func (e *Error) Unwrap() error { return e.Err }
+
+// ErrNoTrait is returned for a trait key the trial does not have.
+var ErrNoTrait = errors.New("the trial has no trait with that key")
+
+// DefaultAlpha is the significance level used when Options.Alpha is zero.
+const DefaultAlpha = 0.05
+
+// Analyze analyses one trait of a trial with the ANOVA of its design.
+func Analyze(t *trial.Trial, key string, o Options) (*Result, error) {
+	d, err := FromTrial(t, key)
+	if err != nil {
+		return nil, err
+	}
+	return AnalyzeData(d, o)
+}
+
+// Outcome is the analysis of one trait: a result or the reason there is none.
+type Outcome struct {
+	Key    string
+	Result *Result
+	Err    error
+}
+
+// AnalyzeAll analyses every trait of the trial (or those named in keys) in
+// trial order. A trait that cannot be analysed gets its error in the outcome;
+// the others are unaffected. It stops early when ctx is cancelled.
+func AnalyzeAll(ctx context.Context, t *trial.Trial, keys []string, o Options) ([]Outcome, error) {
+	if len(keys) == 0 {
+		for _, tr := range t.Traits {
+			keys = append(keys, tr.Key)
+		}
+	}
+	out := make([]Outcome, 0, len(keys))
+	for _, k := range keys {
+		if err := ctx.Err(); err != nil {
+			return out, err
+		}
+		r, err := Analyze(t, k, o)
+		out = append(out, Outcome{Key: k, Result: r, Err: err})
+	}
+	return out, nil
+}
+
+// FromTrial classifies one trait's values by the trial's design, leaving out
+// missing values and excluded plots.
+func FromTrial(t *trial.Trial, key string) (*Data, error) {
+	tr := t.Trait(key)
+	if tr == nil {
+		return nil, &Error{Trait: key, Msg: "the trial has no trait with this key", Err: ErrNoTrait}
+	}
+	vals, err := t.TraitValues(key)
+	if err != nil {
+		return nil, &Error{Trait: key, Msg: err.Error(), Err: err}
+	}
+	d := &Data{
+		TraitKey: tr.Key, TraitName: tr.Name, Unit: tr.Unit, Decimals: tr.Decimals,
+		HigherBetter: tr.HigherBetter, Kind: tr.Kind, Design: t.Design.Kind,
+	}
+	for _, trt := range t.Treatments {
+		d.Treatments = append(d.Treatments, trt.Code)
+		d.Names = append(d.Names, trt.Name)
+		d.Checks = append(d.Checks, trt.Role == trial.RoleCheck)
+	}
+	minRow, minCol := math.MaxInt, math.MaxInt
+	for _, p := range t.Plots {
+		minRow, minCol = min(minRow, p.Row), min(minCol, p.Column)
+	}
+	switch t.Design.Kind {
+	case trial.RCBD:
+		d.Blocks = t.Blocks()
+		for b := 1; b <= d.Blocks; b++ {
+			d.BlockLabels = append(d.BlockLabels, fmt.Sprintf("block %d", b))
+		}
+	case trial.Latin:
+		d.Rows, d.Cols = len(t.Treatments), len(t.Treatments)
+	}
+	for i, p := range t.Plots {
+		if ex, reason := t.Excluded(i, key); ex {
+			d.Excluded = append(d.Excluded, Excluded{Plot: p.Number, Reason: reason})
+			continue
+		}
+		ti := t.TreatmentIndex(p.Treatment)
+		if ti < 0 {
+			return nil, &Error{Trait: key, Msg: fmt.Sprintf("plot %d has treatment %q, which the trial does not list", p.Number, p.Treatment)}
+		}
+		d.Treatment = append(d.Treatment, ti)
+		d.Values = append(d.Values, vals[i])
+		d.Plot = append(d.Plot, p.Number)
+		d.PlotIndex = append(d.PlotIndex, i)
+		switch t.Design.Kind {
+		case trial.RCBD:
+			d.Block = append(d.Block, p.Block-1)
+		case trial.Latin:
+			d.Row = append(d.Row, p.Row-minRow)
+			d.Column = append(d.Column, p.Column-minCol)
+		}
+	}
+	return d, nil
+}
+
+// AnalyzeData fits the design's model to d and separates the means.
+func AnalyzeData(d *Data, o Options) (*Result, error) {
+	if o.Alpha == 0 {
+		o.Alpha = DefaultAlpha
+	}
+	if !(o.Alpha > 0 && o.Alpha < 1) {
+		return nil, &Error{Trait: d.TraitKey, Msg: fmt.Sprintf("the significance level must be between 0 and 1, not %g", o.Alpha)}
+	}
+	k := len(d.Treatments)
+	r := &Result{
+		TraitKey: d.TraitKey, TraitName: d.TraitName, Unit: d.Unit, Decimals: d.Decimals,
+		HigherBetter: d.HigherBetter, Design: d.Design, Alpha: o.Alpha, Transform: o.Transform,
+		Excluded: d.Excluded,
+	}
+	// Keep the observations with values.
+	var y []float64
+	var trt, blk, row, col, plots, pidx []int
+	for i, v := range d.Values {
+		if math.IsNaN(v) {
+			r.Missing++
+			continue
+		}
+		y = append(y, v)
+		trt = append(trt, d.Treatment[i])
+		plots = append(plots, d.Plot[i])
+		if d.PlotIndex != nil {
+			pidx = append(pidx, d.PlotIndex[i])
+		}
+		switch d.Design {
+		case trial.RCBD:
+			blk = append(blk, d.Block[i])
+		case trial.Latin:
+			row = append(row, d.Row[i])
+			col = append(col, d.Column[i])
+		}
+	}
+	r.N = len(y)
+	r.PlotIndex = pidx
+	fail := func(msg string, err error) (*Result, error) {
+		return nil, &Error{Trait: d.TraitKey, Msg: msg, Err: err}
+	}
+	if r.N == 0 {
+		return fail("no values recorded for this trait yet", stats.ErrNoData)
+	}
+	counts := make([]int, k)
+	for _, ti := range trt {
+		counts[ti]++
+	}
+	for ti, c := range counts {
+		if c == 0 {
+			return fail(fmt.Sprintf("treatment %s has no values to analyse; enter its values or exclude it", d.Treatments[ti]), stats.ErrEmptyLevel)
+		}
+	}
+	for i, v := range y {
+		if math.IsInf(v, 0) {
+			return fail(fmt.Sprintf("plot %d holds a value that is not a finite number", plots[i]), stats.ErrNonFiniteValue)
+		}
+	}
+
+	ty, offset, err := stats.ApplyTransform(o.Transform, y)
+	if err != nil {
+		return fail(describeStatsError(d, err, plots), err)
+	}
+	m := stats.Model{Response: ty, Treatment: stats.Factor{Name: "treatment", Levels: k, Index: trt}}
+	switch d.Design {
+	case trial.RCBD:
+		m.Nuisance = []stats.Factor{{Name: "block", Levels: d.Blocks, Index: blk}}
+	case trial.Latin:
+		m.Nuisance = []stats.Factor{
+			{Name: "row", Levels: d.Rows, Index: row},
+			{Name: "column", Levels: d.Cols, Index: col},
+		}
+	}
+	a, err := stats.Fit(m)
+	if err != nil {
+		return fail(describeStatsError(d, err, plots), err)
+	}
+	r.ANOVA = a
+
+	r.Means = make([]Mean, k)
+	lsm := make([]float64, k)
+	for i := range r.Means {
+		lm := a.Means[i]
+		mn := Mean{
+			Treatment: d.Treatments[i], N: lm.N, Mean: lm.Mean, RawMean: lm.RawMean, SE: lm.SE,
+			BackMean: stats.BackTransform(o.Transform, lm.Mean, offset),
+		}
+		if d.Names != nil {
+			mn.Name = d.Names[i]
+		}
+		if d.Checks != nil {
+			mn.Check = d.Checks[i]
+		}
+		r.Means[i] = mn
+		lsm[i] = lm.Mean
+	}
+	if err := separate(r, a, lsm, o); err != nil {
+		return fail(err.Error(), err)
+	}
+	diagnose(r, d, a, ty, trt, blk, plots)
+	notes(r, d, a)
+	return r, nil
+}
+
+// describeStatsError puts a stats input error in the trial's words.
+func describeStatsError(d *Data, err error, plots []int) string {
+	var ie *stats.InputError
+	if !errors.As(err, &ie) {
+		return err.Error()
+	}
+	switch {
+	case ie.Kind == stats.EmptyLevel && ie.Factor == "treatment" && ie.Level >= 0 && ie.Level < len(d.Treatments):
+		return fmt.Sprintf("treatment %s has no values to analyse", d.Treatments[ie.Level])
+	case ie.Kind == stats.EmptyLevel && ie.Factor == "block" && ie.Level >= 0:
+		return fmt.Sprintf("block %d has no values at all: a block needs at least one plot with a value", ie.Level+1)
+	case ie.Kind == stats.EmptyLevel && (ie.Factor == "row" || ie.Factor == "column") && ie.Level >= 0:
+		return fmt.Sprintf("Latin square %s %d has no values at all: every row and column of the square needs at least one plot with a value", ie.Factor, ie.Level+1)
+	case ie.Obs >= 0 && ie.Obs < len(plots):
+		return fmt.Sprintf("plot %d: %s", plots[ie.Obs], ie.Reason)
+	}
+	return ie.Reason
+}
+
+func diagnose(r *Result, d *Data, a *stats.ANOVA, y []float64, trt, blk, plots []int) {
+	dg := &r.Diagnostics
+	sum := diag.Summary{HasCV: true, CVPercent: a.CVPercent}
+	if sw, err := diag.ShapiroWilk(a.Residuals); err == nil {
+		dg.ShapiroW, dg.ShapiroP = ptr(sw.W), ptr(sw.P)
+		sum.HasNormality, sum.NormalityP = true, sw.P
+	}
+	if d.Design == trial.CRD {
+		if lv, err := diag.Levene(y, trt, len(d.Treatments), diag.Median); err == nil {
+			dg.LeveneF, dg.LeveneP = ptr(lv.F), ptr(lv.P)
+			sum.HasEqualVariance, sum.EqualVarianceP = true, lv.P
+		}
+		if bt, err := diag.Bartlett(y, trt, len(d.Treatments)); err == nil {
+			dg.BartlettK2, dg.BartlettP = ptr(bt.ChiSquare), ptr(bt.P)
+		}
+	}
+	if d.Design == trial.RCBD && a.Balanced {
+		if na, err := diag.TukeyNonAdditivity(y, blk, trt, d.Blocks, len(d.Treatments)); err == nil {
+			dg.NonAdditivityF, dg.NonAdditivityP = ptr(na.F), ptr(na.P)
+			sum.HasNonAdditivity, sum.NonAdditivityP = true, na.P
+		}
+	}
+	if std, err := diag.StandardisedResiduals(a.Residuals, a.Leverage, a.MSE); err == nil {
+		dg.StandardizedResiduals = std
+		outs := diag.Outliers(std, 0)
+		for i := range outs {
+			o := &outs[i]
+			o.Plot = fmt.Sprintf("plot %d", plots[o.Index])
+			dg.Outliers = append(dg.Outliers, Outlier{
+				Plot: plots[o.Index], Treatment: d.Treatments[trt[o.Index]],
+				Value: d.valueAt(o.Index, y), Residual: a.Residuals[o.Index], StdResidual: o.Std,
+			})
+		}
+		sum.Outliers = outs
+	}
+	r.Warnings = append(r.Warnings, diag.Readings(sum)...)
+}
+
+// valueAt is the analysed value of observation i (on the analysis scale).
+func (d *Data) valueAt(i int, y []float64) float64 { return y[i] }
+
+func notes(r *Result, d *Data, a *stats.ANOVA) {
+	var w []string
+	if r.Missing > 0 {
+		w = append(w, fmt.Sprintf("%s without a value left out of the analysis.", plural(r.Missing, "plot", "plots")))
+	}
+	if len(r.Excluded) > 0 {
+		var parts []string
+		for _, e := range r.Excluded {
+			parts = append(parts, fmt.Sprintf("plot %d (%s)", e.Plot, e.Reason))
+		}
+		sort.Strings(parts)
+		w = append(w, fmt.Sprintf("Excluded from the analysis: %s.", strings.Join(parts, ", ")))
+	}
+	if a.Adjusted {
+		w = append(w, "Some plots are missing, so each sum of squares is adjusted for the other terms of the model and the lines no longer add up to the total; means are least-squares means.")
+	}
+	if r.Transform != stats.NoTransform {
+		w = append(w, fmt.Sprintf("Analysed on the %s scale; the back-transformed means are given beside the means on that scale.", transformName(r.Transform)))
+	}
+	r.Warnings = append(w, r.Warnings...)
+}
+
+func transformName(t stats.Transform) string {
+	switch t {
+	case stats.Log:
+		return "log"
+	case stats.Sqrt:
+		return "square-root"
+	case stats.ArcsineSqrt:
+		return "arcsine square-root"
+	}
+	return string(t)
+}
+
+func plural(n int, one, many string) string {
+	if n == 1 {
+		return "1 " + one
+	}
+	return fmt.Sprintf("%d %s", n, many)
+}
+
+func ptr(v float64) *float64 { return &v }

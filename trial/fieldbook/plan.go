@@ -1,0 +1,543 @@
+package fieldbook
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"strconv"
+	"strings"
+
+	"furlong/trial"
+)
+
+// Severity grades an issue found while checking a field book.
+type Severity int
+
+const (
+	// Info is a remark: nothing is wrong.
+	Info Severity = iota
+	// Warning is imported as it is, but deserves a look.
+	Warning
+	// Conflict is a cell that would replace a different stored value; it
+	// blocks the import unless overwriting is allowed.
+	Conflict
+	// Error blocks the import.
+	Error
+)
+
+// String returns the severity's name.
+func (s Severity) String() string {
+	switch s {
+	case Info:
+		return "note"
+	case Warning:
+		return "warning"
+	case Conflict:
+		return "conflict"
+	case Error:
+		return "error"
+	}
+	return "severity " + strconv.Itoa(int(s))
+}
+
+// Issue is one finding of Plan.
+type Issue struct {
+	Severity Severity
+	// Line is the table row (the CSV line, counted from 1); 0 when the
+	// issue is not about one row.
+	Line int
+	// Plot is the plot number; 0 when the issue is not about one plot.
+	Plot int
+	// Column is the header text of the cell's column, Trait the key of its
+	// trait; empty when not about one cell.
+	Column, Trait string
+	// Text is the cell as written in the book.
+	Text string
+	// Old is the value stored in the trial, New the book's value; NaN
+	// when missing or not applicable.
+	Old, New float64
+	// Message says what is the matter, in a sentence.
+	Message string
+}
+
+// String renders the issue on one line: severity, line, plot, trait and
+// the message (which gives old and new values where they matter).
+func (i Issue) String() string {
+	var b strings.Builder
+	b.WriteString(i.Severity.String())
+	b.WriteString(": ")
+	var place []string
+	if i.Line > 0 {
+		place = append(place, "line "+strconv.Itoa(i.Line))
+	}
+	if i.Plot != 0 {
+		place = append(place, "plot "+strconv.Itoa(i.Plot))
+	}
+	if i.Trait != "" {
+		place = append(place, i.Trait)
+	} else if i.Column != "" {
+		place = append(place, "column "+strconv.Quote(i.Column))
+	}
+	if len(place) > 0 {
+		b.WriteString(strings.Join(place, ", "))
+		b.WriteString(": ")
+	}
+	b.WriteString(i.Message)
+	return b.String()
+}
+
+// Change is one value an import sets.
+type Change struct {
+	Line       int     // table row, counted from 1
+	Plot       int     // plot number
+	PlotIndex  int     // index in Trial.Plots
+	Trait      string  // trait key
+	TraitIndex int     // index in Trial.Traits
+	Old, New   float64 // Old is NaN when the value was missing
+	// Overwrite is set when New replaces a different stored value.
+	Overwrite bool
+}
+
+// ImportPlan is the checked outcome of importing a field book into a
+// trial, made by Plan.
+type ImportPlan struct {
+	issues  []Issue
+	changes []Change
+	rows    int
+	matched int
+	same    int
+	numbers []int    // plot numbers of the trial planned against
+	keys    []string // trait keys of the trial planned against
+}
+
+// Issues returns every finding in the order found.
+func (p *ImportPlan) Issues() []Issue { return append([]Issue(nil), p.issues...) }
+
+func (p *ImportPlan) bySeverity(s Severity) []Issue {
+	var out []Issue
+	for _, i := range p.issues {
+		if i.Severity == s {
+			out = append(out, i)
+		}
+	}
+	return out
+}
+
+// Errors returns the findings that block the import whatever the overwrite
+// setting. Conflicts are listed apart (see Conflicts).
+func (p *ImportPlan) Errors() []Issue { return p.bySeverity(Error) }
+
+// Conflicts returns the cells that would replace a different stored value.
+func (p *ImportPlan) Conflicts() []Issue { return p.bySeverity(Conflict) }
+
+// Warnings returns findings that do not block the import.
+func (p *ImportPlan) Warnings() []Issue { return p.bySeverity(Warning) }
+
+// Notes returns remarks: empty cells left as they are, plots missing from
+// the book.
+func (p *ImportPlan) Notes() []Issue { return p.bySeverity(Info) }
+
+// Changes returns the values the import sets, overwrites included.
+func (p *ImportPlan) Changes() []Change { return append([]Change(nil), p.changes...) }
+
+// Matched returns the number of trial plots found in the book.
+func (p *ImportPlan) Matched() int { return p.matched }
+
+// HasErrors reports whether the import is blocked: by errors, or by
+// conflicts when overwrite is false.
+func (p *ImportPlan) HasErrors(overwrite bool) bool {
+	for _, i := range p.issues {
+		if i.Severity == Error || (i.Severity == Conflict && !overwrite) {
+			return true
+		}
+	}
+	return false
+}
+
+type column struct {
+	header string
+	fixed  string // one of the fixed column names, or ""
+	trait  int    // index in Trial.Traits, -1 for none
+}
+
+// Plan checks a field book table (first non-empty row the header) against
+// t and returns what an import would do. It returns an error only when the
+// table cannot be a field book at all: it is empty or has no plot column.
+// Plan does not change t.
+//
+// Columns: "plot" is required. "block", "row", "column" and "treatment",
+// when present, are compared with the trial: a different block, row or
+// column is a warning, a different treatment an error (the book belongs to
+// another layout). "treatment_name" is not checked. A trait column is
+// matched by the trait key, ignoring case; a heading that starts with the
+// key followed by a space or "(" matches too ("yield (t/ha) 0-20"). Other
+// columns are ignored with a warning. Headings are matched in the order:
+// fixed names, keys in their exact case, keys in any case, key prefixes
+// (the longest key first).
+//
+// Cells: an empty cell leaves the stored value as it is (it does not erase
+// it). A cell that is not a number, or impossible for its trait's kind (a
+// count of 2.5, a percentage of 130) is an error; a value outside the
+// trait's valid range is imported with a warning; a value that differs
+// from a stored value is a conflict. Decimal commas ("5,23") are read.
+func Plan(t *trial.Trial, rows [][]string) (*ImportPlan, error) {
+	if t == nil {
+		return nil, errors.New("there is no trial to import into")
+	}
+	h := -1
+	for i, r := range rows {
+		if !blank(r) {
+			h = i
+			break
+		}
+	}
+	if h < 0 {
+		return nil, errors.New("the field book is empty")
+	}
+	p := &ImportPlan{numbers: make([]int, len(t.Plots)), keys: make([]string, len(t.Traits))}
+	for i, pl := range t.Plots {
+		p.numbers[i] = pl.Number
+	}
+	for j, tr := range t.Traits {
+		p.keys[j] = tr.Key
+	}
+	cols, err := p.mapHeader(t, rows[h], h+1)
+	if err != nil {
+		return nil, err
+	}
+	byNumber := make(map[int]int, len(t.Plots))
+	for i, pl := range t.Plots {
+		if _, dup := byNumber[pl.Number]; !dup {
+			byNumber[pl.Number] = i
+		}
+	}
+	plotCol := -1
+	for c, col := range cols {
+		if col.fixed == ColPlot {
+			plotCol = c
+		}
+	}
+	seen := make(map[int]int) // plot index → line
+	empty := make([]int, len(t.Traits))
+	for r := h + 1; r < len(rows); r++ {
+		row := rows[r]
+		if blank(row) {
+			continue
+		}
+		line := r + 1
+		p.rows++
+		if len(row) > len(cols) && !blank(row[len(cols):]) {
+			p.add(Issue{Severity: Error, Line: line, Message: fmt.Sprintf("the row has %d cells but the header has %d; a decimal comma in a comma-separated file may have split a number in two. The row is not imported", lastFilled(row), len(cols))})
+			continue
+		}
+		cell := func(c int) string {
+			if c < len(row) {
+				return strings.TrimSpace(row[c])
+			}
+			return ""
+		}
+		text := cell(plotCol)
+		if text == "" {
+			p.add(Issue{Severity: Error, Line: line, Column: rows[h][plotCol], Message: "the row has no plot number"})
+			continue
+		}
+		num, ok := parseNumber(text)
+		if !ok || num != math.Trunc(num) || math.Abs(num) > 1<<53 {
+			p.add(Issue{Severity: Error, Line: line, Column: rows[h][plotCol], Text: text, Message: fmt.Sprintf("%q is not a plot number", text)})
+			continue
+		}
+		number := int(num)
+		pi, ok := byNumber[number]
+		if !ok {
+			p.add(Issue{Severity: Error, Line: line, Plot: number, Text: text, Message: fmt.Sprintf("plot %d is not in the trial", number)})
+			continue
+		}
+		if first, dup := seen[pi]; dup {
+			p.add(Issue{Severity: Error, Line: line, Plot: number, Text: text, Message: fmt.Sprintf("plot %d is also on line %d; this row is not imported", number, first)})
+			continue
+		}
+		seen[pi] = line
+		p.matched++
+		pl := t.Plots[pi]
+		for c, col := range cols {
+			text := cell(c)
+			switch {
+			case col.fixed == ColTreatment:
+				if text != "" && text != pl.Treatment {
+					p.add(Issue{Severity: Error, Line: line, Plot: number, Column: col.header, Text: text,
+						Message: fmt.Sprintf("the book gives treatment %q but the trial has %q on this plot: the book belongs to another layout", text, pl.Treatment)})
+				}
+			case col.fixed == ColBlock || col.fixed == ColRow || col.fixed == ColColumn:
+				want := map[string]int{ColBlock: pl.Block, ColRow: pl.Row, ColColumn: pl.Column}[col.fixed]
+				if text != "" {
+					if v, ok := parseNumber(text); !ok || v != float64(want) {
+						p.add(Issue{Severity: Warning, Line: line, Plot: number, Column: col.header, Text: text,
+							Message: fmt.Sprintf("the book gives %s %q but the trial has %d", col.fixed, text, want)})
+					}
+				}
+			case col.trait >= 0:
+				p.cell(t, col, line, pi, text, empty)
+			}
+		}
+	}
+	for j, n := range empty {
+		if n > 0 {
+			p.add(Issue{Severity: Info, Trait: t.Traits[j].Key, Message: fmt.Sprintf("%d empty %s: left as they are (an empty cell does not erase a value)", n, plural(n, "cell", "cells"))})
+		}
+	}
+	for i, pl := range t.Plots {
+		if _, ok := seen[i]; !ok {
+			p.add(Issue{Severity: Info, Plot: pl.Number, Message: fmt.Sprintf("plot %d is not in the field book; its values are left as they are", pl.Number)})
+		}
+	}
+	return p, nil
+}
+
+// add records an issue that is not about a value: Old and New are NaN.
+func (p *ImportPlan) add(i Issue) {
+	i.Old, i.New = math.NaN(), math.NaN()
+	p.issues = append(p.issues, i)
+}
+
+// cell checks one trait cell and records the change it makes.
+func (p *ImportPlan) cell(t *trial.Trial, col column, line, pi int, text string, empty []int) {
+	tr := t.Traits[col.trait]
+	number := t.Plots[pi].Number
+	old := tr.Values[pi]
+	base := Issue{Line: line, Plot: number, Column: col.header, Trait: tr.Key, Text: text}
+	with := func(s Severity, v float64, msg string) Issue {
+		i := base
+		i.Severity, i.Old, i.New, i.Message = s, old, v, msg
+		return i
+	}
+	if text == "" {
+		empty[col.trait]++
+		if !trial.IsMissing(old) {
+			p.issues = append(p.issues, with(Info, math.NaN(), fmt.Sprintf("the cell is empty; the stored value %s is kept", show(old))))
+		}
+		return
+	}
+	v, ok := parseNumber(text)
+	if !ok {
+		p.issues = append(p.issues, with(Error, math.NaN(), fmt.Sprintf("%q is not a number (leave the cell empty for a missing value)", text)))
+		return
+	}
+	if why := kindProblem(tr.Kind, v); why != "" {
+		p.issues = append(p.issues, with(Error, v, fmt.Sprintf("%s %s", show(v), why)))
+		return
+	}
+	if tr.Min != nil && v < *tr.Min {
+		p.issues = append(p.issues, with(Warning, v, fmt.Sprintf("%s is below the valid minimum %s; it is imported", show(v), show(*tr.Min))))
+	} else if tr.Max != nil && v > *tr.Max {
+		p.issues = append(p.issues, with(Warning, v, fmt.Sprintf("%s is above the valid maximum %s; it is imported", show(v), show(*tr.Max))))
+	}
+	if !trial.IsMissing(old) && old == v && math.Signbit(old) == math.Signbit(v) {
+		p.same++
+		return
+	}
+	c := Change{Line: line, Plot: number, PlotIndex: pi, Trait: tr.Key, TraitIndex: col.trait, Old: old, New: v}
+	if !trial.IsMissing(old) {
+		c.Overwrite = true
+		p.issues = append(p.issues, with(Conflict, v, fmt.Sprintf("%s would replace the stored value %s (only when overwriting is allowed)", show(v), show(old))))
+	}
+	p.changes = append(p.changes, c)
+}
+
+// mapHeader matches the header cells to fixed columns and traits.
+func (p *ImportPlan) mapHeader(t *trial.Trial, header []string, line int) ([]column, error) {
+	cols := make([]column, len(header))
+	fixedAt := map[string]int{}
+	traitAt := map[int]int{}
+	for c, raw := range header {
+		name := strings.TrimSpace(raw)
+		cols[c] = column{header: name, trait: -1}
+		if name == "" {
+			continue
+		}
+		lower := strings.ToLower(name)
+		if contains(fixedColumns, lower) {
+			if prev, dup := fixedAt[lower]; dup {
+				return nil, fmt.Errorf("line %d: columns %d and %d are both headed %q", line, prev+1, c+1, name)
+			}
+			fixedAt[lower] = c
+			cols[c].fixed = lower
+			continue
+		}
+		j := matchTrait(t, name)
+		if j < 0 {
+			p.add(Issue{Severity: Warning, Line: line, Column: name, Message: fmt.Sprintf("column %q is not a trait of this trial; it is ignored", name)})
+			continue
+		}
+		if t.Traits[j].Derived != nil {
+			p.add(Issue{Severity: Warning, Line: line, Column: name, Trait: t.Traits[j].Key, Message: fmt.Sprintf("trait %q is computed from other traits; the column is ignored", t.Traits[j].Key)})
+			continue
+		}
+		if prev, dup := traitAt[j]; dup {
+			p.add(Issue{Severity: Error, Line: line, Column: name, Trait: t.Traits[j].Key, Message: fmt.Sprintf("columns %q and %q both hold trait %q", header[prev], name, t.Traits[j].Key)})
+			continue
+		}
+		if len(t.Traits[j].Values) != len(t.Plots) {
+			p.add(Issue{Severity: Error, Line: line, Column: name, Trait: t.Traits[j].Key, Message: fmt.Sprintf("trait %q does not have one value per plot in the trial; it cannot take data", t.Traits[j].Key)})
+			continue
+		}
+		traitAt[j] = c
+		cols[c].trait = j
+	}
+	if _, ok := fixedAt[ColPlot]; !ok {
+		return nil, fmt.Errorf("line %d: the field book has no %q column", line, ColPlot)
+	}
+	return cols, nil
+}
+
+// matchTrait finds the trait a heading names, or -1.
+func matchTrait(t *trial.Trial, name string) int {
+	for j, tr := range t.Traits {
+		if tr.Key != "" && tr.Key == name {
+			return j
+		}
+	}
+	for j, tr := range t.Traits {
+		if tr.Key != "" && strings.EqualFold(tr.Key, name) {
+			return j
+		}
+	}
+	best, bestLen := -1, 0
+	for j, tr := range t.Traits {
+		k := len(tr.Key)
+		if k == 0 || k >= len(name) || k <= bestLen {
+			continue
+		}
+		if strings.EqualFold(name[:k], tr.Key) && (name[k] == ' ' || name[k] == '(') {
+			best, bestLen = j, k
+		}
+	}
+	return best
+}
+
+// Apply carries out the plan on t, which must be the trial the plan was
+// made for, unchanged since. It refuses, changing nothing, while the plan
+// has errors, or conflicts and overwrite is false, or when t has changed.
+// It returns the number of values set.
+func (p *ImportPlan) Apply(t *trial.Trial, overwrite bool) (changed int, err error) {
+	if p.HasErrors(overwrite) {
+		e, c := len(p.Errors()), len(p.Conflicts())
+		switch {
+		case e > 0:
+			return 0, fmt.Errorf("the field book has %d %s; nothing was imported", e, plural(e, "error", "errors"))
+		default:
+			return 0, fmt.Errorf("%d %s would replace stored values; nothing was imported (allow overwriting to import them)", c, plural(c, "cell", "cells"))
+		}
+	}
+	stale := errors.New("the trial has changed since the field book was checked; nothing was imported. Check the field book again")
+	if t == nil || len(t.Plots) != len(p.numbers) || len(t.Traits) != len(p.keys) {
+		return 0, stale
+	}
+	for i, n := range p.numbers {
+		if t.Plots[i].Number != n {
+			return 0, stale
+		}
+	}
+	for j, k := range p.keys {
+		if t.Traits[j].Key != k {
+			return 0, stale
+		}
+	}
+	for _, c := range p.changes {
+		vs := t.Traits[c.TraitIndex].Values
+		if c.PlotIndex >= len(vs) || t.Traits[c.TraitIndex].Derived != nil {
+			return 0, stale
+		}
+		cur := vs[c.PlotIndex]
+		if trial.IsMissing(cur) != trial.IsMissing(c.Old) || (!trial.IsMissing(cur) && math.Float64bits(cur) != math.Float64bits(c.Old)) {
+			return 0, stale
+		}
+	}
+	for _, c := range p.changes {
+		t.Traits[c.TraitIndex].Values[c.PlotIndex] = c.New
+		changed++
+	}
+	return changed, nil
+}
+
+// Report writes the plan as plain text: a summary, then one line per
+// finding, errors first.
+func (p *ImportPlan) Report(w io.Writer) error {
+	over := 0
+	for _, c := range p.changes {
+		if c.Overwrite {
+			over++
+		}
+	}
+	var b strings.Builder
+	fmt.Fprintf(&b, "Field book: %d %s, %d %s matched, %d %s to import", p.rows, plural(p.rows, "row", "rows"),
+		p.matched, plural(p.matched, "plot", "plots"), len(p.changes), plural(len(p.changes), "value", "values"))
+	if over > 0 {
+		fmt.Fprintf(&b, " (%d replacing stored values)", over)
+	}
+	if p.same > 0 {
+		fmt.Fprintf(&b, ", %d unchanged", p.same)
+	}
+	b.WriteString(".\n")
+	for _, s := range []Severity{Error, Conflict, Warning, Info} {
+		for _, i := range p.issues {
+			if i.Severity == s {
+				b.WriteString(i.String())
+				b.WriteByte('\n')
+			}
+		}
+	}
+	switch {
+	case p.HasErrors(true):
+		b.WriteString("Nothing can be imported until the errors are corrected.\n")
+	case p.HasErrors(false):
+		b.WriteString("Allow overwriting to import; otherwise nothing is imported.\n")
+	default:
+		b.WriteString("Ready to import.\n")
+	}
+	_, err := io.WriteString(w, b.String())
+	return err
+}
+
+// show formats a value for a message; never "NaN".
+func show(v float64) string {
+	if trial.IsMissing(v) {
+		return "missing"
+	}
+	return formatValue(v)
+}
+
+func plural(n int, one, many string) string {
+	if n == 1 {
+		return one
+	}
+	return many
+}
+
+func blank(r []string) bool {
+	for _, c := range r {
+		if strings.TrimSpace(c) != "" {
+			return false
+		}
+	}
+	return true
+}
+
+func lastFilled(r []string) int {
+	n := 0
+	for i, c := range r {
+		if strings.TrimSpace(c) != "" {
+			n = i + 1
+		}
+	}
+	return n
+}
+
+func contains(list []string, s string) bool {
+	for _, x := range list {
+		if x == s {
+			return true
+		}
+	}
+	return false
+}

@@ -1,0 +1,157 @@
+package trial
+
+// DefaultLayout returns the layout Furlong proposes for a new trial: plots
+// 10 m long and 1.5 m wide, of which 8 m × 1.5 m is harvested, 1 m alleys,
+// every block in one field row, blocks side by side, plots numbered by
+// block and walked in a serpentine.
+func DefaultLayout() Layout {
+	return Layout{
+		PlotLength:    10,
+		PlotWidth:     1.5,
+		HarvestLength: 8,
+		HarvestWidth:  1.5,
+		Alley:         1,
+		PlotsPerRow:   0,
+		Blocks:        BlocksSideBySide,
+		Numbering:     NumberByBlock,
+		Walk:          WalkSerpentine,
+	}
+}
+
+// withDefaults fills empty arrangement settings with DefaultLayout's.
+func (l Layout) withDefaults() Layout {
+	d := DefaultLayout()
+	if l.Blocks == "" {
+		l.Blocks = d.Blocks
+	}
+	if l.Numbering == "" {
+		l.Numbering = d.Numbering
+	}
+	if l.Walk == "" {
+		l.Walk = d.Walk
+	}
+	return l
+}
+
+// blockShape is how the plots of one design are grouped for arrangement.
+type blockShape struct {
+	blocks int // number of blocks
+	size   int // plots per block
+}
+
+// shape returns the arrangement blocks of a design with nt treatments.
+//
+// A completely randomised design is arranged as a single block holding every
+// plot, so all its plots have Block 1. A Latin square is arranged as nt
+// blocks of nt plots, one per square row.
+func shape(nt int, d Design) blockShape {
+	switch d.Kind {
+	case CRD:
+		return blockShape{blocks: 1, size: nt * d.Reps}
+	case Latin:
+		return blockShape{blocks: nt, size: nt}
+	default:
+		return blockShape{blocks: d.Reps, size: nt}
+	}
+}
+
+// numberMultiplier returns the factor a block number is multiplied by in
+// by-block numbering: 100 for blocks of up to 99 plots, 1000 for up to 999
+// plots, and so on (the smallest power of ten, at least 100, that is larger
+// than the block size), so that plot numbers never collide.
+func numberMultiplier(size int) int {
+	m := 100
+	for m <= size {
+		m *= 10
+	}
+	return m
+}
+
+// LayOut returns the plots of a design in walking order, before
+// randomisation: every plot has its Number, Block, Row and Column, and the
+// treatments sit in standard order (block positions 1, 2, ... hold the
+// treatments in list order; a completely randomised design repeats the list
+// Reps times; a Latin square is the cyclic square, row r and column c holding
+// treatment (r + c) mod t, counting from 0). Randomize or LayOutRandomized
+// then assign the treatments at random.
+//
+// Arrangement. The plots of a block are set out PlotsPerRow to a field row
+// (0: the whole block in one field row); a last, shorter row starts at the
+// block's first column. Blocks sit side by side (block b's columns follow
+// block b−1's, in the same field rows) or stacked (block b's field rows
+// follow block b−1's). A completely randomised design is laid out as a single
+// block: every plot has Block 1. A Latin square ignores PlotsPerRow and
+// Blocks: it is a t × t grid whose field rows are the square's rows (Block =
+// Row) and whose field columns are its columns.
+//
+// Walking order. The crew walks block by block, and within a block field row
+// by field row from row 1 onwards. Straight: every row from its lowest column
+// to its highest. Serpentine: even-numbered field rows are walked from the
+// highest column back to the lowest, so that the crew never walks back empty.
+// A plot's position in its block is its place in this walk, from 1.
+//
+// Numbering. NumberByBlock gives block × 100 + position (block × 1000 when a
+// block holds 100 or more plots, block × 10000 from 1000 plots, and so on).
+// NumberSequential gives 1, 2, 3, ... in walking order.
+//
+// Empty Blocks, Numbering and Walk take DefaultLayout's settings. The plot
+// geometry (lengths, widths, alleys) does not affect the plots.
+func LayOut(treatments []Treatment, d Design, l Layout) ([]Plot, error) {
+	var p problems
+	p.checkTreatments(treatments)
+	p.checkDesign(treatments, d)
+	p.checkArrangement(l)
+	if err := p.err(); err != nil {
+		return nil, err
+	}
+	l = l.withDefaults()
+	nt := len(treatments)
+	s := shape(nt, d)
+
+	perRow := l.PlotsPerRow
+	stacked := l.Blocks == BlocksStacked
+	if d.Kind == Latin {
+		perRow = nt
+		stacked = true
+	}
+	if perRow <= 0 || perRow > s.size {
+		perRow = s.size
+	}
+	rowsPer := (s.size + perRow - 1) / perRow
+	mult := numberMultiplier(s.size)
+	serpentine := l.Walk == WalkSerpentine
+
+	plots := make([]Plot, 0, s.blocks*s.size)
+	for b := range s.blocks {
+		pos := 0
+		for r := range rowsPer {
+			inRow := min(perRow, s.size-r*perRow)
+			fieldRow, col0 := r+1, b*perRow
+			if stacked {
+				fieldRow, col0 = b*rowsPer+r+1, 0
+			}
+			reverse := serpentine && fieldRow%2 == 0
+			for k := range inRow {
+				c := k
+				if reverse {
+					c = inRow - 1 - k
+				}
+				pos++
+				pl := Plot{Block: b + 1, Row: fieldRow, Column: col0 + c + 1}
+				if l.Numbering == NumberSequential {
+					pl.Number = len(plots) + 1
+				} else {
+					pl.Number = (b+1)*mult + pos
+				}
+				switch d.Kind {
+				case Latin:
+					pl.Treatment = treatments[(pl.Row-1+pl.Column-1)%nt].Code
+				default:
+					pl.Treatment = treatments[(pos-1)%nt].Code
+				}
+				plots = append(plots, pl)
+			}
+		}
+	}
+	return plots, nil
+}

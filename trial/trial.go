@@ -1,0 +1,207 @@
+// Package trial is Furlong's domain model: a replicated field trial with its
+// treatments, design, plot layout, randomisation, traits and plot data.
+//
+// The package knows nothing of windows, statistics or file formats; codecs live
+// in trial/trialfile and trial/fieldbook, the bridge to the statistics engine in
+// trial/analysis.
+package trial
+
+import (
+	"math"
+	"time"
+)
+
+// Trial is one replicated field trial: one site, one season.
+type Trial struct {
+	Title        string
+	Crop         string // free text; CropDefaults keys ("maize", "wheat", ...) get moisture/bushel defaults
+	Season       string // for example "2026" or "2026/27"
+	Site         Site
+	Investigator string
+	Objective    string
+	Notes        string
+	Created      time.Time
+	Modified     time.Time
+
+	Treatments []Treatment
+	Design     Design
+	Layout     Layout
+	Random     Randomization
+
+	// Plots in walking order (the order a crew walks the field). Plot i's
+	// values for trait j are Traits[j].Values[i].
+	Plots  []Plot
+	Traits []Trait
+}
+
+// Site is where the trial is sown.
+type Site struct {
+	Name         string
+	Latitude     *float64 // decimal degrees, nil when unknown
+	Longitude    *float64
+	Soil         string
+	PreviousCrop string
+}
+
+// Role says whether a treatment is a test entry or a check (the standard the
+// others are compared with).
+type Role string
+
+const (
+	// RoleEntry is a test entry; an empty Role means the same.
+	RoleEntry Role = "entry"
+	// RoleCheck is a check, the standard entries are compared with.
+	RoleCheck Role = "check"
+)
+
+// Treatment is one entry of the trial: a variety, a rate, a programme.
+type Treatment struct {
+	Code        string // short and unique within the trial, for example "T01" or "CHK"
+	Name        string
+	Role        Role
+	Description string
+	Rate        *float64 // optional application or seeding rate
+	RateUnit    string   // for example "kg N/ha", "seeds/m²"
+}
+
+// DesignKind names an experimental design.
+type DesignKind string
+
+const (
+	CRD   DesignKind = "crd"   // completely randomised design
+	RCBD  DesignKind = "rcbd"  // randomised complete block design
+	Latin DesignKind = "latin" // Latin square: rows and columns both blocked
+)
+
+// Design is the experimental design of the trial.
+type Design struct {
+	Kind DesignKind
+	// Reps is the number of replicates. For an RCBD it is the number of
+	// blocks; for a Latin square it equals the number of treatments.
+	Reps int
+}
+
+// BlockArrangement says how blocks sit in the field.
+type BlockArrangement string
+
+const (
+	BlocksSideBySide BlockArrangement = "side-by-side" // blocks next to each other along the field rows
+	BlocksStacked    BlockArrangement = "stacked"      // blocks one behind the other
+)
+
+// Numbering says how plots are numbered.
+type Numbering string
+
+const (
+	// NumberByBlock numbers plots block×100+position (block×1000 when a
+	// block has 100 or more plots): 101, 102, ..., 201, ...
+	NumberByBlock Numbering = "by-block"
+	// NumberSequential numbers plots 1, 2, 3, ... in walking order.
+	NumberSequential Numbering = "sequential"
+)
+
+// Walk is the order in which the crew walks the plots.
+type Walk string
+
+const (
+	WalkSerpentine Walk = "serpentine" // every other field row is walked backwards
+	WalkStraight   Walk = "straight"   // every field row starts at column 1
+)
+
+// Layout is the plot geometry and the field arrangement. Lengths are metres.
+type Layout struct {
+	PlotLength    float64
+	PlotWidth     float64
+	HarvestLength float64 // harvested part of the plot (0: the whole plot)
+	HarvestWidth  float64
+	Alley         float64 // alley between blocks or ranges
+
+	// PlotsPerRow is the number of plots in one field row (range) of a
+	// block; 0 means the whole block in one row. Ignored for a Latin
+	// square, whose rows and columns are the field rows and columns.
+	PlotsPerRow int
+	Blocks      BlockArrangement
+	Numbering   Numbering
+	Walk        Walk
+}
+
+// Randomization records how the plots were randomised, so that a layout can
+// be reproduced from the file alone.
+type Randomization struct {
+	Seed   uint64
+	Method string    // generator and algorithm, for example "pcg-fisher-yates-v1"
+	Done   time.Time // zero when the trial was never randomised
+}
+
+// Plot is one plot in the field.
+type Plot struct {
+	Number    int    // plot number as printed on the stake
+	Block     int    // replicate/block, 1-based (for a Latin square: the square's row)
+	Row       int    // field row (range), 1-based
+	Column    int    // field column, 1-based
+	Treatment string // treatment code
+	Note      string
+	// Exclusions keep a plot's values but leave them out of the analysis.
+	Exclusions []Exclusion
+}
+
+// Exclusion leaves a plot out of the analysis of one trait, or of all traits
+// when Trait is empty, without deleting its values.
+type Exclusion struct {
+	Trait  string // trait key, "" for every trait
+	Reason string // for example "hail", "flooding", "planter skip"
+}
+
+// TraitKind is the kind of a measurement.
+type TraitKind string
+
+const (
+	Continuous TraitKind = "continuous" // a measurement on a continuous scale, for example plot weight
+	Count      TraitKind = "count"      // a whole number of 0 or more, for example plants per plot
+	Percent    TraitKind = "percent"    // a percentage, 0 to 100
+	Score      TraitKind = "score"      // ordinal score on a scale, for example lodging 1–9
+)
+
+// Trait is one measurement taken on every plot.
+type Trait struct {
+	Key          string // short and unique, used in file headers: "yield", "ht"
+	Name         string
+	Unit         string
+	Kind         TraitKind
+	Min, Max     *float64 // valid range; nil for no bound
+	Decimals     int
+	Assessed     time.Time // date assessed, zero when not yet
+	HigherBetter bool
+
+	// Values holds one value per plot, aligned with Trial.Plots; NaN is
+	// missing. A derived trait has no stored values (Values is nil).
+	Values []float64
+	// Derived, when set, computes the trait from other traits.
+	Derived *Derivation
+}
+
+// Missing is the value stored for a missing observation.
+var Missing = math.NaN()
+
+// IsMissing reports whether v is a missing value.
+func IsMissing(v float64) bool { return math.IsNaN(v) }
+
+// DerivationKind names a formula for a derived trait.
+type DerivationKind string
+
+const (
+	// AdjustedYield is yield in t/ha (or bu/ac) adjusted to a standard
+	// moisture from harvested plot weight, moisture and harvested area.
+	AdjustedYield DerivationKind = "adjusted-yield"
+)
+
+// Derivation describes how a derived trait is computed.
+type Derivation struct {
+	Kind             DerivationKind
+	WeightTrait      string  // key of the harvested plot weight trait (kg)
+	MoistureTrait    string  // key of the grain moisture trait (%)
+	StandardMoisture float64 // moisture basis, %
+	// Output unit: "t/ha" or "bu/ac"; for bu/ac BushelWeightLb is used.
+	OutputUnit     string
+	BushelWeightLb float64
+}

@@ -1,0 +1,72 @@
+// Package trialfile reads and writes Furlong trial files (".furlong").
+//
+// A trial file is UTF-8 JSON, indented, members always in the order below:
+//
+//	{
+//	  "format": "furlong-trial",
+//	  "version": 1,
+//	  "trial": {
+//	    "title": "Maize hybrid strip, Hollow Creek farm",
+//	    "crop": "maize", "season": "2026",
+//	    "site": {"name": "North field", "latitude": -31.95, "longitude": null,
+//	             "soil": "sandy loam", "previous_crop": "wheat"},
+//	    "investigator": "...", "objective": "...", "notes": "...",
+//	    "created": "2026-03-02T09:15:00+11:00",   (RFC 3339; null when unknown)
+//	    "modified": "2026-04-20T17:02:11.5+10:00",
+//	    "treatments": [{"code": "T01", "name": "...", "role": "entry"|"check",
+//	                    "description": "...", "rate": 120 or null, "rate_unit": "kg N/ha"}],
+//	    "design": {"kind": "crd"|"rcbd"|"latin", "reps": 4},
+//	    "layout": {"plot_length": 10, "plot_width": 3, "harvest_length": 8,
+//	               "harvest_width": 1.5, "alley": 1, "plots_per_row": 0,
+//	               "blocks": "side-by-side"|"stacked", "numbering": "by-block"|"sequential",
+//	               "walk": "serpentine"|"straight"},
+//	    "randomization": {"seed": "18446744073709551615", "method": "...", "done": "..." or null},
+//	    "plots": [{"number": 101, "block": 1, "row": 1, "column": 1, "treatment": "T01",
+//	               "note": "...", "exclusions": [{"trait": "yield", "reason": "hail"}]}],
+//	    "traits": [{"key": "yield", "name": "...", "unit": "t/ha", "kind": "continuous",
+//	                "min": 0, "max": null, "decimals": 2, "assessed": null,
+//	                "higher_better": true,
+//	                "values": [5.1, null, 4.87, ...],
+//	                "derived": {"kind": "adjusted-yield", "weight_trait": "wt",
+//	                            "moisture_trait": "mst", "standard_moisture": 15.5,
+//	                            "output_unit": "t/ha", "bushel_weight_lb": 56}}]
+//	  }
+//	}
+//
+// Plots are in walking order. A stored trait has "values", a list with one
+// entry per plot in the order of "plots", null for a missing value; a
+// derived trait has "derived" and no "values". A plot's "note" and
+// "exclusions" are left out when empty; every other member is always
+// written. Numbers are written in the shortest form that reads back to the
+// same float64 (as encoding/json writes them). The randomisation seed is a
+// decimal string, because many JSON readers hold numbers as float64 and
+// would round seeds above 2^53; a JSON number is accepted on reading.
+// Unknown members are ignored on reading.
+//
+// Checks on reading (Encode refuses the same things, so that whatever
+// Furlong writes it can read): plot numbers, treatment codes and trait
+// keys are unique; every plot names a treatment of the trial; a stored
+// trait has exactly one value per plot; a count is a whole number of 0 or
+// more; a percentage lies between 0 and 100; every number is finite.
+// Values outside a trait's valid range (min, max) are data, not errors:
+// they are kept, and flagged elsewhere. Scores may be fractional (half
+// points are common practice in visual scoring).
+//
+// Versions: version 1 is the format above. Version 0, the first format,
+// stored values per plot as an object keyed by trait
+// ({"plot": 101, ..., "values": {"yield": 5.1}}), held the seed as a bare
+// JSON number ("seed": 12345 at trial level, with "randomized" for the
+// date), kept site, design and layout in flat members ("site": "North
+// field", "design": "rcbd", "reps": 4, "plot_length", "plot_width",
+// "plots_per_row", "serpentine": true) and marked checks with
+// "check": true. Decode migrates version 0 files; members version 0 did not
+// have are left empty. Files with a version newer than Version are refused
+// with ErrNewerVersion.
+//
+// Errors: problems with a file's content are *ParseError values giving the
+// JSON path (for example "trial.plots[3].number"), the line and the column,
+// and wrapping one of the sentinel errors (ErrSyntax, ErrTruncated,
+// ErrWrongType, ErrDuplicatePlot, ...). Decode never panics.
+//
+// Save writes atomically and keeps the previous file as NAME.furlong.bak.
+package trialfile

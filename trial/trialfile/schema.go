@@ -1,0 +1,177 @@
+package trialfile
+
+import "encoding/json"
+
+// Format is the value of the top-level "format" member of a trial file.
+const Format = "furlong-trial"
+
+// Version is the newest file format version this package reads, and the
+// one it writes.
+const Version = 1
+
+// The version 1 shape. Field order here is the order in the file.
+
+type fileV1 struct {
+	Format  string   `json:"format"`
+	Version int      `json:"version"`
+	Trial   *trialV1 `json:"trial"`
+}
+
+type trialV1 struct {
+	Title         string        `json:"title"`
+	Crop          string        `json:"crop"`
+	Season        string        `json:"season"`
+	Site          siteV1        `json:"site"`
+	Investigator  string        `json:"investigator"`
+	Objective     string        `json:"objective"`
+	Notes         string        `json:"notes"`
+	Created       *string       `json:"created"`
+	Modified      *string       `json:"modified"`
+	Treatments    []treatmentV1 `json:"treatments"`
+	Design        designV1      `json:"design"`
+	Layout        layoutV1      `json:"layout"`
+	Randomization randomV1      `json:"randomization"`
+	Plots         []plotV1      `json:"plots"`
+	Traits        []traitV1     `json:"traits"`
+}
+
+type siteV1 struct {
+	Name         string   `json:"name"`
+	Latitude     *float64 `json:"latitude"`
+	Longitude    *float64 `json:"longitude"`
+	Soil         string   `json:"soil"`
+	PreviousCrop string   `json:"previous_crop"`
+}
+
+type treatmentV1 struct {
+	Code        string   `json:"code"`
+	Name        string   `json:"name"`
+	Role        string   `json:"role"`
+	Description string   `json:"description"`
+	Rate        *float64 `json:"rate"`
+	RateUnit    string   `json:"rate_unit"`
+}
+
+type designV1 struct {
+	Kind string `json:"kind"`
+	Reps int    `json:"reps"`
+}
+
+type layoutV1 struct {
+	PlotLength    float64 `json:"plot_length"`
+	PlotWidth     float64 `json:"plot_width"`
+	HarvestLength float64 `json:"harvest_length"`
+	HarvestWidth  float64 `json:"harvest_width"`
+	Alley         float64 `json:"alley"`
+	PlotsPerRow   int     `json:"plots_per_row"`
+	Blocks        string  `json:"blocks"`
+	Numbering     string  `json:"numbering"`
+	Walk          string  `json:"walk"`
+}
+
+type randomV1 struct {
+	// Seed is a decimal string in files Furlong writes; a JSON number is
+	// accepted on reading.
+	Seed   json.RawMessage `json:"seed"`
+	Method string          `json:"method"`
+	Done   *string         `json:"done"`
+}
+
+type plotV1 struct {
+	Number     int           `json:"number"`
+	Block      int           `json:"block"`
+	Row        int           `json:"row"`
+	Column     int           `json:"column"`
+	Treatment  string        `json:"treatment"`
+	Note       string        `json:"note,omitempty"`
+	Exclusions []exclusionV1 `json:"exclusions,omitempty"`
+}
+
+type exclusionV1 struct {
+	Trait  string `json:"trait"`
+	Reason string `json:"reason"`
+}
+
+type traitV1 struct {
+	Key          string   `json:"key"`
+	Name         string   `json:"name"`
+	Unit         string   `json:"unit"`
+	Kind         string   `json:"kind"`
+	Min          *float64 `json:"min"`
+	Max          *float64 `json:"max"`
+	Decimals     int      `json:"decimals"`
+	Assessed     *string  `json:"assessed"`
+	HigherBetter bool     `json:"higher_better"`
+	// Values is a list aligned with plots, null for a missing value;
+	// absent for a derived trait.
+	Values  json.RawMessage `json:"values,omitempty"`
+	Derived *derivedV1      `json:"derived,omitempty"`
+}
+
+type derivedV1 struct {
+	Kind             string  `json:"kind"`
+	WeightTrait      string  `json:"weight_trait"`
+	MoistureTrait    string  `json:"moisture_trait"`
+	StandardMoisture float64 `json:"standard_moisture"`
+	OutputUnit       string  `json:"output_unit"`
+	BushelWeightLb   float64 `json:"bushel_weight_lb"`
+}
+
+// The version 0 shape: values stored per plot as an object keyed by trait,
+// the seed a bare JSON number, fewer fields.
+
+type fileV0 struct {
+	Format  string   `json:"format"`
+	Version int      `json:"version"`
+	Trial   *trialV0 `json:"trial"`
+}
+
+type trialV0 struct {
+	Title        string          `json:"title"`
+	Crop         string          `json:"crop"`
+	Season       string          `json:"season"`
+	Site         string          `json:"site"`
+	Investigator string          `json:"investigator"`
+	Notes        string          `json:"notes"`
+	Created      *string         `json:"created"`
+	Treatments   []treatmentV0   `json:"treatments"`
+	Design       string          `json:"design"`
+	Reps         int             `json:"reps"`
+	PlotLength   float64         `json:"plot_length"`
+	PlotWidth    float64         `json:"plot_width"`
+	PlotsPerRow  int             `json:"plots_per_row"`
+	Serpentine   bool            `json:"serpentine"`
+	Seed         json.RawMessage `json:"seed"`
+	Randomized   *string         `json:"randomized"`
+	Plots        []plotV0        `json:"plots"`
+	Traits       []traitV0       `json:"traits"`
+}
+
+type treatmentV0 struct {
+	Code     string   `json:"code"`
+	Name     string   `json:"name"`
+	Check    bool     `json:"check"`
+	Rate     *float64 `json:"rate"`
+	RateUnit string   `json:"rate_unit"`
+}
+
+type plotV0 struct {
+	Plot      int                        `json:"plot"`
+	Block     int                        `json:"block"`
+	Row       int                        `json:"row"`
+	Column    int                        `json:"column"`
+	Treatment string                     `json:"treatment"`
+	Note      string                     `json:"note"`
+	Values    map[string]json.RawMessage `json:"values"`
+}
+
+type traitV0 struct {
+	Key          string   `json:"key"`
+	Name         string   `json:"name"`
+	Unit         string   `json:"unit"`
+	Kind         string   `json:"kind"`
+	Min          *float64 `json:"min"`
+	Max          *float64 `json:"max"`
+	Decimals     int      `json:"decimals"`
+	HigherBetter bool     `json:"higher_better"`
+}

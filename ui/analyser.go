@@ -1,0 +1,211 @@
+package ui
+
+import (
+	"context"
+	"image"
+	"time"
+
+	"fyne.io/fyne/v2"
+
+	"furlong/trial"
+	"furlong/trial/analysis"
+)
+
+// traitResult is the analysis of one trait, or why it failed.
+type traitResult struct {
+	key string
+	res *analysis.Result
+	err error
+}
+
+// resultSet is one round of analyses of a trial snapshot.
+type resultSet struct {
+	gen      uint64       // analyser generation
+	snap     *trial.Trial // the data analysed
+	alpha    float64
+	focus    string // trait key the charts were drawn for
+	traits   []traitResult
+	complete bool // every trait analysed (not only the focus)
+	charts   []chartImage
+	took     time.Duration
+}
+
+// result returns the analysis of the trait with key, or nil.
+func (s *resultSet) result(key string) *traitResult {
+	if s == nil {
+		return nil
+	}
+	for i := range s.traits {
+		if s.traits[i].key == key {
+			return &s.traits[i]
+		}
+	}
+	return nil
+}
+
+// chartImage is a chart drawn to pixels, or the reason it could not be.
+type chartImage struct {
+	title string
+	img   image.Image
+	err   error
+}
+
+// analyser recomputes the analyses off the UI goroutine whenever the data
+// change. Each round gets a generation number; a round that finishes after
+// a newer one started is dropped, and starting a round cancels the older.
+type analyser struct {
+	u       *App
+	gen     uint64
+	stop    context.CancelFunc
+	active  bool // a screen shows results
+	stale   bool
+	current *resultSet
+
+	// onResults receives every round that is not stale (UI goroutine).
+	onResults []func(*resultSet)
+	// delivered, when set, is called after each delivery (tests).
+	delivered func(*resultSet)
+}
+
+func newAnalyser(u *App) *analyser { return &analyser{u: u, stale: true} }
+
+// dataChanged marks results stale and recomputes when a screen shows them.
+func (a *analyser) dataChanged() {
+	a.stale = true
+	if a.active {
+		a.run()
+	}
+}
+
+// visible is called when Compare or Report is shown.
+func (a *analyser) visible() {
+	a.active = true
+	if a.stale {
+		a.run()
+	}
+}
+
+// settingsChanged recomputes after the alpha or the focus trait changed.
+func (a *analyser) settingsChanged() {
+	a.stale = true
+	a.run()
+}
+
+func (a *analyser) cancel() {
+	if a.stop != nil {
+		a.stop()
+		a.stop = nil
+	}
+	a.gen++
+	a.current = nil
+	a.stale = true
+	a.active = false
+	a.onResults = nil
+}
+
+// analysisOptions are the options of the analyses, from the Compare step's
+// controls (or the preferences before it exists).
+func (a *analyser) analysisOptions() analysis.Options {
+	alpha := a.u.prefs.alpha
+	if cs, ok := a.u.steps[stepCompare].(*compareStep); ok && cs != nil {
+		alpha = cs.alpha
+	}
+	return analysis.Options{Alpha: alpha}
+}
+
+func (a *analyser) focusKey() string {
+	if cs, ok := a.u.steps[stepCompare].(*compareStep); ok && cs != nil {
+		return cs.traitKey
+	}
+	return ""
+}
+
+// run starts a round on a snapshot of the trial.
+func (a *analyser) run() {
+	if a.u.doc == nil {
+		return
+	}
+	if a.stop != nil {
+		a.stop()
+	}
+	ctx, stop := context.WithCancel(context.Background())
+	a.stop = stop
+	a.gen++
+	a.stale = false
+	gen := a.gen
+	snap := cloneTrial(a.u.doc.t)
+	opts := a.analysisOptions()
+	focus := a.focusKey()
+	method := a.u.prefs.method
+	if cs, ok := a.u.steps[stepCompare].(*compareStep); ok && cs != nil {
+		method = cs.method
+	}
+	if snap.Trait(focus) == nil && len(snap.Traits) > 0 {
+		focus = snap.Traits[0].Key
+	}
+	go func() {
+		start := time.Now()
+		set := &resultSet{gen: gen, snap: snap, alpha: opts.Alpha, focus: focus}
+		// The trait on screen first, with its charts, so that Compare
+		// updates at once; then the rest for the summary.
+		if focus != "" {
+			tr := analyzeTrait(snap, focus, opts)
+			set.traits = append(set.traits, tr)
+			if ctx.Err() != nil {
+				return
+			}
+			set.charts = drawCharts(snap, tr, method)
+			set.took = time.Since(start)
+			partial := *set
+			partial.traits = append([]traitResult(nil), set.traits...)
+			fyne.Do(func() { a.deliver(&partial) })
+		}
+		for _, tr := range snap.Traits {
+			if tr.Key == focus {
+				continue
+			}
+			if ctx.Err() != nil {
+				return
+			}
+			set.traits = append(set.traits, analyzeTrait(snap, tr.Key, opts))
+		}
+		// Keep the trial's trait order.
+		ordered := make([]traitResult, 0, len(set.traits))
+		for _, tr := range snap.Traits {
+			if r := set.result(tr.Key); r != nil {
+				ordered = append(ordered, *r)
+			}
+		}
+		set.traits = ordered
+		set.complete = true
+		set.took = time.Since(start)
+		fyne.Do(func() { a.deliver(set) })
+	}()
+}
+
+// deliver hands a round to the screens unless a newer one has started.
+func (a *analyser) deliver(s *resultSet) {
+	if s.gen != a.gen {
+		return
+	}
+	a.current = s
+	for _, f := range a.onResults {
+		f(s)
+	}
+	if a.delivered != nil {
+		a.delivered(s)
+	}
+}
+
+// analyzeTrait analyses one trait, turning a panic in the statistics into
+// an error so that a bad data set never takes the window down.
+func analyzeTrait(t *trial.Trial, key string, opts analysis.Options) (tr traitResult) {
+	tr.key = key
+	defer func() {
+		if p := recover(); p != nil {
+			tr.res, tr.err = nil, errAnalysisFailed
+		}
+	}()
+	tr.res, tr.err = analyzeFunc(t, key, opts)
+	return tr
+}

@@ -1,0 +1,436 @@
+package ui
+
+import (
+	"crypto/sha256"
+	"encoding/hex"
+	"os"
+	"path/filepath"
+	"time"
+
+	"fyne.io/fyne/v2"
+	"fyne.io/fyne/v2/container"
+	"fyne.io/fyne/v2/dialog"
+	"fyne.io/fyne/v2/widget"
+
+	"furlong/trial"
+)
+
+// Options configure the window.
+type Options struct {
+	Version string // shown in the About dialog
+
+	// autosaveDelay overrides the debounce of the background saver (tests).
+	autosaveDelay time.Duration
+}
+
+// autosaveDelay is the debounce of the background saver: every edit is
+// written to the recovery file within this delay plus one write.
+const autosaveDelay = 800 * time.Millisecond
+
+// recoveryUntitled is the recovery file of a trial that was never saved.
+const recoveryUntitled = "untitled.furlong"
+
+// App is Furlong's window: the step navigator, the screens of each step and
+// the open trial.
+type App struct {
+	app   fyne.App
+	win   fyne.Window
+	opts  Options
+	prefs *prefs
+
+	doc         *document
+	saver       *saver
+	recoveryDir string
+	lastSaved   uint64 // document generation last written anywhere
+
+	nav    *navigator
+	body   *fyne.Container // holds the current screen
+	status *widget.Label   // save state, under the navigator
+	cur    stepID
+	steps  [numSteps]stepView
+	start  *startScreen
+
+	compute *analyser
+	menu    menuItems
+
+	// saved, when set, receives every finished save (tests wait on it).
+	saved func(j saveJob, err error)
+}
+
+// stepView is the screen of one step.
+type stepView interface {
+	object() fyne.CanvasObject
+	// refresh redraws after the document changed.
+	refresh(c change)
+}
+
+// New builds the whole window content on w: menus, shortcuts and the start
+// screen. a provides preferences and storage; the caller runs the app.
+func New(a fyne.App, w fyne.Window, opts Options) *App {
+	u := &App{app: a, win: w, opts: opts, prefs: loadPrefs(a.Preferences())}
+	a.Settings().SetTheme(newTheme())
+	u.recoveryDir = recoveryDir(a)
+	delay := autosaveDelay
+	if opts.autosaveDelay > 0 {
+		delay = opts.autosaveDelay
+	}
+	u.saver = newSaver(delay, saveTrial, func(j saveJob, err error) {
+		fyne.Do(func() { u.onSaved(j, err) })
+	})
+	u.compute = newAnalyser(u)
+
+	u.status = widget.NewLabel("")
+	u.status.Wrapping = fyne.TextWrapWord
+	u.status.Importance = widget.LowImportance
+	u.nav = newNavigator(u.showStep)
+	u.body = container.NewStack()
+	u.start = newStartScreen(u)
+
+	navBox := container.NewBorder(nil, u.status, nil, nil, u.nav.object())
+	split := container.NewHSplit(navBox, u.body)
+	split.Offset = 0.16
+	w.SetContent(split)
+	u.buildMenus()
+	u.addShortcuts()
+	w.SetCloseIntercept(u.onClose)
+	w.Resize(fyne.NewSize(float32(u.prefs.windowWidth), float32(u.prefs.windowHeight)))
+	u.showStart()
+	return u
+}
+
+// recoveryDir returns the folder for recovery copies: the app's storage,
+// or the user's configuration folder when the app has none.
+func recoveryDir(a fyne.App) string {
+	if st := a.Storage(); st != nil {
+		if root := st.RootURI(); root != nil && root.Scheme() == "file" {
+			return filepath.Join(root.Path(), "recovery")
+		}
+	}
+	if dir, err := os.UserConfigDir(); err == nil {
+		return filepath.Join(dir, "furlong", "recovery")
+	}
+	return filepath.Join(os.TempDir(), "furlong-recovery")
+}
+
+// recoveryPath is the recovery file of the trial at path ("" for a trial
+// never saved).
+func (u *App) recoveryPath(path string) string {
+	if path == "" {
+		return filepath.Join(u.recoveryDir, recoveryUntitled)
+	}
+	sum := sha256.Sum256([]byte(path))
+	return filepath.Join(u.recoveryDir, hex.EncodeToString(sum[:8])+".furlong")
+}
+
+// saveTrial writes t to path, creating the folder when needed.
+func saveTrial(path string, t *trial.Trial) error {
+	if err := os.MkdirAll(filepath.Dir(path), 0o755); err != nil {
+		return err
+	}
+	return saveFile(path, t)
+}
+
+// OpenTrial shows t, read from path ("" for a trial not yet saved).
+func (u *App) OpenTrial(t *trial.Trial, path string) {
+	u.closeDocument()
+	u.doc = newDocument(t, path)
+	u.doc.onChange = u.onChange
+	u.lastSaved = 0
+	for i := range u.steps {
+		u.steps[i] = nil
+	}
+	if path != "" {
+		u.prefs.onFileOpened(path)
+		u.prefs.onLastFolderChanged(filepath.Dir(path))
+	}
+	u.nav.setEnabled(true)
+	u.onChange(changeAll)
+	u.showStep(u.suggestedStep())
+}
+
+// closeDocument forgets the open trial after its last autosave is written.
+func (u *App) closeDocument() {
+	if u.doc == nil {
+		return
+	}
+	u.saver.sync()
+	u.compute.cancel()
+	u.doc = nil
+}
+
+// OpenFile opens the trial file at path. When a recovery copy newer than
+// the file exists, the user is offered to restore it.
+func (u *App) OpenFile(path string) error {
+	t, err := loadFile(path)
+	if err != nil {
+		return err
+	}
+	u.OpenTrial(t, path)
+	u.offerRecovery(path)
+	return nil
+}
+
+// openPath opens a file and shows any error as a dialog.
+func (u *App) openPath(path string) {
+	if err := u.OpenFile(path); err != nil {
+		showError(u.win, "Could not open the trial", "The trial file "+filepath.Base(path)+" could not be opened", err)
+	}
+}
+
+// offerRecovery asks whether to restore a recovery copy of path that is
+// newer than the file itself.
+func (u *App) offerRecovery(path string) {
+	rp := u.recoveryPath(path)
+	rs, err := os.Stat(rp)
+	if err != nil {
+		return
+	}
+	if path != "" {
+		fs, err := os.Stat(path)
+		if err == nil && !rs.ModTime().After(fs.ModTime()) {
+			return
+		}
+	}
+	rt, err := loadFile(rp)
+	if err != nil {
+		return
+	}
+	msg := "Furlong kept a copy of this trial from " + rs.ModTime().Format("2 Jan 2006 15:04") +
+		" with changes that were never saved (the program may have closed unexpectedly).\n\nRestore those changes?"
+	if path == "" {
+		msg = "Furlong kept a trial from " + rs.ModTime().Format("2 Jan 2006 15:04") +
+			" that was never saved to a file.\n\nOpen it again?"
+	}
+	dialog.ShowConfirm("Unsaved changes found", msg, func(ok bool) {
+		if !ok {
+			return
+		}
+		if path == "" || u.doc == nil {
+			u.OpenTrial(rt, "")
+			u.doc.edited(changeAll)
+			return
+		}
+		u.doc.apply(&replaceTrial{what: "restore", before: cloneTrial(u.doc.t), after: rt, c: changeAll})
+	}, u.win)
+}
+
+// OpenDemo opens the built-in demo trial as a new, unsaved trial.
+func (u *App) OpenDemo() error {
+	t, err := demoTrial()
+	if err != nil {
+		return err
+	}
+	u.OpenTrial(t, "")
+	return nil
+}
+
+// newTrial starts an empty trial with the usual defaults.
+func (u *App) newTrial() {
+	now := time.Now()
+	t := &trial.Trial{
+		Title:   "New trial",
+		Season:  now.Format("2006"),
+		Created: now,
+		Design:  trial.Design{Kind: trial.RCBD, Reps: 4},
+		Layout:  trial.DefaultLayout(),
+	}
+	u.OpenTrial(t, "")
+	u.doc.edited(changeDetails)
+	u.showStep(stepSetup)
+}
+
+// onChange runs after every edit: title, navigator, autosave, screens.
+func (u *App) onChange(c change) {
+	if u.doc == nil {
+		return
+	}
+	u.updateTitle()
+	u.nav.update(u.doc.t, u.suggestedStep())
+	if u.doc.dirty && u.doc.gen != u.lastSaved {
+		u.saver.submit(saveJob{snap: cloneTrial(u.doc.t), path: u.recoveryPath(u.doc.path), gen: u.doc.gen})
+		u.status.SetText("Changes not yet on disk…")
+	}
+	if c&(changeValues|changeStructure) != 0 {
+		u.compute.dataChanged()
+	}
+	for _, s := range u.steps {
+		if s != nil {
+			s.refresh(c)
+		}
+	}
+	u.updateMenus()
+}
+
+// onSaved runs on the UI goroutine after a write finished.
+func (u *App) onSaved(j saveJob, err error) {
+	if u.saved != nil {
+		defer u.saved(j, err)
+	}
+	if u.doc == nil {
+		return
+	}
+	if err != nil {
+		u.status.SetText("Could not write the recovery copy.")
+		if j.explicit {
+			showError(u.win, "Could not save", "The trial could not be saved to "+j.path, err)
+		}
+		return
+	}
+	if j.gen > u.lastSaved {
+		u.lastSaved = j.gen
+	}
+	if j.explicit {
+		if j.gen == u.doc.gen {
+			u.doc.dirty = false
+		}
+		u.status.SetText("Saved " + time.Now().Format("15:04:05"))
+		u.updateTitle()
+		return
+	}
+	if u.doc.dirty {
+		u.status.SetText("Changes kept safe " + time.Now().Format("15:04:05") + " (not yet saved to the trial file)")
+	}
+}
+
+func (u *App) updateTitle() {
+	title := "Furlong"
+	if u.doc != nil {
+		name := u.doc.t.Title
+		if name == "" {
+			name = "Untitled trial"
+		}
+		title += " — " + name
+		if u.doc.dirty {
+			title += " •"
+		}
+	}
+	u.win.SetTitle(title)
+}
+
+// showStart shows the start screen (no trial open).
+func (u *App) showStart() {
+	u.nav.setEnabled(u.doc != nil)
+	u.start.refresh()
+	u.body.Objects = []fyne.CanvasObject{u.start.object()}
+	u.body.Refresh()
+	u.updateTitle()
+	u.updateMenus()
+	if u.doc == nil {
+		u.offerRecovery("")
+	}
+}
+
+// showStep shows one step's screen, building it on first use.
+func (u *App) showStep(s stepID) {
+	if u.doc == nil {
+		u.showStart()
+		return
+	}
+	if u.steps[s] == nil {
+		u.steps[s] = u.buildStep(s)
+	}
+	u.cur = s
+	u.nav.setCurrent(s)
+	u.body.Objects = []fyne.CanvasObject{u.steps[s].object()}
+	u.body.Refresh()
+	if s == stepCompare || s == stepReport {
+		u.compute.visible()
+	}
+}
+
+func (u *App) buildStep(s stepID) stepView {
+	switch s {
+	case stepSetup:
+		return newSetupStep(u)
+	case stepField:
+		return newFieldStep(u)
+	case stepRecord:
+		return newRecordStep(u)
+	case stepCompare:
+		return newCompareStep(u)
+	default:
+		return newReportStep(u)
+	}
+}
+
+// suggestedStep is the next sensible step for the open trial.
+func (u *App) suggestedStep() stepID {
+	t := u.doc.t
+	if len(t.Treatments) < 2 || len(t.Traits) == 0 || t.Title == "" {
+		return stepSetup
+	}
+	if len(t.Plots) == 0 {
+		return stepField
+	}
+	filled, total := dataProgress(t)
+	if total == 0 || filled < total {
+		return stepRecord
+	}
+	if u.cur == stepCompare || u.cur == stepReport {
+		return stepReport
+	}
+	return stepCompare
+}
+
+// dataProgress counts the stored values entered and expected.
+func dataProgress(t *trial.Trial) (filled, total int) {
+	for _, tr := range t.Traits {
+		if tr.Derived != nil {
+			continue
+		}
+		for i := range t.Plots {
+			total++
+			if i < len(tr.Values) && !trial.IsMissing(tr.Values[i]) {
+				filled++
+			}
+		}
+	}
+	return filled, total
+}
+
+// excludedPlots counts plots with at least one exclusion.
+func excludedPlots(t *trial.Trial) int {
+	n := 0
+	for _, p := range t.Plots {
+		if len(p.Exclusions) > 0 {
+			n++
+		}
+	}
+	return n
+}
+
+// onClose never discards changes silently.
+func (u *App) onClose() {
+	if u.doc == nil || !u.doc.dirty {
+		u.quit()
+		return
+	}
+	var d dialog.Dialog
+	save := widget.NewButton("Save", func() {
+		d.Hide()
+		u.save(false, u.quit)
+	})
+	save.Importance = widget.HighImportance
+	discard := widget.NewButton("Close without saving", func() {
+		d.Hide()
+		u.saver.sync()
+		os.Remove(u.recoveryPath(u.doc.path))
+		u.doc.dirty = false
+		u.quit()
+	})
+	cancel := widget.NewButton("Cancel", func() { d.Hide() })
+	text := widget.NewLabel("The trial “" + u.doc.t.Title + "” has changes that are not saved to its file.")
+	text.Wrapping = fyne.TextWrapWord
+	d = dialog.NewCustomWithoutButtons("Save changes?", container.NewVBox(text,
+		container.NewHBox(cancel, discard, save)), u.win)
+	d.Resize(fyne.NewSize(460, 180))
+	d.Show()
+}
+
+// quit writes what is pending, remembers the window size and closes.
+func (u *App) quit() {
+	u.prefs.onWindowSizeChanged(u.win.Canvas().Size())
+	u.saver.stop()
+	u.compute.cancel()
+	u.win.Close()
+}

@@ -1,0 +1,50 @@
+package ui
+
+import (
+	"gonum.org/v1/plot"
+
+	"furlong/export/chart"
+	"furlong/trial"
+	"furlong/trial/analysis"
+)
+
+// Size of the chart images drawn for the screen; the canvas.Image scales
+// them to fit (FillMode contain).
+const chartW, chartH = 900, 560
+
+// drawCharts draws the screen charts of one analysed trait. It runs on the
+// analyser's goroutine and touches only the snapshot.
+func drawCharts(t *trial.Trial, tr traitResult, m analysis.Method) []chartImage {
+	if tr.res == nil {
+		return nil
+	}
+	type maker struct {
+		title string
+		make  func() (*plot.Plot, error)
+	}
+	makers := []maker{
+		{"Means", func() (*plot.Plot, error) {
+			return chart.Means(t, tr.res, chart.MeansOptions{Letters: m, Order: chart.ByMean})
+		}},
+	}
+	out := make([]chartImage, 0, len(makers))
+	for _, mk := range makers {
+		p, err := safePlot(mk.make)
+		ci := chartImage{title: mk.title, err: err}
+		if err == nil {
+			ci.img = chart.Image(p, chartW, chartH)
+		}
+		out = append(out, ci)
+	}
+	return out
+}
+
+// safePlot runs a chart constructor, turning a panic into an error.
+func safePlot(f func() (*plot.Plot, error)) (p *plot.Plot, err error) {
+	defer func() {
+		if r := recover(); r != nil {
+			p, err = nil, errChartFailed
+		}
+	}()
+	return f()
+}

@@ -1,0 +1,419 @@
+package ui
+
+import (
+	"fmt"
+	"slices"
+	"strconv"
+	"strings"
+
+	"fyne.io/fyne/v2"
+	"fyne.io/fyne/v2/canvas"
+	"fyne.io/fyne/v2/container"
+	"fyne.io/fyne/v2/widget"
+
+	"furlong/stats"
+	"furlong/trial"
+	"furlong/trial/analysis"
+)
+
+// compareStep shows the analysis of one trait (ANOVA, means with letters,
+// statistics, warnings, charts) and a summary of every trait.
+type compareStep struct {
+	u *App
+
+	traitKey string
+	method   analysis.Method
+	alpha    float64
+
+	traitSel  *widget.Select
+	methodSel *widget.RadioGroup
+	alphaSel  *widget.Select
+	state     *widget.Label // "computing…", timings
+
+	anova    *fyne.Container
+	statsBox *fyne.Container
+	warnings *widget.Label
+	means    *widget.Table
+	meanRows []analysis.Mean
+	charts   *container.AppTabs
+
+	summary     *widget.Table
+	summaryRows [][]string
+
+	shown         *resultSet
+	shownDecimals int
+	root          fyne.CanvasObject
+}
+
+var summaryHead = []string{"Trait", "Plots", "Mean", "CV %", "P (treatments)", "LSD", "HSD", "Best treatment"}
+
+func newCompareStep(u *App) *compareStep {
+	c := &compareStep{u: u, method: u.prefs.method, alpha: u.prefs.alpha}
+	c.traitSel = widget.NewSelect(nil, func(s string) {
+		key := c.keyForLabel(s)
+		if key == c.traitKey {
+			return
+		}
+		c.traitKey = key
+		c.show(c.shown)
+		u.compute.settingsChanged()
+	})
+	c.methodSel = widget.NewRadioGroup([]string{methodLabel(analysis.LSD), methodLabel(analysis.Tukey)}, func(s string) {
+		m := analysis.LSD
+		if s == methodLabel(analysis.Tukey) {
+			m = analysis.Tukey
+		}
+		if m == c.method {
+			return
+		}
+		c.method = m
+		c.show(c.shown)
+		u.compute.settingsChanged() // the chart letters follow the method
+	})
+	c.methodSel.Horizontal = true
+	c.methodSel.SetSelected(methodLabel(c.method))
+	c.alphaSel = widget.NewSelect(alphaChoices, func(s string) {
+		a, err := strconv.ParseFloat(s, 64)
+		if err != nil || a == c.alpha {
+			return
+		}
+		c.alpha = a
+		u.compute.settingsChanged()
+	})
+	c.alphaSel.SetSelected(strconv.FormatFloat(c.alpha, 'g', -1, 64))
+	c.state = widget.NewLabel("")
+	c.state.Importance = widget.LowImportance
+
+	c.anova = container.NewGridWithColumns(6)
+	c.statsBox = container.NewGridWithColumns(2)
+	c.warnings = widget.NewLabel("")
+	c.warnings.Wrapping = fyne.TextWrapWord
+	c.means = widget.NewTableWithHeaders(
+		func() (int, int) { return len(c.meanRows), 5 },
+		func() fyne.CanvasObject { return widget.NewLabel("") },
+		c.updateMean)
+	c.means.ShowHeaderColumn = false
+	c.means.CreateHeader = func() fyne.CanvasObject {
+		return widget.NewLabelWithStyle("", fyne.TextAlignLeading, fyne.TextStyle{Bold: true})
+	}
+	c.means.UpdateHeader = func(id widget.TableCellID, o fyne.CanvasObject) {
+		o.(*widget.Label).SetText([]string{"Treatment", "Plots", "Mean", "SE", "Letters"}[id.Col])
+	}
+	for i, w := range []float32{200, 60, 90, 80, 80} {
+		c.means.SetColumnWidth(i, w)
+	}
+	c.charts = container.NewAppTabs()
+
+	c.summary = widget.NewTableWithHeaders(
+		func() (int, int) { return len(c.summaryRows), len(summaryHead) },
+		func() fyne.CanvasObject { return widget.NewLabel("") },
+		func(id widget.TableCellID, o fyne.CanvasObject) {
+			o.(*widget.Label).SetText(c.summaryRows[id.Row][id.Col])
+		})
+	c.summary.ShowHeaderColumn = false
+	c.summary.CreateHeader = func() fyne.CanvasObject {
+		return widget.NewLabelWithStyle("", fyne.TextAlignLeading, fyne.TextStyle{Bold: true})
+	}
+	c.summary.UpdateHeader = func(id widget.TableCellID, o fyne.CanvasObject) {
+		o.(*widget.Label).SetText(summaryHead[id.Col])
+	}
+	for i, w := range []float32{220, 60, 90, 70, 110, 80, 80, 240} {
+		c.summary.SetColumnWidth(i, w)
+	}
+
+	controls := container.NewHBox(widget.NewLabel("Trait"), c.traitSel, widget.NewSeparator(), c.methodSel,
+		widget.NewSeparator(), widget.NewLabel("Significance level"), c.alphaSel, c.state)
+	caution := widget.NewLabel(cautionShort)
+	caution.Importance = widget.WarningImportance
+	caution.Truncation = fyne.TextTruncateEllipsis
+
+	left := container.NewBorder(
+		container.NewVBox(heading("Analysis of variance"), c.anova, heading("Statistics"), c.statsBox, c.warnings, heading("Means")),
+		nil, nil, nil, c.means)
+	detail := container.NewHSplit(left, c.charts)
+	detail.Offset = 0.45
+	tabs := container.NewAppTabs(
+		container.NewTabItem("This trait", detail),
+		container.NewTabItem("All traits", c.summary),
+	)
+	c.root = container.NewBorder(controls, caution, nil, nil, tabs)
+	u.compute.onResults = append(u.compute.onResults, c.show)
+	c.refresh(changeAll)
+	return c
+}
+
+func heading(s string) *widget.Label {
+	return widget.NewLabelWithStyle(s, fyne.TextAlignLeading, fyne.TextStyle{Bold: true})
+}
+
+func (c *compareStep) object() fyne.CanvasObject { return c.root }
+
+func (c *compareStep) keyForLabel(s string) string {
+	for _, tr := range c.u.doc.t.Traits {
+		if traitLabel(&tr) == s {
+			return tr.Key
+		}
+	}
+	return ""
+}
+
+// refresh follows trait changes; the analyser recomputes on data changes.
+func (c *compareStep) refresh(ch change) {
+	t := c.u.doc.t
+	if ch&changeStructure == 0 && len(c.traitSel.Options) == len(t.Traits) {
+		if ch&changeValues != 0 {
+			c.state.SetText("updating…")
+		}
+		return
+	}
+	var opts []string
+	sel := ""
+	for _, tr := range t.Traits {
+		opts = append(opts, traitLabel(&tr))
+		if tr.Key == c.traitKey {
+			sel = traitLabel(&tr)
+		}
+	}
+	c.traitSel.SetOptions(opts)
+	if sel == "" && len(t.Traits) > 0 {
+		c.traitKey = analysableDefault(t.Traits)
+		for _, tr := range t.Traits {
+			if tr.Key == c.traitKey {
+				sel = traitLabel(&tr)
+			}
+		}
+	}
+	c.traitSel.SetSelected(sel)
+}
+
+// show displays a round of results.
+func (c *compareStep) show(s *resultSet) {
+	c.shown = s
+	if s == nil {
+		return
+	}
+	c.state.SetText(fmt.Sprintf("computed in %d ms", s.took.Milliseconds()))
+	tr := s.result(c.traitKey)
+	c.anova.Objects = nil
+	c.statsBox.Objects = nil
+	c.meanRows = nil
+	switch {
+	case tr == nil:
+		c.warnings.SetText("Computing…")
+	case tr.err != nil:
+		m := explain("This trait cannot be analysed yet", tr.err)
+		c.warnings.SetText(m.What + " " + m.Do)
+	default:
+		c.showResult(tr.res)
+	}
+	c.anova.Refresh()
+	c.statsBox.Refresh()
+	c.means.Refresh()
+	if s.focus == c.traitKey {
+		c.showCharts(s.charts)
+	}
+	if s.complete {
+		c.summaryRows = summaryRows(s)
+		c.summary.Refresh()
+	}
+}
+
+func (c *compareStep) showResult(r *analysis.Result) {
+	cell := func(s string, bold bool) fyne.CanvasObject {
+		return widget.NewLabelWithStyle(s, fyne.TextAlignLeading, fyne.TextStyle{Bold: bold})
+	}
+	for _, h := range []string{"Source", "df", "SS", "MS", "F", "P"} {
+		c.anova.Add(cell(h, true))
+	}
+	if r.ANOVA != nil {
+		for _, src := range r.ANOVA.Sources {
+			c.anova.Add(cell(sourceName(src.Name), false))
+			c.anova.Add(cell(strconv.Itoa(src.DF), false))
+			c.anova.Add(cell(num(src.SS, 5), false))
+			ms, f, p := "", "", ""
+			if src.Name != "total" {
+				ms = num(src.MS, 5)
+			}
+			if src.HasTest {
+				f, p = fixed(src.F, 2), pValue(src.P)
+			}
+			c.anova.Add(cell(ms, false))
+			c.anova.Add(cell(f, false))
+			c.anova.Add(cell(p, false))
+		}
+		a := r.ANOVA
+		add := func(k, v string) { c.statsBox.Add(cell(k, false)); c.statsBox.Add(cell(v, true)) }
+		add("Grand mean", fixed(a.GrandMean, r.Decimals+1)+" "+r.Unit)
+		add("CV %", fixed(a.CVPercent, 1))
+		if c.method == analysis.Tukey {
+			add(fmt.Sprintf("HSD (%.0f %%)", 100*r.Alpha), optNum(r.HSD, r.Decimals+1))
+		} else {
+			add(fmt.Sprintf("LSD (%.0f %%)", 100*r.Alpha), optNum(r.LSD, r.Decimals+1))
+		}
+		add("R²", fixed(a.RSquared, 3))
+		if a.RelativeEfficiency > 0 {
+			add("Relative efficiency of blocking", fixed(a.RelativeEfficiency, 2))
+		}
+		add("Plots analysed", fmt.Sprintf("%d (missing %d, excluded %d)", r.N, r.Missing, len(r.Excluded)))
+	}
+	c.warnings.SetText(strings.Join(r.Warnings, "\n"))
+	rows := slices.Clone(r.Means)
+	if c.u.prefs.meansOrder == orderBestFirst {
+		slices.SortStableFunc(rows, func(a, b analysis.Mean) int {
+			if r.HigherBetter {
+				a, b = b, a
+			}
+			switch {
+			case a.BackMean < b.BackMean:
+				return -1
+			case a.BackMean > b.BackMean:
+				return 1
+			}
+			return 0
+		})
+	}
+	c.meanRows = rows
+	c.shownDecimals = r.Decimals
+}
+
+func (c *compareStep) updateMean(id widget.TableCellID, o fyne.CanvasObject) {
+	l := o.(*widget.Label)
+	if id.Row >= len(c.meanRows) {
+		return
+	}
+	m := c.meanRows[id.Row]
+	switch id.Col {
+	case 0:
+		s := m.Treatment
+		if m.Name != "" && m.Name != m.Treatment {
+			s += "  " + m.Name
+		}
+		if m.Check {
+			s += " (check)"
+		}
+		l.SetText(s)
+	case 1:
+		l.SetText(strconv.Itoa(m.N))
+	case 2:
+		l.SetText(fixed(m.BackMean, c.shownDecimals+1))
+	case 3:
+		l.SetText(fixed(m.SE, c.shownDecimals+2))
+	case 4:
+		if c.method == analysis.Tukey {
+			l.SetText(m.LettersTukey)
+		} else {
+			l.SetText(m.LettersLSD)
+		}
+	}
+}
+
+func (c *compareStep) showCharts(cs []chartImage) {
+	sel := 0
+	if it := c.charts.Selected(); it != nil {
+		sel = slices.Index(c.charts.Items, it)
+	}
+	var items []*container.TabItem
+	for _, ch := range cs {
+		var obj fyne.CanvasObject
+		if ch.err != nil {
+			m := explain("The chart could not be drawn", ch.err)
+			l := widget.NewLabel(m.What)
+			l.Wrapping = fyne.TextWrapWord
+			obj = l
+		} else {
+			img := canvas.NewImageFromImage(ch.img)
+			img.FillMode = canvas.ImageFillContain
+			img.ScaleMode = canvas.ImageScaleSmooth
+			obj = img
+		}
+		items = append(items, container.NewTabItem(ch.title, obj))
+	}
+	c.charts.SetItems(items)
+	if sel >= 0 && sel < len(items) {
+		c.charts.SelectIndex(sel)
+	}
+}
+
+// sourceName is the ANOVA line name shown.
+func sourceName(s string) string {
+	switch s {
+	case "treatment":
+		return "Treatments"
+	case "block":
+		return "Blocks"
+	case "row":
+		return "Rows"
+	case "column":
+		return "Columns"
+	case "error":
+		return "Error"
+	case "total":
+		return "Total"
+	}
+	return s
+}
+
+// treatmentTest returns the treatment line of an ANOVA, or nil.
+func treatmentTest(a *stats.ANOVA) *stats.Source {
+	if a == nil {
+		return nil
+	}
+	for i := range a.Sources {
+		if a.Sources[i].Name == "treatment" {
+			return &a.Sources[i]
+		}
+	}
+	return nil
+}
+
+// summaryRows is one line per trait, as the report's summary sheet.
+func summaryRows(s *resultSet) [][]string {
+	var rows [][]string
+	for _, tr := range s.traits {
+		t := s.snap.Trait(tr.key)
+		if t == nil {
+			continue
+		}
+		row := []string{traitLabel(t), "", "", "", "", "", "", ""}
+		if tr.err != nil || tr.res == nil || tr.res.ANOVA == nil {
+			m := "not analysed"
+			if tr.err != nil {
+				m = explain("Not analysed", tr.err).What
+			}
+			row[7] = m
+			rows = append(rows, row)
+			continue
+		}
+		r := tr.res
+		row[1] = strconv.Itoa(r.N)
+		row[2] = fixed(r.ANOVA.GrandMean, r.Decimals+1)
+		row[3] = fixed(r.ANOVA.CVPercent, 1)
+		if src := treatmentTest(r.ANOVA); src != nil && src.HasTest {
+			row[4] = pValue(src.P)
+		}
+		row[5] = optNum(r.LSD, r.Decimals+1)
+		row[6] = optNum(r.HSD, r.Decimals+1)
+		if len(r.Means) > 0 {
+			best := r.Means[0]
+			for _, m := range r.Means[1:] {
+				if (r.HigherBetter && m.BackMean > best.BackMean) || (!r.HigherBetter && m.BackMean < best.BackMean) {
+					best = m
+				}
+			}
+			row[7] = best.Treatment + " " + best.Name + " (" + fixed(best.BackMean, r.Decimals+1) + ")"
+		}
+		rows = append(rows, row)
+	}
+	return rows
+}
+
+// analysableDefault picks the trait Compare opens with: the first derived
+// trait (usually adjusted yield), else the first.
+func analysableDefault(ts []trial.Trait) string {
+	for _, t := range ts {
+		if t.Derived != nil {
+			return t.Key
+		}
+	}
+	return ts[0].Key
+}

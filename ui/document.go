@@ -1,0 +1,79 @@
+package ui
+
+import "furlong/trial"
+
+// change says what an edit touched, so that steps redraw only what they must.
+type change int
+
+const (
+	changeValues    change = 1 << iota // plot values, exclusions or notes
+	changeStructure                    // treatments, traits, design or layout
+	changeDetails                      // title and other descriptive fields
+	changeFile                         // the file path or saved state
+	changeAll       = changeValues | changeStructure | changeDetails | changeFile
+)
+
+// document is the open trial with its file and edit history. All its
+// methods run on the UI goroutine; background work only ever sees
+// snapshots made by cloneTrial.
+type document struct {
+	t     *trial.Trial
+	path  string // "" for a trial never saved
+	dirty bool   // edited since the last explicit save
+	gen   uint64 // incremented by every edit
+	hist  history
+
+	onChange func(change)
+}
+
+func newDocument(t *trial.Trial, path string) *document {
+	return &document{t: t, path: path}
+}
+
+// edited records an edit of the given kind and notifies the window.
+func (d *document) edited(c change) {
+	d.gen++
+	d.dirty = true
+	if d.onChange != nil {
+		d.onChange(c)
+	}
+}
+
+// apply runs a command, puts it on the undo stack and notifies.
+func (d *document) apply(c command) {
+	c.do(d.t)
+	d.hist.push(c)
+	d.edited(c.kind())
+}
+
+// record puts a command that has already been carried out on the undo
+// stack and notifies.
+func (d *document) record(c command) {
+	d.hist.push(c)
+	d.edited(c.kind())
+}
+
+func (d *document) undo() bool {
+	c := d.hist.undo()
+	if c == nil {
+		return false
+	}
+	c.undo(d.t)
+	d.edited(c.kind())
+	return true
+}
+
+func (d *document) redo() bool {
+	c := d.hist.redo()
+	if c == nil {
+		return false
+	}
+	c.do(d.t)
+	d.edited(c.kind())
+	return true
+}
+
+// cloneTrial returns a deep copy of t that shares no mutable memory with
+// it, so that the copy can be encoded or analysed on another goroutine
+// while the UI keeps editing the original.
+func cloneTrial(t *trial.Trial) *trial.Trial { return t.Clone() }

@@ -1,0 +1,90 @@
+package ui
+
+import (
+	"errors"
+	"io/fs"
+	"strings"
+
+	"fyne.io/fyne/v2"
+	"fyne.io/fyne/v2/container"
+	"fyne.io/fyne/v2/dialog"
+	"fyne.io/fyne/v2/widget"
+
+	"furlong/trial"
+)
+
+// message is an error told in plain words: what happened and what to do.
+type message struct {
+	What string // one sentence: what Furlong could not do and why
+	Do   string // what the user can do about it
+}
+
+// explain turns an error from one of Furlong's packages into a message.
+// action says what the user was doing, as a sentence without a full stop,
+// for example "The trial file could not be opened".
+func explain(action string, err error) message {
+	var verrs trial.ValidationErrors
+	var verr *trial.ValidationError
+	var perr *fs.PathError
+	switch {
+	case errors.Is(err, trial.ErrHasData):
+		return message{action + ": the trial already holds recorded data, and randomising again would move treatments away from their values.",
+			"Keep the current layout, or save a copy of the trial under a new name and start the copy afresh."}
+	case errors.Is(err, trial.ErrUnknownMethod):
+		return message{action + ": the trial was randomised by a method this version of Furlong does not know.",
+			"Open the trial with the version of Furlong that made it, or update Furlong."}
+	case errors.Is(err, trial.ErrLayoutMismatch):
+		return message{action + ": the plots in the file are not the layout its recorded seed gives; the file may have been edited by hand.",
+			"Check the plot list against the stakes in the field before recording more data."}
+	case errors.Is(err, trial.ErrNotRandomized):
+		return message{action + ": the trial has not been randomised yet.",
+			"Go to the Field step and press Randomise."}
+	case errors.As(err, &verrs):
+		return message{action + ": " + lowerFirst(verrs.Error()), "Correct the entries named above in the Setup step."}
+	case errors.As(err, &verr):
+		return message{action + ": " + lowerFirst(verr.Msg), "Correct the entry in the Setup step."}
+	case errors.Is(err, fs.ErrNotExist):
+		return message{action + ": the file does not exist (it may have been moved, renamed or deleted).",
+			"Choose the file again with Open."}
+	case errors.Is(err, fs.ErrPermission):
+		return message{action + ": Furlong is not allowed to read or write that file.",
+			"Choose another folder, or ask whoever manages this computer for access."}
+	case errors.As(err, &perr):
+		return message{action + ": the file system reported a problem with " + perr.Path + " (" + perr.Err.Error() + ").",
+			"Check that the disk is connected and not full, then try again."}
+	}
+	if m, ok := explainPackages(action, err); ok {
+		return m
+	}
+	return message{action + ": " + lowerFirst(err.Error()),
+		"If the problem remains, note what you were doing and report it together with the file."}
+}
+
+// lowerFirst makes a sentence continue after a colon.
+func lowerFirst(s string) string {
+	s = strings.TrimSpace(s)
+	if s == "" {
+		return "an unknown problem occurred."
+	}
+	if len(s) > 1 && s[1] >= 'a' && s[1] <= 'z' && s[0] >= 'A' && s[0] <= 'Z' {
+		s = strings.ToLower(s[:1]) + s[1:]
+	}
+	if !strings.HasSuffix(s, ".") {
+		s += "."
+	}
+	return s
+}
+
+// showError shows err as a dialog in plain words on w.
+func showError(w fyne.Window, title, action string, err error) {
+	m := explain(action, err)
+	what := widget.NewLabel(m.What)
+	what.Wrapping = fyne.TextWrapWord
+	todo := widget.NewLabel(m.Do)
+	todo.Wrapping = fyne.TextWrapWord
+	todo.TextStyle = fyne.TextStyle{Italic: true}
+	box := container.NewVBox(what, todo)
+	d := dialog.NewCustom(title, "OK", box, w)
+	d.Resize(fyne.NewSize(500, 240))
+	d.Show()
+}

@@ -1,0 +1,137 @@
+package ui
+
+import (
+	"path/filepath"
+	"strings"
+
+	"fyne.io/fyne/v2"
+	"fyne.io/fyne/v2/dialog"
+	"fyne.io/fyne/v2/storage"
+
+	"furlong/sampledata"
+	"furlong/trial"
+	"furlong/trial/trialfile"
+)
+
+// trialExt is the extension of trial files.
+const trialExt = ".furlong"
+
+func loadFile(path string) (*trial.Trial, error) { return trialfile.Load(path) }
+
+func saveFile(path string, t *trial.Trial) error { return trialfile.Save(path, t) }
+
+func demoTrial() (*trial.Trial, error) { return sampledata.Trial() }
+
+// lastFolder returns the remembered folder as a listable URI, or nil.
+func (u *App) lastFolder() fyne.ListableURI {
+	if u.prefs.lastFolder == "" {
+		return nil
+	}
+	l, err := storage.ListerForURI(storage.NewFileURI(u.prefs.lastFolder))
+	if err != nil {
+		return nil
+	}
+	return l
+}
+
+// openDialog asks for a trial file to open.
+func (u *App) openDialog() {
+	d := dialog.NewFileOpen(func(r fyne.URIReadCloser, err error) {
+		if err != nil {
+			showError(u.win, "Could not open the trial", "The file could not be opened", err)
+			return
+		}
+		if r == nil {
+			return
+		}
+		path := r.URI().Path()
+		r.Close()
+		u.openPath(path)
+	}, u.win)
+	d.SetFilter(storage.NewExtensionFileFilter([]string{trialExt}))
+	if l := u.lastFolder(); l != nil {
+		d.SetLocation(l)
+	}
+	d.Resize(dialogSize(u.win))
+	d.Show()
+}
+
+// dialogSize is a file dialog size that fits the window.
+func dialogSize(w fyne.Window) fyne.Size {
+	s := w.Canvas().Size()
+	return fyne.NewSize(min(900, s.Width*0.9), min(640, s.Height*0.9))
+}
+
+// save writes the trial to its file, asking for a place when it has none
+// (or asNew is set); then runs after it succeeded.
+func (u *App) save(asNew bool, then func()) {
+	if u.doc == nil {
+		return
+	}
+	if u.doc.path == "" || asNew {
+		u.saveAsDialog(then)
+		return
+	}
+	u.saveTo(u.doc.path, then)
+}
+
+// saveTo writes the trial to path through the saver and waits for it.
+func (u *App) saveTo(path string, then func()) {
+	old := u.recoveryPath(u.doc.path)
+	if u.doc.path != path {
+		u.doc.path = path
+		u.prefs.onFileOpened(path)
+		u.prefs.onLastFolderChanged(filepath.Dir(path))
+	}
+	done := make(chan error, 1)
+	u.saver.submit(saveJob{snap: cloneTrial(u.doc.t), path: path, gen: u.doc.gen,
+		explicit: true, staleRecovery: old, done: done})
+	// The explicit save is small; wait for it so that "then" (for example
+	// closing the window) only runs once the file is on disk.
+	if err := <-done; err == nil && then != nil {
+		then()
+	}
+}
+
+// saveAsDialog asks where to save the trial.
+func (u *App) saveAsDialog(then func()) {
+	d := dialog.NewFileSave(func(wc fyne.URIWriteCloser, err error) {
+		if err != nil {
+			showError(u.win, "Could not save", "The trial could not be saved", err)
+			return
+		}
+		if wc == nil {
+			return
+		}
+		path := wc.URI().Path()
+		// The saver writes atomically next to the chosen name; the
+		// empty file the dialog created is replaced.
+		wc.Close()
+		if !strings.HasSuffix(strings.ToLower(path), trialExt) {
+			path += trialExt
+		}
+		u.saveTo(path, then)
+	}, u.win)
+	d.SetFilter(storage.NewExtensionFileFilter([]string{trialExt}))
+	d.SetFileName(safeFileName(u.doc.t.Title) + trialExt)
+	if l := u.lastFolder(); l != nil {
+		d.SetLocation(l)
+	}
+	d.Resize(dialogSize(u.win))
+	d.Show()
+}
+
+// safeFileName turns a title into a file name.
+func safeFileName(title string) string {
+	title = strings.TrimSpace(title)
+	if title == "" {
+		return "trial"
+	}
+	return strings.Map(func(r rune) rune {
+		switch r {
+		case '/', '\\', ':', '*', '?', '"', '<', '>', '|':
+			return '-'
+		}
+		return r
+	}, title)
+}

@@ -1,0 +1,53 @@
+package ui
+
+import (
+	"math"
+	"strconv"
+)
+
+// num formats a statistic with sig significant digits; NaN and infinities
+// (which must never reach a table) show as a dash.
+func num(v float64, sig int) string {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return "–"
+	}
+	if v == 0 {
+		return "0"
+	}
+	a := math.Abs(v)
+	if a >= 1e7 || a < 1e-4 {
+		return strconv.FormatFloat(v, 'e', sig-1, 64)
+	}
+	d := sig - 1 - int(math.Floor(math.Log10(a)))
+	if d < 0 {
+		d = 0
+	}
+	return strconv.FormatFloat(v, 'f', d, 64)
+}
+
+// fixed formats v with dec decimals, or a dash.
+func fixed(v float64, dec int) string {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return "–"
+	}
+	return strconv.FormatFloat(v, 'f', max(dec, 0), 64)
+}
+
+// pValue formats a probability the usual way: "<0.001" below a thousandth.
+func pValue(p float64) string {
+	switch {
+	case math.IsNaN(p) || math.IsInf(p, 0):
+		return "–"
+	case p < 0.001:
+		return "<0.001"
+	}
+	return strconv.FormatFloat(p, 'f', 3, 64)
+}
+
+// optNum formats an optional statistic.
+func optNum(p *float64, dec int) string {
+	if p == nil {
+		return "–"
+	}
+	return fixed(*p, dec)
+}

@@ -1,0 +1,620 @@
+package ui
+
+import (
+	"errors"
+	"fmt"
+	"slices"
+	"sort"
+	"strconv"
+	"strings"
+
+	"fyne.io/fyne/v2"
+	"fyne.io/fyne/v2/container"
+	"fyne.io/fyne/v2/dialog"
+	"fyne.io/fyne/v2/theme"
+	"fyne.io/fyne/v2/widget"
+
+	"furlong/trial"
+)
+
+// setupStep edits the trial's details, treatments, design and traits.
+type setupStep struct {
+	u    *App
+	root fyne.CanvasObject
+
+	// details
+	title, season, site, lat, lon, soil, prev, investigator *widget.Entry
+	crop                                                    *widget.SelectEntry
+	objective, notes                                        *widget.Entry
+	problems                                                *widget.Label
+	loading                                                 bool
+
+	// treatments
+	trtList *widget.List
+	trtSel  int
+
+	// design
+	designSel *widget.RadioGroup
+	reps      *widget.Entry
+	designMsg *widget.Label
+
+	// traits
+	traitList *widget.List
+	traitSel  int
+}
+
+// designExplain says in one line what each design is for.
+var designExplain = map[trial.DesignKind]string{
+	trial.CRD:   "Completely randomised: every plot gets a treatment at random. For uniform ground, pots or glasshouse benches.",
+	trial.RCBD:  "Randomised complete blocks: each block holds every treatment once, randomised within the block. For fields with a slope or gradient: lay blocks across it.",
+	trial.Latin: "Latin square: each treatment once in every field row and every column. For gradients in two directions; needs as many replicates as treatments (4 to 8).",
+}
+
+var designLabels = []string{"Completely randomised (CRD)", "Randomised complete blocks (RCBD)", "Latin square"}
+var designKinds = []trial.DesignKind{trial.CRD, trial.RCBD, trial.Latin}
+
+func newSetupStep(u *App) *setupStep {
+	s := &setupStep{u: u, trtSel: -1, traitSel: -1}
+	tabs := container.NewAppTabs(
+		container.NewTabItem("Details", s.detailsTab()),
+		container.NewTabItem("Treatments", s.treatmentsTab()),
+		container.NewTabItem("Design", s.designTab()),
+		container.NewTabItem("Traits", s.traitsTab()),
+	)
+	s.problems = widget.NewLabel("")
+	s.problems.Wrapping = fyne.TextWrapWord
+	s.problems.Importance = widget.WarningImportance
+	s.root = container.NewBorder(nil, s.problems, nil, nil, tabs)
+	s.refresh(changeAll)
+	return s
+}
+
+func (s *setupStep) object() fyne.CanvasObject { return s.root }
+func (s *setupStep) t() *trial.Trial           { return s.u.doc.t }
+
+func (s *setupStep) detailsTab() fyne.CanvasObject {
+	edit := func(set func(t *trial.Trial, v string)) func(string) {
+		return func(v string) {
+			if s.loading {
+				return
+			}
+			set(s.t(), v)
+			s.u.doc.edited(changeDetails)
+		}
+	}
+	entry := func(ph string, set func(*trial.Trial, string)) *widget.Entry {
+		e := widget.NewEntry()
+		e.SetPlaceHolder(ph)
+		e.OnChanged = edit(set)
+		return e
+	}
+	s.title = entry("for example Spring wheat entries, north field", func(t *trial.Trial, v string) { t.Title = v })
+	s.title.Validator = func(v string) error {
+		if strings.TrimSpace(v) == "" {
+			return errors.New("give the trial a title")
+		}
+		return nil
+	}
+	crops := make([]string, 0, len(trial.CropDefaults))
+	for k := range trial.CropDefaults {
+		crops = append(crops, k)
+	}
+	sort.Strings(crops)
+	s.crop = widget.NewSelectEntry(crops)
+	s.crop.SetPlaceHolder("choose or type a crop")
+	s.crop.OnChanged = edit(func(t *trial.Trial, v string) { t.Crop = v })
+	s.season = entry("for example 2026 or 2026/27", func(t *trial.Trial, v string) { t.Season = v })
+	s.site = entry("farm and field", func(t *trial.Trial, v string) { t.Site.Name = v })
+	coord := func(ph string, lim float64, set func(*trial.Trial, *float64)) *widget.Entry {
+		e := widget.NewEntry()
+		e.SetPlaceHolder(ph)
+		e.Validator = func(v string) error {
+			if strings.TrimSpace(v) == "" {
+				return nil
+			}
+			f, err := strconv.ParseFloat(strings.TrimSpace(v), 64)
+			if err != nil || f < -lim || f > lim {
+				return fmt.Errorf("a number of decimal degrees between −%g and %g", lim, lim)
+			}
+			return nil
+		}
+		e.OnChanged = func(v string) {
+			if s.loading {
+				return
+			}
+			v = strings.TrimSpace(v)
+			if v == "" {
+				set(s.t(), nil)
+			} else if f, err := strconv.ParseFloat(v, 64); err == nil && f >= -lim && f <= lim {
+				set(s.t(), &f)
+			} else {
+				return
+			}
+			s.u.doc.edited(changeDetails)
+		}
+		return e
+	}
+	s.lat = coord("latitude, for example 52.123", 90, func(t *trial.Trial, v *float64) { t.Site.Latitude = v })
+	s.lon = coord("longitude, for example -1.456", 180, func(t *trial.Trial, v *float64) { t.Site.Longitude = v })
+	s.soil = entry("for example silty clay loam", func(t *trial.Trial, v string) { t.Site.Soil = v })
+	s.prev = entry("for example oilseed rape", func(t *trial.Trial, v string) { t.Site.PreviousCrop = v })
+	s.investigator = entry("who runs the trial", func(t *trial.Trial, v string) { t.Investigator = v })
+	s.objective = widget.NewMultiLineEntry()
+	s.objective.SetMinRowsVisible(2)
+	s.objective.SetPlaceHolder("what the trial should find out")
+	s.objective.OnChanged = edit(func(t *trial.Trial, v string) { t.Objective = v })
+	s.notes = widget.NewMultiLineEntry()
+	s.notes.SetMinRowsVisible(3)
+	s.notes.OnChanged = edit(func(t *trial.Trial, v string) { t.Notes = v })
+	form := widget.NewForm(
+		widget.NewFormItem("Title", s.title),
+		widget.NewFormItem("Crop", s.crop),
+		widget.NewFormItem("Season", s.season),
+		widget.NewFormItem("Site", s.site),
+		widget.NewFormItem("Latitude", s.lat),
+		widget.NewFormItem("Longitude", s.lon),
+		widget.NewFormItem("Soil", s.soil),
+		widget.NewFormItem("Previous crop", s.prev),
+		widget.NewFormItem("Investigator", s.investigator),
+		widget.NewFormItem("Objective", s.objective),
+		widget.NewFormItem("Notes", s.notes),
+	)
+	return container.NewVScroll(container.NewPadded(form))
+}
+
+func coordText(p *float64) string {
+	if p == nil {
+		return ""
+	}
+	return strconv.FormatFloat(*p, 'f', -1, 64)
+}
+
+// refresh reloads the controls from the trial.
+func (s *setupStep) refresh(c change) {
+	t := s.t()
+	if c&(changeDetails|changeFile) != 0 && c != changeDetails {
+		s.loading = true
+		setIf := func(e interface{ SetText(string) }, cur, v string) {
+			if cur != v {
+				e.SetText(v)
+			}
+		}
+		setIf(s.title, s.title.Text, t.Title)
+		setIf(s.crop, s.crop.Text, t.Crop)
+		setIf(s.season, s.season.Text, t.Season)
+		setIf(s.site, s.site.Text, t.Site.Name)
+		setIf(s.lat, s.lat.Text, coordText(t.Site.Latitude))
+		setIf(s.lon, s.lon.Text, coordText(t.Site.Longitude))
+		setIf(s.soil, s.soil.Text, t.Site.Soil)
+		setIf(s.prev, s.prev.Text, t.Site.PreviousCrop)
+		setIf(s.investigator, s.investigator.Text, t.Investigator)
+		setIf(s.objective, s.objective.Text, t.Objective)
+		setIf(s.notes, s.notes.Text, t.Notes)
+		s.loading = false
+	}
+	if c&changeStructure != 0 {
+		s.trtList.Refresh()
+		s.traitList.Refresh()
+		s.loadDesign()
+	}
+	s.problems.SetText(s.problemText())
+}
+
+// problemText summarises what Validate finds, in a few lines.
+func (s *setupStep) problemText() string {
+	t := s.t()
+	if len(t.Treatments) == 0 {
+		return "Add the treatments of the trial (at least two)."
+	}
+	if err := t.Validate(); err != nil {
+		var list trial.ValidationErrors
+		if errors.As(err, &list) && len(list) > 0 {
+			lines := []string{}
+			for i, e := range list {
+				if i == 4 {
+					lines = append(lines, fmt.Sprintf("… and %d more", len(list)-4))
+					break
+				}
+				lines = append(lines, "• "+e.Msg)
+			}
+			return strings.Join(lines, "\n")
+		}
+		return explain("The trial is not complete", err).What
+	}
+	if len(t.Traits) == 0 {
+		return "Add the traits you will measure on every plot."
+	}
+	return ""
+}
+
+// ---- treatments ----
+
+func (s *setupStep) treatmentsTab() fyne.CanvasObject {
+	s.trtList = widget.NewList(
+		func() int { return len(s.t().Treatments) },
+		func() fyne.CanvasObject {
+			return container.NewHBox(widget.NewLabelWithStyle("CODE", fyne.TextAlignLeading, fyne.TextStyle{Monospace: true}), widget.NewLabel("name"), widget.NewLabel(""))
+		},
+		func(i widget.ListItemID, o fyne.CanvasObject) {
+			tr := s.t().Treatments[i]
+			row := o.(*fyne.Container)
+			row.Objects[0].(*widget.Label).SetText(fmt.Sprintf("%-6s", tr.Code))
+			row.Objects[1].(*widget.Label).SetText(tr.Name)
+			role := ""
+			if tr.Role == trial.RoleCheck {
+				role = "check"
+			}
+			row.Objects[2].(*widget.Label).SetText(role)
+		})
+	code := widget.NewEntry()
+	code.SetPlaceHolder("short code, e.g. T01")
+	name := widget.NewEntry()
+	name.SetPlaceHolder("name")
+	desc := widget.NewEntry()
+	desc.SetPlaceHolder("description (optional)")
+	check := widget.NewCheck("Check (the standard the others are compared with)", nil)
+	s.trtList.OnSelected = func(i widget.ListItemID) {
+		s.trtSel = i
+		tr := s.t().Treatments[i]
+		code.SetText(tr.Code)
+		name.SetText(tr.Name)
+		desc.SetText(tr.Description)
+		check.SetChecked(tr.Role == trial.RoleCheck)
+	}
+	form := widget.NewForm(
+		widget.NewFormItem("Code", code),
+		widget.NewFormItem("Name", name),
+		widget.NewFormItem("Description", desc),
+		widget.NewFormItem("", check),
+	)
+	fromForm := func(base trial.Treatment) trial.Treatment {
+		base.Code = strings.TrimSpace(code.Text)
+		base.Name = strings.TrimSpace(name.Text)
+		base.Description = desc.Text
+		base.Role = trial.RoleEntry
+		if check.Checked {
+			base.Role = trial.RoleCheck
+		}
+		return base
+	}
+	add := widget.NewButtonWithIcon("Add", theme.ContentAddIcon(), func() {
+		tr := fromForm(trial.Treatment{})
+		if tr.Code == "" {
+			tr.Code = s.nextCode()
+		}
+		s.structural("The treatment could not be added", func(t *trial.Trial) error { return t.AddTreatment(tr) })
+	})
+	update := widget.NewButtonWithIcon("Apply changes", theme.ConfirmIcon(), func() {
+		if s.trtSel < 0 || s.trtSel >= len(s.t().Treatments) {
+			return
+		}
+		old := s.t().Treatments[s.trtSel]
+		s.structural("The treatment could not be changed", func(t *trial.Trial) error { return t.UpdateTreatment(old.Code, fromForm(old)) })
+	})
+	remove := widget.NewButtonWithIcon("Remove", theme.ContentRemoveIcon(), func() {
+		if s.trtSel < 0 || s.trtSel >= len(s.t().Treatments) {
+			return
+		}
+		c := s.t().Treatments[s.trtSel].Code
+		s.structural("The treatment could not be removed", func(t *trial.Trial) error { return t.RemoveTreatment(c) })
+		s.trtSel = -1
+		s.trtList.UnselectAll()
+	})
+	move := func(d int) func() {
+		return func() {
+			i := s.trtSel
+			if i < 0 || i+d < 0 || i+d >= len(s.t().Treatments) {
+				return
+			}
+			c := s.t().Treatments[i].Code
+			if s.structural("The treatment could not be moved", func(t *trial.Trial) error { return t.MoveTreatment(c, i+d) }) {
+				s.trtList.Select(i + d)
+			}
+		}
+	}
+	up := widget.NewButtonWithIcon("Up", theme.MoveUpIcon(), move(-1))
+	down := widget.NewButtonWithIcon("Down", theme.MoveDownIcon(), move(1))
+	paste := widget.NewButtonWithIcon("Paste list", theme.ContentPasteIcon(), func() {
+		s.pasteTreatments(s.u.app.Clipboard().Content())
+	})
+	help := widget.NewLabel("Paste list adds the names on the clipboard: one per line, or code and name separated by a tab (two columns copied from a spreadsheet).")
+	help.Wrapping = fyne.TextWrapWord
+	help.Importance = widget.LowImportance
+	right := container.NewVBox(form, container.NewHBox(add, update, remove), container.NewHBox(up, down, paste), help)
+	split := container.NewHSplit(s.trtList, container.NewVScroll(right))
+	split.Offset = 0.4
+	return split
+}
+
+// nextCode proposes an unused code T01, T02, ...
+func (s *setupStep) nextCode() string {
+	for i := len(s.t().Treatments) + 1; ; i++ {
+		c := fmt.Sprintf("T%02d", i)
+		if s.t().Treatment(c) == nil {
+			return c
+		}
+	}
+}
+
+// parseTreatmentList reads pasted text: one name per line, or code and
+// name separated by a tab. Empty lines are skipped; codes are proposed by
+// next for lines without one.
+func parseTreatmentList(text string, next func(i int) string) []trial.Treatment {
+	var out []trial.Treatment
+	for _, line := range strings.Split(strings.ReplaceAll(text, "\r\n", "\n"), "\n") {
+		line = strings.TrimSpace(line)
+		if line == "" {
+			continue
+		}
+		var tr trial.Treatment
+		tr.Role = trial.RoleEntry
+		if code, name, ok := strings.Cut(line, "\t"); ok {
+			tr.Code, tr.Name = strings.TrimSpace(code), strings.TrimSpace(name)
+			if i := strings.IndexByte(tr.Name, '\t'); i >= 0 {
+				tr.Name = strings.TrimSpace(tr.Name[:i])
+			}
+		} else {
+			tr.Name = line
+		}
+		if tr.Code == "" {
+			tr.Code = next(len(out))
+		}
+		out = append(out, tr)
+	}
+	return out
+}
+
+// pasteTreatments adds every treatment in text as one edit.
+func (s *setupStep) pasteTreatments(text string) {
+	base := len(s.t().Treatments)
+	list := parseTreatmentList(text, func(i int) string {
+		for n := base + i + 1; ; n++ {
+			c := fmt.Sprintf("T%02d", n)
+			if s.t().Treatment(c) == nil {
+				return c
+			}
+		}
+	})
+	if len(list) == 0 {
+		dialog.ShowInformation("Nothing to paste", "The clipboard holds no names. Copy a column of names (or code and name columns) from a spreadsheet first.", s.u.win)
+		return
+	}
+	s.structural("The treatments could not be added", func(t *trial.Trial) error {
+		for _, tr := range list {
+			if err := t.AddTreatment(tr); err != nil {
+				return fmt.Errorf("%s: %w", tr.Code, err)
+			}
+		}
+		return nil
+	})
+}
+
+// structural applies a change that may move plots as one undoable edit on
+// a copy, so that a refused change leaves the trial untouched.
+func (s *setupStep) structural(action string, f func(t *trial.Trial) error) bool {
+	return s.u.structuralEdit("setup change", action, f)
+}
+
+// structuralEdit runs f on a copy of the trial and, when it succeeds,
+// replaces the trial with it as one undoable edit.
+func (u *App) structuralEdit(label, action string, f func(t *trial.Trial) error) bool {
+	before := cloneTrial(u.doc.t)
+	work := cloneTrial(u.doc.t)
+	if err := f(work); err != nil {
+		showError(u.win, "Could not change the trial", action, err)
+		return false
+	}
+	u.doc.apply(&replaceTrial{what: label, before: before, after: work, c: changeStructure | changeValues})
+	return true
+}
+
+// ---- design ----
+
+func (s *setupStep) designTab() fyne.CanvasObject {
+	s.designMsg = widget.NewLabel("")
+	s.designMsg.Wrapping = fyne.TextWrapWord
+	s.designSel = widget.NewRadioGroup(designLabels, func(l string) {
+		if i := slices.Index(designLabels, l); i >= 0 {
+			s.designMsg.SetText(designExplain[designKinds[i]])
+			s.reps.Enable()
+			if designKinds[i] == trial.Latin {
+				s.reps.SetText(strconv.Itoa(len(s.t().Treatments)))
+				s.reps.Disable()
+			}
+		}
+	})
+	s.reps = widget.NewEntry()
+	s.reps.Validator = func(v string) error {
+		n, err := strconv.Atoi(strings.TrimSpace(v))
+		if err != nil || n < 2 {
+			return errors.New("at least 2 replicates")
+		}
+		return nil
+	}
+	apply := widget.NewButtonWithIcon("Apply design", theme.ConfirmIcon(), func() {
+		i := slices.Index(designLabels, s.designSel.Selected)
+		if i < 0 {
+			return
+		}
+		n, err := strconv.Atoi(strings.TrimSpace(s.reps.Text))
+		if err != nil {
+			dialog.ShowInformation("Replicates", "Type the number of replicates as a whole number, for example 4.", s.u.win)
+			return
+		}
+		d := trial.Design{Kind: designKinds[i], Reps: n}
+		if d.Kind == trial.Latin {
+			d.Reps = len(s.t().Treatments)
+		}
+		s.structural("The design could not be changed", func(t *trial.Trial) error { return t.SetDesign(d) })
+	})
+	apply.Importance = widget.HighImportance
+	form := widget.NewForm(widget.NewFormItem("Design", s.designSel), widget.NewFormItem("Replicates", s.reps))
+	return container.NewVScroll(container.NewPadded(container.NewVBox(form, s.designMsg, container.NewHBox(apply))))
+}
+
+func (s *setupStep) loadDesign() {
+	d := s.t().Design
+	if i := slices.Index(designKinds, d.Kind); i >= 0 {
+		s.designSel.SetSelected(designLabels[i])
+	}
+	s.reps.SetText(strconv.Itoa(d.Reps))
+	if d.Kind == trial.Latin {
+		s.reps.Disable()
+	}
+}
+
+// ---- traits ----
+
+var kindLabels = []string{"measurement", "count", "percentage", "score"}
+var kindValues = []trial.TraitKind{trial.Continuous, trial.Count, trial.Percent, trial.Score}
+
+func (s *setupStep) traitsTab() fyne.CanvasObject {
+	s.traitList = widget.NewList(
+		func() int { return len(s.t().Traits) },
+		func() fyne.CanvasObject { return widget.NewLabel("") },
+		func(i widget.ListItemID, o fyne.CanvasObject) {
+			tr := s.t().Traits[i]
+			txt := fmt.Sprintf("%s — %s", tr.Key, traitLabel(&tr))
+			if tr.Derived != nil {
+				txt += fmt.Sprintf("  (computed from %s and %s at %g %% moisture)", tr.Derived.WeightTrait, tr.Derived.MoistureTrait, tr.Derived.StandardMoisture)
+			} else {
+				txt += "  · " + kindLabels[max(slices.Index(kindValues, tr.Kind), 0)] + " · " + rangeText(&tr)
+			}
+			o.(*widget.Label).SetText(txt)
+		})
+	s.traitList.OnSelected = func(i widget.ListItemID) { s.traitSel = i }
+	key := widget.NewEntry()
+	key.SetPlaceHolder("short key, e.g. ht")
+	name := widget.NewEntry()
+	name.SetPlaceHolder("e.g. Plant height")
+	unit := widget.NewEntry()
+	unit.SetPlaceHolder("e.g. cm")
+	kind := widget.NewSelect(kindLabels, nil)
+	kind.SetSelectedIndex(0)
+	minE, maxE := widget.NewEntry(), widget.NewEntry()
+	minE.SetPlaceHolder("lowest plausible value")
+	maxE.SetPlaceHolder("highest plausible value")
+	dec := widget.NewEntry()
+	dec.SetText("1")
+	higher := widget.NewCheck("Higher values are better", nil)
+	higher.SetChecked(true)
+	bound := func(e *widget.Entry) (*float64, error) {
+		v := strings.TrimSpace(e.Text)
+		if v == "" {
+			return nil, nil
+		}
+		f, err := strconv.ParseFloat(v, 64)
+		if err != nil {
+			return nil, fmt.Errorf("“%s” is not a number", v)
+		}
+		return &f, nil
+	}
+	add := widget.NewButtonWithIcon("Add trait", theme.ContentAddIcon(), func() {
+		lo, err1 := bound(minE)
+		hi, err2 := bound(maxE)
+		d, err3 := strconv.Atoi(strings.TrimSpace(dec.Text))
+		if err := errors.Join(err1, err2, err3); err != nil {
+			showError(s.u.win, "Could not add the trait", "The valid range and decimals must be numbers", err)
+			return
+		}
+		tr := trial.Trait{Key: strings.TrimSpace(key.Text), Name: strings.TrimSpace(name.Text), Unit: strings.TrimSpace(unit.Text),
+			Kind: kindValues[max(kind.SelectedIndex(), 0)], Min: lo, Max: hi, Decimals: d, HigherBetter: higher.Checked}
+		if tr.Name == "" {
+			tr.Name = tr.Key
+		}
+		if s.structural("The trait could not be added", func(t *trial.Trial) error { return t.AddTrait(tr) }) {
+			key.SetText("")
+			name.SetText("")
+			unit.SetText("")
+		}
+	})
+	remove := widget.NewButtonWithIcon("Remove selected", theme.ContentRemoveIcon(), func() {
+		if s.traitSel < 0 || s.traitSel >= len(s.t().Traits) {
+			return
+		}
+		k := s.t().Traits[s.traitSel].Key
+		dialog.ShowConfirm("Remove trait", "Remove the trait "+k+" and every value recorded for it? You can undo this.", func(ok bool) {
+			if ok {
+				s.structural("The trait could not be removed", func(t *trial.Trial) error { return t.RemoveTrait(k) })
+				s.traitSel = -1
+				s.traitList.UnselectAll()
+			}
+		}, s.u.win)
+	})
+	yield := widget.NewButtonWithIcon("Add adjusted yield…", theme.ContentAddIcon(), s.yieldDialog)
+	form := widget.NewForm(
+		widget.NewFormItem("Key", key), widget.NewFormItem("Name", name), widget.NewFormItem("Unit", unit),
+		widget.NewFormItem("Kind", kind), widget.NewFormItem("Valid from", minE), widget.NewFormItem("Valid to", maxE),
+		widget.NewFormItem("Decimals", dec), widget.NewFormItem("", higher),
+	)
+	right := container.NewVBox(form, container.NewHBox(add, remove), widget.NewSeparator(), yield)
+	split := container.NewHSplit(s.traitList, container.NewVScroll(right))
+	split.Offset = 0.5
+	return split
+}
+
+// yieldDialog adds the derived moisture-adjusted yield from a weight and a
+// moisture trait, with the standard moisture of the crop as default.
+func (s *setupStep) yieldDialog() {
+	t := s.t()
+	var names, keys []string
+	for _, tr := range t.Traits {
+		if tr.Derived == nil {
+			names = append(names, traitLabel(&tr))
+			keys = append(keys, tr.Key)
+		}
+	}
+	if len(keys) < 2 {
+		dialog.ShowInformation("Adjusted yield", "Add the plot weight (kg) and grain moisture (%) traits first; adjusted yield is computed from them.", s.u.win)
+		return
+	}
+	weight := widget.NewSelect(names, nil)
+	moist := widget.NewSelect(names, nil)
+	for i, k := range keys {
+		tr := t.Trait(k)
+		if strings.Contains(strings.ToLower(tr.Unit), "kg") && weight.SelectedIndex() < 0 {
+			weight.SetSelectedIndex(i)
+		}
+		if tr.Kind == trial.Percent || strings.Contains(strings.ToLower(tr.Name), "moist") {
+			moist.SetSelectedIndex(i)
+		}
+	}
+	unit := widget.NewRadioGroup([]string{trial.UnitTHa, trial.UnitBuAc}, nil)
+	unit.Horizontal = true
+	unit.SetSelected(trial.UnitTHa)
+	if s.u.prefs.units == unitsImperial {
+		unit.SetSelected(trial.UnitBuAc)
+	}
+	std := widget.NewEntry()
+	cropNote := "No defaults known for the crop “" + t.Crop + "”; type the moisture basis your market uses."
+	if d, ok := trial.LookupCrop(t.Crop); ok {
+		std.SetText(strconv.FormatFloat(d.StandardMoisture, 'f', -1, 64))
+		cropNote = fmt.Sprintf("Default for %s: %g %% (common practice; change it if your market uses another basis).", t.Crop, d.StandardMoisture)
+	}
+	note := widget.NewLabel(cropNote)
+	note.Wrapping = fyne.TextWrapWord
+	key := widget.NewEntry()
+	key.SetText("yield")
+	form := widget.NewForm(
+		widget.NewFormItem("Key", key),
+		widget.NewFormItem("Plot weight (kg)", weight),
+		widget.NewFormItem("Moisture (%)", moist),
+		widget.NewFormItem("Standard moisture %", std),
+		widget.NewFormItem("Unit", unit),
+	)
+	d := dialog.NewCustomConfirm("Add adjusted yield", "Add", "Cancel", container.NewVBox(form, note), func(ok bool) {
+		if !ok || weight.SelectedIndex() < 0 || moist.SelectedIndex() < 0 {
+			return
+		}
+		m, err := strconv.ParseFloat(strings.TrimSpace(std.Text), 64)
+		if err != nil {
+			showError(s.u.win, "Could not add adjusted yield", "The standard moisture must be a number", err)
+			return
+		}
+		tr := trial.AdjustedYieldTrait(strings.TrimSpace(key.Text), keys[weight.SelectedIndex()], keys[moist.SelectedIndex()], t.Crop, unit.Selected)
+		tr.Derived.StandardMoisture = m
+		s.structural("The adjusted yield could not be added", func(t *trial.Trial) error { return t.AddTrait(tr) })
+	}, s.u.win)
+	d.Resize(fyne.NewSize(520, 400))
+	d.Show()
+}

@@ -1,0 +1,64 @@
+package ui
+
+import (
+	"os"
+	"path/filepath"
+
+	"fyne.io/fyne/v2"
+	"fyne.io/fyne/v2/container"
+	"fyne.io/fyne/v2/theme"
+	"fyne.io/fyne/v2/widget"
+)
+
+// startScreen is shown while no trial is open.
+type startScreen struct {
+	u      *App
+	recent *fyne.Container
+	root   fyne.CanvasObject
+
+	openBtn, newBtn, demoBtn *widget.Button
+}
+
+func newStartScreen(u *App) *startScreen {
+	s := &startScreen{u: u}
+	title := widget.NewRichTextFromMarkdown("# Furlong\n\nPlan a replicated field trial, record plot data and compare treatments.")
+	s.openBtn = widget.NewButtonWithIcon("Open a trial file…", theme.FolderOpenIcon(), u.openDialog)
+	s.openBtn.Importance = widget.HighImportance
+	s.newBtn = widget.NewButtonWithIcon("Start a new trial", theme.DocumentCreateIcon(), u.newTrial)
+	s.demoBtn = widget.NewButtonWithIcon("Look around in the demo trial", theme.InfoIcon(), func() {
+		if err := u.OpenDemo(); err != nil {
+			showError(u.win, "Could not open the demo", "The demo trial could not be opened", err)
+		}
+	})
+	s.recent = container.NewVBox()
+	recentHead := widget.NewLabelWithStyle("Recent trials", fyne.TextAlignLeading, fyne.TextStyle{Bold: true})
+	col := container.NewVBox(title, s.openBtn, s.newBtn, s.demoBtn, widget.NewSeparator(), recentHead, s.recent)
+	s.root = container.NewCenter(container.NewGridWrap(fyne.NewSize(520, col.MinSize().Height+260), container.NewVScroll(col)))
+	return s
+}
+
+func (s *startScreen) object() fyne.CanvasObject { return s.root }
+
+// refresh rebuilds the list of recent files.
+func (s *startScreen) refresh() {
+	s.recent.Objects = nil
+	for _, p := range s.u.prefs.recent {
+		path := p
+		b := widget.NewButtonWithIcon(filepath.Base(path)+"   ("+filepath.Dir(path)+")", theme.DocumentIcon(), func() {
+			if _, err := os.Stat(path); err != nil {
+				s.u.prefs.onRecentRemoved(path)
+				s.refresh()
+			}
+			s.u.openPath(path)
+		})
+		b.Alignment = widget.ButtonAlignLeading
+		b.Importance = widget.LowImportance
+		s.recent.Add(b)
+	}
+	if len(s.u.prefs.recent) == 0 {
+		l := widget.NewLabel("Trials you open or save appear here.")
+		l.Importance = widget.LowImportance
+		s.recent.Add(l)
+	}
+	s.recent.Refresh()
+}
