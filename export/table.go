@@ -6,7 +6,6 @@
 package export
 
 import (
-	"errors"
 	"fmt"
 	"math"
 	"strconv"
@@ -17,28 +16,20 @@ import (
 	"furlong/trial/analysis"
 )
 
-// TraitResult is the analysis of one trait of a trial, or the reason it
-// could not be analysed.
-type TraitResult struct {
-	Trait  string           // trait key
-	Result *analysis.Result // nil when Err is set
-	Err    error
-}
-
-// ErrNoValues is the reason given for a trait that has no analysis because no
-// values were recorded for it.
-var ErrNoValues = errors.New("no values recorded for this trait yet")
+// NoValues is the reason given for a trait whose outcome has neither a
+// result nor an error.
+const NoValues = "no values recorded for this trait yet"
 
 // Reason returns the plain-language reason a trait has no analysis, or "" when
 // it has one.
-func (r TraitResult) Reason() string {
+func Reason(o analysis.Outcome) string {
 	switch {
-	case r.Result != nil && r.Err == nil:
+	case o.Result != nil && o.Err == nil:
 		return ""
-	case r.Err != nil:
-		return r.Err.Error()
+	case o.Err != nil:
+		return o.Err.Error()
 	default:
-		return ErrNoValues.Error()
+		return NoValues
 	}
 }
 
@@ -183,24 +174,24 @@ func ReportTraits(t *trial.Trial, keys []string) []trial.Trait {
 	return out
 }
 
-// LookupResult returns the result for trait key in results.
-func LookupResult(results []TraitResult, key string) (TraitResult, bool) {
+// LookupOutcome returns the outcome for trait key in results.
+func LookupOutcome(results []analysis.Outcome, key string) (analysis.Outcome, bool) {
 	for _, r := range results {
-		if r.Trait == key {
+		if r.Key == key {
 			return r, true
 		}
-		if r.Trait == "" && r.Result != nil && r.Result.TraitKey == key {
+		if r.Key == "" && r.Result != nil && r.Result.TraitKey == key {
 			return r, true
 		}
 	}
-	return TraitResult{}, false
+	return analysis.Outcome{}, false
 }
 
 // NewSummary builds the summary table of the traits of t listed in keys
 // (every trait when empty) from their results, separating means by method.
 // A trait with no result, or whose result carries an error, has a column
 // with no means and its Reason set.
-func NewSummary(t *trial.Trial, results []TraitResult, keys []string, method analysis.Method, alpha float64) *Summary {
+func NewSummary(t *trial.Trial, results []analysis.Outcome, keys []string, method analysis.Method, alpha float64) *Summary {
 	traits := ReportTraits(t, keys)
 	s := &Summary{Method: method, Alpha: alpha, Yield: YieldTrait(traits)}
 	s.Traits = make([]SummaryTrait, len(traits))
@@ -209,12 +200,12 @@ func NewSummary(t *trial.Trial, results []TraitResult, keys []string, method ana
 		if st.Name == "" {
 			st.Name = tr.Key
 		}
-		r, ok := LookupResult(results, tr.Key)
+		r, ok := LookupOutcome(results, tr.Key)
 		switch {
 		case !ok:
 			st.Reason = "this trait was not analysed"
-		case r.Reason() != "":
-			st.Reason = r.Reason()
+		case Reason(r) != "":
+			st.Reason = Reason(r)
 		default:
 			st.Result = r.Result
 			if a := r.Result.ANOVA; a != nil {

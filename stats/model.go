@@ -45,6 +45,8 @@ type LevelMean struct {
 // Transform is a transformation of the responses applied before fitting.
 type Transform string
 
+// The transformations ApplyTransform knows (see its documentation for the
+// handling of zeros and of the domain of each).
 const (
 	NoTransform Transform = ""
 	Log         Transform = "log"    // natural log; log(y+1) when any value is 0

@@ -43,6 +43,12 @@ func TestIndexHelpers(t *testing.T) {
 	if tr.PlotIndexByNumber(999) != -1 {
 		t.Error("PlotIndexByNumber(999) found a plot")
 	}
+	if p := tr.Treatment("MZ-101"); p == nil || p.Name != "Meadowgate 101" || tr.Treatment("none") != nil {
+		t.Errorf("Treatment(MZ-101) = %+v", p)
+	}
+	if p := tr.Trait("ht"); p == nil || p.Unit != "cm" || tr.Trait("none") != nil {
+		t.Errorf("Trait(ht) = %+v", p)
+	}
 	if c := tr.Checks(); len(c) != 1 || c[0].Code != "CHK" {
 		t.Errorf("Checks = %+v", c)
 	}
@@ -288,7 +294,7 @@ func TestEditTreatments(t *testing.T) {
 		tr.MoveTreatment("NEW", 3),
 		tr.SetDesign(Design{Kind: RCBD, Reps: 4}),
 	} {
-		if !errors.Is(err, ErrHasData) {
+		if !errors.Is(err, ErrHasData) || !strings.Contains(err.Error(), "changing its treatments, design or field arrangement would move treatments away from their values") {
 			t.Errorf("edit with data = %v, want ErrHasData", err)
 		}
 	}

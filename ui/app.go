@@ -55,6 +55,8 @@ type App struct {
 
 	// saved, when set, receives every finished save (tests wait on it).
 	saved func(j saveJob, err error)
+	// exported, when set, receives every finished export (tests).
+	exported func(uri fyne.URI, err error)
 }
 
 // stepView is the screen of one step.

@@ -1,12 +1,211 @@
 package ui
 
 import (
+	"context"
+	"fmt"
+	"io"
+	"strconv"
+	"strings"
+
 	"fyne.io/fyne/v2"
+	"fyne.io/fyne/v2/container"
+	"fyne.io/fyne/v2/theme"
 	"fyne.io/fyne/v2/widget"
+
+	"furlong/export"
+	"furlong/export/chart"
+	"furlong/export/xlsx"
+	"furlong/trial"
+	"furlong/trial/analysis"
 )
 
-type reportStep struct{ root fyne.CanvasObject }
+// reportStep chooses what goes into the season report and writes it, the
+// field book, the map and the charts.
+type reportStep struct {
+	u    *App
+	root fyne.CanvasObject
 
-func newReportStep(u *App) *reportStep         { return &reportStep{root: widget.NewLabel("Report")} }
-func (s *reportStep) object() fyne.CanvasObject { return s.root }
-func (s *reportStep) refresh(change)            {}
+	traits   *widget.CheckGroup
+	charts   *widget.Check
+	method   *widget.RadioGroup
+	alpha    *widget.Select
+	paperSel *widget.RadioGroup
+	state    *widget.Label
+}
+
+var paperLabels = []string{"A4", "US Letter"}
+
+func newReportStep(u *App) *reportStep {
+	r := &reportStep{u: u}
+	r.traits = widget.NewCheckGroup(nil, nil)
+	r.charts = widget.NewCheck("A chart of the means on each trait sheet", nil)
+	r.charts.SetChecked(true)
+	r.method = widget.NewRadioGroup([]string{methodLabel(analysis.LSD), methodLabel(analysis.Tukey)}, nil)
+	r.method.SetSelected(methodLabel(u.prefs.method))
+	r.alpha = widget.NewSelect(alphaChoices, nil)
+	r.alpha.SetSelected(strconv.FormatFloat(u.prefs.alpha, 'g', -1, 64))
+	r.paperSel = widget.NewRadioGroup(paperLabels, nil)
+	r.paperSel.Horizontal = true
+	if u.prefs.units == unitsImperial {
+		r.paperSel.SetSelected(paperLabels[1])
+	} else {
+		r.paperSel.SetSelected(paperLabels[0])
+	}
+	r.state = widget.NewLabel("")
+	r.state.Wrapping = fyne.TextWrapWord
+
+	form := widget.NewForm(
+		widget.NewFormItem("Traits", r.traits),
+		widget.NewFormItem("Contents", r.charts),
+		widget.NewFormItem("Mean separation", r.method),
+		widget.NewFormItem("Significance level", r.alpha),
+		widget.NewFormItem("Paper", r.paperSel),
+	)
+	workbook := widget.NewButtonWithIcon("Season report (xlsx)…", theme.DocumentSaveIcon(), r.exportReport)
+	workbook.Importance = widget.HighImportance
+	bookCSV := widget.NewButtonWithIcon("Field book (CSV)…", theme.DocumentSaveIcon(), u.exportFieldBookCSV)
+	bookXLSX := widget.NewButtonWithIcon("Field book (xlsx)…", theme.DocumentSaveIcon(), u.exportFieldBookXLSX)
+	fmap := widget.NewButtonWithIcon("Field map (PDF/PNG)…", theme.DocumentSaveIcon(), u.exportMapDialog)
+	chartBtn := widget.NewButtonWithIcon("Chart of the Compare trait (PNG/SVG/PDF)…", theme.DocumentSaveIcon(), r.exportChart)
+	caution := widget.NewLabel(cautionShort)
+	caution.Importance = widget.WarningImportance
+	caution.Wrapping = fyne.TextWrapWord
+	body := container.NewVBox(heading("Season report"), form, workbook, r.state,
+		widget.NewSeparator(), heading("Other exports"), bookCSV, bookXLSX, fmap, chartBtn,
+		widget.NewSeparator(), caution)
+	r.root = container.NewVScroll(container.NewPadded(body))
+	r.refresh(changeAll)
+	return r
+}
+
+func (r *reportStep) object() fyne.CanvasObject { return r.root }
+
+func (r *reportStep) refresh(c change) {
+	if c&changeStructure == 0 {
+		return
+	}
+	t := r.u.doc.t
+	var opts, sel []string
+	for _, tr := range t.Traits {
+		l := traitLabel(&tr)
+		opts = append(opts, l)
+		if len(r.traits.Options) == 0 || r.traits.Selected == nil || contains(r.traits.Selected, l) {
+			sel = append(sel, l)
+		}
+	}
+	r.traits.Options = opts
+	r.traits.SetSelected(sel)
+	r.traits.Refresh()
+}
+
+func contains(list []string, s string) bool {
+	for _, v := range list {
+		if v == s {
+			return true
+		}
+	}
+	return false
+}
+
+// paper is the paper size chosen in the Report step (A4 before it exists,
+// US Letter for imperial units).
+func (u *App) paper() xlsx.Paper {
+	if r, ok := u.steps[stepReport].(*reportStep); ok && r != nil {
+		if r.paperSel.Selected == paperLabels[1] {
+			return xlsx.Letter
+		}
+		return xlsx.A4
+	}
+	if u.prefs.units == unitsImperial {
+		return xlsx.Letter
+	}
+	return xlsx.A4
+}
+
+// reportOptions reads the controls.
+func (r *reportStep) reportOptions() (xlsx.ReportOptions, []string) {
+	t := r.u.doc.t
+	var keys []string
+	for _, tr := range t.Traits {
+		if contains(r.traits.Selected, traitLabel(&tr)) {
+			keys = append(keys, tr.Key)
+		}
+	}
+	m := analysis.LSD
+	if r.method.Selected == methodLabel(analysis.Tukey) {
+		m = analysis.Tukey
+	}
+	a, err := strconv.ParseFloat(r.alpha.Selected, 64)
+	if err != nil {
+		a = 0.05
+	}
+	return xlsx.ReportOptions{Method: m, Alpha: a, Traits: keys, Version: r.u.opts.Version,
+		Charts: r.charts.Checked, Paper: r.u.paper()}, keys
+}
+
+func (r *reportStep) exportReport() {
+	opts, keys := r.reportOptions()
+	if len(keys) == 0 {
+		r.state.SetText("Choose at least one trait for the report.")
+		return
+	}
+	snap := cloneTrial(r.u.doc.t)
+	name := safeFileName(snap.Title) + " report.xlsx"
+	r.u.exportDialog("season report", name, []string{".xlsx"}, true, func(ctx context.Context, w io.Writer, _ string, progress func(int, int)) error {
+		return writeReport(ctx, w, snap, keys, opts, progress)
+	})
+}
+
+// writeReport analyses the chosen traits of a snapshot and writes the
+// season report workbook; it is the work behind the report's save dialog.
+func writeReport(ctx context.Context, w io.Writer, t *trial.Trial, keys []string, opts xlsx.ReportOptions, progress func(int, int)) error {
+	results := make([]export.TraitResult, 0, len(keys))
+	steps := len(keys)
+	for i, k := range keys {
+		if err := ctx.Err(); err != nil {
+			return err
+		}
+		tr := analyzeTrait(t, k, analysis.Options{Alpha: opts.Alpha})
+		results = append(results, export.TraitResult{Trait: k, Result: tr.res, Err: tr.err})
+		if progress != nil {
+			progress(i+1, 2*steps)
+		}
+	}
+	opts.Ctx = ctx
+	opts.Progress = func(done, total int) {
+		if progress != nil && total > 0 {
+			progress(steps+done*steps/total, 2*steps)
+		}
+	}
+	return xlsx.WriteReport(w, t, results, opts)
+}
+
+// exportChart writes the means chart of the trait shown in Compare.
+func (r *reportStep) exportChart() {
+	snap := cloneTrial(r.u.doc.t)
+	key := r.u.compute.focusKey()
+	if snap.Trait(key) == nil && len(snap.Traits) > 0 {
+		key = snap.Traits[0].Key
+	}
+	if key == "" {
+		r.state.SetText("The trial has no traits to chart.")
+		return
+	}
+	opts, _ := r.reportOptions()
+	name := fmt.Sprintf("%s %s means.png", safeFileName(snap.Title), key)
+	r.u.exportDialog("chart", name, []string{".png", ".svg", ".pdf"}, false, func(ctx context.Context, w io.Writer, ext string, _ func(int, int)) error {
+		tr := analyzeTrait(snap, key, analysis.Options{Alpha: opts.Alpha})
+		if tr.err != nil {
+			return tr.err
+		}
+		p, err := chart.Means(snap, tr.res, chart.MeansOptions{Letters: opts.Method, Order: chart.ByMean})
+		if err != nil {
+			return err
+		}
+		format := strings.TrimPrefix(ext, ".")
+		if format != "svg" && format != "pdf" {
+			format = "png"
+		}
+		return chart.SaveA4(p, w, format)
+	})
+}

@@ -30,23 +30,32 @@ var (
 	gridGrey    = color.NRGBA{R: 0x80, G: 0x80, B: 0x80, A: 0xFF}
 )
 
-// viridisAnchors are nine entries of the viridis colour map (van der Walt
-// and Smith 2015, the 256-entry table published with matplotlib under CC0),
-// at table indices 0, 32, 64, 96, 128, 160, 192, 224 and 255. Viridis is
-// perceptually uniform, readable in grey scale and by the common forms of
-// colour blindness.
+// viridisAnchors are eighteen entries of the viridis colour map (van der
+// Walt and Smith 2015, the 256-entry table published with matplotlib under
+// CC0), at table indices 0, 16, 32, ..., 240, 248 and 255; 248 is kept
+// because the blue channel turns there. Viridis is perceptually uniform,
+// readable in grey scale and by the common forms of colour blindness.
 var viridisAnchors = [...]struct {
 	index   float64
 	r, g, b float64
 }{
 	{0, 0.267004, 0.004874, 0.329415},
+	{16, 0.282327, 0.094955, 0.417331},
 	{32, 0.278826, 0.175490, 0.483397},
+	{48, 0.258965, 0.251537, 0.524736},
 	{64, 0.229739, 0.322361, 0.545706},
+	{80, 0.199430, 0.387607, 0.554642},
 	{96, 0.172719, 0.448791, 0.557885},
+	{112, 0.149039, 0.508051, 0.557250},
 	{128, 0.127568, 0.566949, 0.550556},
+	{144, 0.120638, 0.625828, 0.533488},
 	{160, 0.157851, 0.683765, 0.501686},
+	{176, 0.246070, 0.738910, 0.452024},
 	{192, 0.369214, 0.788888, 0.382914},
+	{208, 0.515992, 0.831158, 0.294279},
 	{224, 0.678489, 0.863742, 0.189503},
+	{240, 0.845561, 0.887322, 0.099702},
+	{248, 0.926106, 0.897330, 0.104071},
 	{255, 0.993248, 0.906157, 0.143936},
 }
 

@@ -13,6 +13,7 @@ import (
 	"github.com/xuri/excelize/v2"
 
 	"furlong/trial"
+	"furlong/trial/fieldbook"
 )
 
 // FieldBookSheet is the name of the sheet WriteFieldBook writes and
@@ -26,7 +27,10 @@ type FieldBookOptions struct {
 
 // Columns of the field book before the trait columns, as in the CSV field
 // book.
-var fieldBookColumns = []string{"plot", "block", "row", "column", "treatment", "treatment_name"}
+var fieldBookColumns = []string{
+	fieldbook.ColPlot, fieldbook.ColBlock, fieldbook.ColRow, fieldbook.ColColumn,
+	fieldbook.ColTreatment, fieldbook.ColTreatmentName,
+}
 
 // FieldBookHeader returns the header cell of a trait column: the trait key,
 // then its unit in parentheses and its valid range, for example

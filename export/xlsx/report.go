@@ -59,7 +59,7 @@ type report struct {
 	st     *styles
 	t      *trial.Trial
 	opts   ReportOptions
-	res    []export.TraitResult
+	res    []analysis.Outcome
 	traits []trial.Trait
 	sum    *export.Summary
 	names  *sheetNamer
@@ -70,7 +70,7 @@ type report struct {
 // results holds the analysis of each reported trait; a trait whose result is
 // missing or carries an error gets a sheet saying why instead of failing the
 // report. It returns the context's error when cancelled.
-func WriteReport(w io.Writer, t *trial.Trial, results []export.TraitResult, opts ReportOptions) error {
+func WriteReport(w io.Writer, t *trial.Trial, results []analysis.Outcome, opts ReportOptions) error {
 	if opts.Method == "" {
 		opts.Method = analysis.LSD
 	}

@@ -55,9 +55,9 @@ func (r *report) writeTrait(name string, tr trial.Trait) error {
 	s := newSheet(r.f, r.st, name)
 	title := traitLabel(nonEmpty(tr.Name, tr.Key), tr.Unit)
 	s.textNoWidth(1, 1, title, titleStyle)
-	res, _ := export.LookupResult(r.res, tr.Key)
-	reason := res.Reason()
-	if _, ok := export.LookupResult(r.res, tr.Key); !ok {
+	res, ok := export.LookupOutcome(r.res, tr.Key)
+	reason := export.Reason(res)
+	if !ok {
 		reason = "this trait was not analysed"
 	}
 	if reason != "" {

@@ -84,7 +84,7 @@ func (s StudentizedRange) CDF(q float64) float64 {
 	case math.IsInf(q, 1):
 		return 1
 	}
-	return clamp01(studRangeTail(s.K, s.Nu, q, rangeDensity, false, false).v)
+	return clamp01(studRangeTail(s.K, s.Nu, q, s.directDensity, false, false, directRel).v)
 }
 
 // Survival returns the survival function (complementary CDF) at q,
@@ -100,7 +100,7 @@ func (s StudentizedRange) Survival(q float64) float64 {
 	case math.IsInf(q, 1):
 		return 0
 	}
-	return clamp01(studRangeTail(s.K, s.Nu, q, rangeDensity, true, false).v)
+	return clamp01(studRangeTail(s.K, s.Nu, q, s.directDensity, true, false, directRel).v)
 }
 
 // Prob computes the value of the probability density function at q,
@@ -130,7 +130,7 @@ func (s StudentizedRange) Prob(q float64) float64 {
 	if math.IsInf(s.Nu, 1) {
 		return rangeDensity(s.K, q)
 	}
-	return studRangeTail(s.K, s.Nu, q, rangeDensity, true, true).d
+	return studRangeTail(s.K, s.Nu, q, s.directDensity, true, true, directRel).d
 }
 
 // LogProb computes the natural logarithm of the value of the probability
@@ -166,13 +166,17 @@ func (s StudentizedRange) Quantile(p float64) float64 {
 		target = 1 - p
 	}
 	logTarget := math.Log(target)
+	// The root is found first with the interpolated range density of
+	// SurvivalTable (cheap, accurate to about 1e-14) and then refined by
+	// Newton steps with the direct integral.
+	pr := rangeDensityFunc(newRangeDensityTable(s.K))
 	// g(t) = log(tail(e^t)) - log(target); g is increasing in t for the
 	// lower tail and decreasing for the upper tail.
-	eval := func(t float64) (g, dg float64) {
+	eval := func(t float64, pR func(float64) float64) (g, dg float64) {
 		q := math.Exp(t)
-		r := studRangeTail(s.K, s.Nu, q, rangeDensity, upper, true)
+		r := studRangeTail(s.K, s.Nu, q, pR, upper, true, directRel)
 		if math.IsInf(s.Nu, 1) {
-			r.d = rangeDensity(s.K, q)
+			r.d = pR(q)
 		}
 		if r.v <= 0 {
 			if upper {
@@ -189,24 +193,37 @@ func (s StudentizedRange) Quantile(p float64) float64 {
 	// Starting point: twice the median of the largest of K standard
 	// normal variables, a rough location of the range distribution.
 	t := math.Log(math.Max(0.5, 2*mathext.NormalQuantile(math.Pow(0.5, 1/s.K))))
+	t = newtonBracket(t, func(t float64) (float64, float64) { return eval(t, pr) }, upper, 1e-13)
+	// Refine with the direct integral.
+	t = newtonBracket(t, func(t float64) (float64, float64) { return eval(t, s.directDensity) }, upper, 1e-13)
+	return math.Exp(t)
+}
+
+// directDensity is the range density computed by quadrature.
+func (s StudentizedRange) directDensity(y float64) float64 {
+	return rangeDensity(s.K, y)
+}
+
+// newtonBracket solves g(t) = 0 by Newton's method from t, falling back to
+// bisection (or to steps of 2 while no bracket is known) when a Newton step
+// leaves the current bracket. g is increasing if decreasing is false. It
+// stops when the step is below tol·max(1, |t|).
+func newtonBracket(t float64, eval func(float64) (g, dg float64), decreasing bool, tol float64) float64 {
 	lo, hi := math.Inf(-1), math.Inf(1)
 	for it := 0; it < 200; it++ {
 		g, dg := eval(t)
 		if g == 0 {
-			return math.Exp(t)
+			return t
 		}
 		// Is the root to the right of t?
-		right := (g < 0) != upper
-		if right {
+		if (g < 0) != decreasing {
 			lo = t
 		} else {
 			hi = t
 		}
-		var next float64
-		if !math.IsInf(g, 0) && dg != 0 && !math.IsInf(dg, 0) && !math.IsNaN(dg) {
+		next := math.NaN()
+		if !math.IsInf(g, 0) && dg != 0 && !math.IsInf(dg, 0) {
 			next = t - g/dg
-		} else {
-			next = math.NaN()
 		}
 		if math.IsNaN(next) || next <= lo || next >= hi || math.Abs(next-t) > 4 {
 			switch {
@@ -218,12 +235,13 @@ func (s StudentizedRange) Quantile(p float64) float64 {
 				next = 0.5 * (lo + hi)
 			}
 		}
-		if math.Abs(next-t) <= 1e-14*math.Max(1, math.Abs(t)) || (hi-lo) <= 1e-14*math.Max(1, math.Abs(t)) {
-			return math.Exp(next)
+		scale := tol * math.Max(1, math.Abs(t))
+		if math.Abs(next-t) <= scale || hi-lo <= scale {
+			return next
 		}
 		t = next
 	}
-	return math.Exp(t)
+	return t
 }
 
 // studRangeTail returns, in v, P(Q > q) if upper is true and P(Q ≤ q)

@@ -113,9 +113,8 @@ func Compare(means []float64, se PairSEer, df int, alpha float64) (*Result, erro
 		TCrit: tdist.Quantile(1 - alpha/2),
 		QCrit: rangeQuantile(k, df, 1-alpha),
 	}
-	tukey := rangeSurvival(k, df, k*(k-1)/2)
 	r.EqualSE = true
-	var se0 float64
+	var se0, tmax float64
 	for i := range k {
 		for j := i + 1; j < k; j++ {
 			s := se.PairSE(i, j)
@@ -129,18 +128,23 @@ func Compare(means []float64, se PairSEer, df int, alpha float64) (*Result, erro
 			}
 			d := means[i] - means[j]
 			t := d / s
-			at := math.Abs(t)
+			tmax = math.Max(tmax, math.Abs(t))
 			r.Pairs = append(r.Pairs, Pair{
 				I: i, J: j,
-				Diff:   d,
-				SE:     s,
-				Lower:  d - r.TCrit*s,
-				Upper:  d + r.TCrit*s,
-				T:      t,
-				PLSD:   math.Min(1, 2*tdist.Survival(at)),
-				PTukey: tukey(at * math.Sqrt2),
+				Diff:  d,
+				SE:    s,
+				Lower: d - r.TCrit*s,
+				Upper: d + r.TCrit*s,
+				T:     t,
 			})
 		}
+	}
+	ttail := newTTail(nu, len(r.Pairs), tmax)
+	tukey := rangeSurvival(k, df, len(r.Pairs), tmax*math.Sqrt2)
+	for n := range r.Pairs {
+		p := &r.Pairs[n]
+		p.PLSD = ttail.p(p.T)
+		p.PTukey = tukey(math.Abs(p.T) * math.Sqrt2)
 	}
 	if r.EqualSE {
 		r.SED = se0

@@ -32,13 +32,20 @@ func (m Method) String() string {
 // Significant returns the predicate "treatments i and j differ at level
 // r.Alpha by method m", that is p < Alpha.
 func (r *Result) Significant(m Method) func(i, j int) bool {
-	switch m {
-	case LSD:
-		return func(i, j int) bool { return r.Pair(i, j).PLSD < r.Alpha }
-	case Tukey:
-		return func(i, j int) bool { return r.Pair(i, j).PTukey < r.Alpha }
+	k, alpha := r.K, r.Alpha
+	if m != LSD && m != Tukey {
+		panic("meansep: unknown method")
 	}
-	panic("meansep: unknown method")
+	return func(i, j int) bool {
+		if i > j {
+			i, j = j, i
+		}
+		p := &r.Pairs[pairIndex(k, i, j)]
+		if m == LSD {
+			return p.PLSD < alpha
+		}
+		return p.PTukey < alpha
+	}
 }
 
 // Lettering is a compact letter display of a Result.

@@ -9,7 +9,7 @@ func rangeQuantile(k, df int, p float64) float64 {
 }
 
 // rangeSurvival returns P(Q > q) for the studentised range with k means and
-// df degrees of freedom, to be evaluated for n values of q.
-func rangeSurvival(k, df, n int) func(q float64) float64 {
+// df degrees of freedom, to be evaluated for n values of q ≤ qmax.
+func rangeSurvival(k, df, n int, qmax float64) func(q float64) float64 {
 	return dist.StudentizedRange{K: float64(k), Nu: float64(df)}.Survival
 }

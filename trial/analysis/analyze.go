@@ -44,6 +44,9 @@ type Data struct {
 	Rows, Cols  int
 	// Excluded plots (already left out of the slices above).
 	Excluded []Excluded
+	// Lines is true when Plot holds input line numbers (a CSV table)
+	// rather than plot numbers; messages then say "line".
+	Lines bool
 	// PlotIndex[i], when set, is the index of observation i in the trial's
 	// plots (Result.PlotIndex keeps the fitted ones).
 	PlotIndex []int
@@ -219,7 +222,7 @@ func AnalyzeData(d *Data, o Options) (*Result, error) {
 	}
 	for i, v := range y {
 		if math.IsInf(v, 0) {
-			return fail(fmt.Sprintf("plot %d holds a value that is not a finite number", plots[i]), stats.ErrNonFiniteValue)
+			return fail(fmt.Sprintf("%s holds a value that is not a finite number", d.label(plots[i])), stats.ErrNonFiniteValue)
 		}
 	}
 
@@ -282,7 +285,7 @@ func describeStatsError(d *Data, err error, plots []int) string {
 	case ie.Kind == stats.EmptyLevel && (ie.Factor == "row" || ie.Factor == "column") && ie.Level >= 0:
 		return fmt.Sprintf("Latin square %s %d has no values at all: every row and column of the square needs at least one plot with a value", ie.Factor, ie.Level+1)
 	case ie.Obs >= 0 && ie.Obs < len(plots):
-		return fmt.Sprintf("plot %d: %s", plots[ie.Obs], ie.Reason)
+		return fmt.Sprintf("%s: %s", d.label(plots[ie.Obs]), ie.Reason)
 	}
 	return ie.Reason
 }
@@ -314,7 +317,7 @@ func diagnose(r *Result, d *Data, a *stats.ANOVA, y []float64, trt, blk, plots [
 		outs := diag.Outliers(std, 0)
 		for i := range outs {
 			o := &outs[i]
-			o.Plot = fmt.Sprintf("plot %d", plots[o.Index])
+			o.Plot = d.label(plots[o.Index])
 			dg.Outliers = append(dg.Outliers, Outlier{
 				Plot: plots[o.Index], Treatment: d.Treatments[trt[o.Index]],
 				Value: d.valueAt(o.Index, y), Residual: a.Residuals[o.Index], StdResidual: o.Std,
@@ -323,6 +326,14 @@ func diagnose(r *Result, d *Data, a *stats.ANOVA, y []float64, trt, blk, plots [
 		sum.Outliers = outs
 	}
 	r.Warnings = append(r.Warnings, diag.Readings(sum)...)
+}
+
+// label names an observation in messages: "plot 103" or "line 14".
+func (d *Data) label(n int) string {
+	if d.Lines {
+		return fmt.Sprintf("line %d", n)
+	}
+	return fmt.Sprintf("plot %d", n)
 }
 
 // valueAt is the analysed value of observation i (on the analysis scale).

@@ -54,8 +54,9 @@ type Result struct {
 	// unequal (then each pair has its own standard error in Pairs).
 	LSD *float64
 	HSD *float64
-	// LSDProtected is false when the treatment F test was not significant
-	// at Alpha and LSD letters were therefore withheld (see Warnings).
+	// LSDLettersGiven is false when the treatment F test was not
+	// significant at Alpha and the protected LSD letters were therefore
+	// withheld (Warnings says so); Options.Unprotected gives them anyway.
 	LSDLettersGiven bool
 
 	Pairs       []Pair

@@ -41,7 +41,8 @@ func (e *TableError) Error() string {
 
 // ParseTable turns a table of strings (header row first) into one Data per
 // response column. Treatment, block, row and column labels are taken in
-// the order they first appear; empty response cells are missing values.
+// the order they first appear; empty response cells (and NA, N/A, ".") are
+// missing values.
 func ParseTable(rows [][]string, c TableColumns) ([]*Data, error) {
 	if len(rows) < 2 {
 		return nil, &TableError{Msg: "the table needs a header row and at least one row of data"}
@@ -99,7 +100,7 @@ func ParseTable(rows [][]string, c TableColumns) ([]*Data, error) {
 			}
 			numeric, any := true, false
 			for _, row := range data {
-				if i >= len(row) || strings.TrimSpace(row[i]) == "" {
+				if i >= len(row) || isMissingCell(row[i]) {
 					continue
 				}
 				any = true
@@ -169,6 +170,7 @@ func ParseTable(rows [][]string, c TableColumns) ([]*Data, error) {
 			Kind: trial.Continuous, Design: design, Treatments: trtNames,
 			Treatment: trt, Block: blk, Blocks: len(blkNames), BlockLabels: blkNames,
 			Row: row, Column: col, Rows: len(rowNames), Cols: len(colNames),
+			Lines: true,
 		}
 		d.Values = make([]float64, len(data))
 		d.Plot = make([]int, len(data))
@@ -178,7 +180,7 @@ func ParseTable(rows [][]string, c TableColumns) ([]*Data, error) {
 			if ri < len(rw) {
 				cell = strings.TrimSpace(rw[ri])
 			}
-			if cell == "" {
+			if isMissingCell(cell) {
 				d.Values[r] = math.NaN()
 				continue
 			}
@@ -191,6 +193,17 @@ func ParseTable(rows [][]string, c TableColumns) ([]*Data, error) {
 		out = append(out, d)
 	}
 	return out, nil
+}
+
+// isMissingCell reports whether a cell stands for a missing value: empty,
+// or one of the usual markers NA, N/A and "." (common practice in
+// statistics packages' CSV files).
+func isMissingCell(s string) bool {
+	switch strings.ToUpper(strings.TrimSpace(s)) {
+	case "", "NA", "N/A", ".":
+		return true
+	}
+	return false
 }
 
 // parseNumber reads a finite decimal number, with a point or a comma as the

@@ -227,8 +227,10 @@ func Plan(t *trial.Trial, rows [][]string) (*ImportPlan, error) {
 		}
 		line := r + 1
 		p.rows++
-		if len(row) > len(cols) && !blank(row[len(cols):]) {
-			p.add(Issue{Severity: Error, Line: line, Message: fmt.Sprintf("the row has %d cells but the header has %d; a decimal comma in a comma-separated file may have split a number in two. The row is not imported", lastFilled(row), len(cols))})
+		if len(row) > len(cols) {
+			// Cells would be shifted: often an unquoted decimal comma in a
+			// comma-separated file ("12,5" read as 12 and 5).
+			p.add(Issue{Severity: Error, Line: line, Message: fmt.Sprintf("the row has %d cells but the header has %d; a decimal comma in a comma-separated file may have split a number in two. The row is not imported", len(row), len(cols))})
 			continue
 		}
 		cell := func(c int) string {
@@ -521,16 +523,6 @@ func blank(r []string) bool {
 		}
 	}
 	return true
-}
-
-func lastFilled(r []string) int {
-	n := 0
-	for i, c := range r {
-		if strings.TrimSpace(c) != "" {
-			n = i + 1
-		}
-	}
-	return n
 }
 
 func contains(list []string, s string) bool {

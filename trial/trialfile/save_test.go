@@ -13,7 +13,6 @@ import (
 	"syscall"
 	"testing"
 	"time"
-
 )
 
 func TestSaveKeepsBackup(t *testing.T) {

@@ -11,6 +11,7 @@ import (
 	"io"
 	"sort"
 	"strings"
+	"time"
 )
 
 // Exit codes.
@@ -214,3 +215,6 @@ func printCommandHelp(w io.Writer, c *command, fs *flag.FlagSet) {
 		fs.PrintDefaults()
 	}
 }
+
+// nowFunc is the clock; tests replace it.
+var nowFunc = time.Now

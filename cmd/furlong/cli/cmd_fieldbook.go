@@ -1,0 +1,208 @@
+package cli
+
+import (
+	"bufio"
+	"bytes"
+	"context"
+	"flag"
+	"fmt"
+	"os"
+	"path/filepath"
+	"strings"
+
+	"furlong/export/xlsx"
+	"furlong/trial"
+	"furlong/trial/fieldbook"
+	"furlong/trial/trialfile"
+)
+
+func init() {
+	register(&command{
+		name:    "fieldbook",
+		summary: "write the field book (CSV or xlsx) for recording plot data",
+		usage:   "furlong fieldbook TRIAL -o BOOK.csv|BOOK.xlsx [--sep comma|semicolon|tab] [--decimal-comma] [--paper a4|letter]",
+		details: `Writes one row per plot in walking order: plot, block, row, column, treatment, treatment_name,
+then one column per recorded trait (empty, or the values already entered). The crew fills it in
+and 'furlong import' reads it back. The xlsx form checks entries as they are typed (each trait's
+valid range) and prints with the header on every page.
+For spreadsheets set to a European locale, --sep semicolon --decimal-comma writes what they expect.`,
+		flags: func(env Env) (*flag.FlagSet, func(context.Context, []string) error) {
+			fs := flag.NewFlagSet("fieldbook", flag.ContinueOnError)
+			out := fs.String("o", "", "write the field book to this `file` (.csv or .xlsx; required)")
+			sep := fs.String("sep", "comma", "CSV cell separator: comma, semicolon or tab")
+			dc := fs.Bool("decimal-comma", false, "CSV: write decimal commas (5,23)")
+			paper := fs.String("paper", "a4", "xlsx: paper size, a4 or letter")
+			force := fs.Bool("force", false, "replace the output file if it exists")
+			return fs, func(ctx context.Context, args []string) error {
+				if len(args) != 1 {
+					return usagef("fieldbook: give one trial file")
+				}
+				if *out == "" {
+					return usagef("fieldbook: say where to write the field book with -o FILE")
+				}
+				t, err := trialfile.Load(args[0])
+				if err != nil {
+					return err
+				}
+				var buf bytes.Buffer
+				switch strings.ToLower(filepath.Ext(*out)) {
+				case ".xlsx":
+					p, err := parsePaper(*paper)
+					if err != nil {
+						return err
+					}
+					err = xlsx.WriteFieldBook(&buf, t, xlsx.FieldBookOptions{Paper: p})
+					if err != nil {
+						return err
+					}
+				case ".csv", ".txt", ".tsv":
+					o := fieldbook.Options{DecimalComma: *dc}
+					switch *sep {
+					case "comma", ",":
+						o.Comma = ','
+					case "semicolon", ";":
+						o.Comma = ';'
+					case "tab":
+						o.Comma = '\t'
+					default:
+						return usagef("fieldbook: --sep must be comma, semicolon or tab")
+					}
+					if err := fieldbook.WriteCSV(&buf, t, o); err != nil {
+						return err
+					}
+				default:
+					return usagef("fieldbook: the output must end in .csv or .xlsx")
+				}
+				if err := writeFileNew(*out, buf.Bytes(), *force); err != nil {
+					return err
+				}
+				fmt.Fprintf(env.Stdout, "wrote the field book for %d plots to %s\n", len(t.Plots), *out)
+				return nil
+			}
+		},
+	})
+	register(&command{
+		name:    "import",
+		summary: "read plot values from a filled-in field book into a trial",
+		usage:   "furlong import TRIAL BOOK.csv|BOOK.xlsx [--overwrite] [--dry-run]",
+		details: `Reads values back by plot number. First it reports what it would change: matched plots, unknown
+plot numbers, duplicated rows, cells that are not numbers, values outside a trait's valid range,
+and cells that would overwrite a different value already in the trial.
+
+Nothing is changed, and the exit status is 1, while the report holds errors (unknown plots,
+duplicated rows, cells that are not numbers, a different treatment than the trial's layout), or
+while values would be overwritten without --overwrite. Values outside a trait's range are imported
+and listed as warnings. Empty cells leave the trial's value as it is.
+When the import goes ahead the trial is saved safely (the previous file is kept as TRIAL.bak).
+Comma, semicolon and tab separated files and decimal commas are read.`,
+		flags: func(env Env) (*flag.FlagSet, func(context.Context, []string) error) {
+			fs := flag.NewFlagSet("import", flag.ContinueOnError)
+			over := fs.Bool("overwrite", false, "replace values already in the trial with different ones from the book")
+			dry := fs.Bool("dry-run", false, "only print the report; change nothing")
+			return fs, func(ctx context.Context, args []string) error {
+				if len(args) != 2 {
+					return usagef("import: give the trial file and the field book")
+				}
+				return runImport(env, args[0], args[1], *over, *dry)
+			}
+		},
+	})
+}
+
+func parsePaper(s string) (xlsx.Paper, error) {
+	switch strings.ToLower(s) {
+	case "a4":
+		return xlsx.A4, nil
+	case "letter":
+		return xlsx.Letter, nil
+	}
+	return 0, usagef("--paper must be a4 or letter")
+}
+
+// readBook reads a CSV or xlsx field book as a table of strings.
+func readBook(path string) ([][]string, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	var rows [][]string
+	if strings.EqualFold(filepath.Ext(path), ".xlsx") {
+		rows, err = xlsx.ReadTable(bufio.NewReader(f))
+	} else {
+		rows, err = fieldbook.ReadTable(f)
+	}
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", path, err)
+	}
+	return rows, nil
+}
+
+func runImport(env Env, trialPath, bookPath string, overwrite, dry bool) error {
+	t, err := trialfile.Load(trialPath)
+	if err != nil {
+		return err
+	}
+	rows, err := readBook(bookPath)
+	if err != nil {
+		return err
+	}
+	plan, err := fieldbook.Plan(t, rows)
+	if err != nil {
+		return fmt.Errorf("%s: %w", bookPath, err)
+	}
+	if err := plan.Report(env.Stdout); err != nil {
+		return err
+	}
+	if plan.HasErrors(overwrite) {
+		msg := "nothing was imported: fix the errors listed above and run the import again"
+		if len(plan.Errors()) == 0 {
+			msg = "nothing was imported: some cells would replace different values already in the trial; check them, then run again with --overwrite to replace them"
+		}
+		return &ExitError{Code: ExitFailure, Msg: msg}
+	}
+	if dry {
+		fmt.Fprintln(env.Stdout, "dry run: the trial was not changed")
+		return nil
+	}
+	n, err := plan.Apply(t, overwrite)
+	if err != nil {
+		return err
+	}
+	if n == 0 {
+		fmt.Fprintln(env.Stdout, "no values changed; the trial file was left as it was")
+		return nil
+	}
+	touch(t)
+	if err := trialfile.Save(trialPath, t); err != nil {
+		return err
+	}
+	fmt.Fprintf(env.Stdout, "imported %d values into %s (the previous file is kept as %s.bak)\n", n, trialPath, trialPath)
+	return nil
+}
+
+func touch(t *trial.Trial) { t.Modified = nowFunc() }
+
+// writeFileNew writes data to path, refusing to replace an existing file
+// unless force is set.
+func writeFileNew(path string, data []byte, force bool) error {
+	if !force {
+		if _, err := os.Stat(path); err == nil {
+			return fmt.Errorf("%s already exists; choose another name or add --force to replace it", path)
+		}
+	}
+	tmp, err := os.CreateTemp(filepath.Dir(path), ".furlong-out-*")
+	if err != nil {
+		return err
+	}
+	if _, err := tmp.Write(data); err != nil {
+		tmp.Close()
+		os.Remove(tmp.Name())
+		return err
+	}
+	if err := tmp.Close(); err != nil {
+		os.Remove(tmp.Name())
+		return err
+	}
+	return os.Rename(tmp.Name(), path)
+}

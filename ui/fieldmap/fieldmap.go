@@ -1,0 +1,367 @@
+// Package fieldmap is a Fyne widget that draws a trial's field plan: one
+// rectangle per plot at its field row and column, labelled with the plot
+// number and treatment code, coloured from the Okabe–Ito palette, with the
+// blocks outlined. Hovering or tapping a plot reports it to the caller.
+//
+// The widget knows nothing of trials: the caller passes plain Plot values.
+package fieldmap
+
+import (
+	"image/color"
+	"math"
+	"strconv"
+
+	"fyne.io/fyne/v2"
+	"fyne.io/fyne/v2/canvas"
+	"fyne.io/fyne/v2/driver/desktop"
+	"fyne.io/fyne/v2/theme"
+	"fyne.io/fyne/v2/widget"
+)
+
+// OkabeIto is the colour-blind-safe palette of Okabe and Ito (2008), "Color
+// Universal Design: how to make figures and presentations that are friendly
+// to colorblind people", in their order without black: orange, sky blue,
+// bluish green, yellow, blue, vermillion, reddish purple.
+var OkabeIto = []color.NRGBA{
+	{0xE6, 0x9F, 0x00, 0xFF},
+	{0x56, 0xB4, 0xE9, 0xFF},
+	{0x00, 0x9E, 0x73, 0xFF},
+	{0xF0, 0xE4, 0x42, 0xFF},
+	{0x00, 0x72, 0xB2, 0xFF},
+	{0xD5, 0x5E, 0x00, 0xFF},
+	{0xCC, 0x79, 0xA7, 0xFF},
+}
+
+// Plot is one plot to draw.
+type Plot struct {
+	Row, Column int    // field row and column, 1-based
+	Number      int    // plot number, printed on the plot
+	Code        string // treatment code, printed below the number
+	Block       int    // blocks are outlined
+	Group       int    // colour: OkabeIto[Group % len]; negative for no fill
+	Excluded    bool   // drawn hatched grey
+}
+
+// maxLabelled is the number of plots above which labels are left out, so
+// that a very large trial still draws quickly.
+const maxLabelled = 2500
+
+// Map is the field plan widget.
+type Map struct {
+	widget.BaseWidget
+
+	// OnHover is called with the index of the plot under the pointer, or
+	// -1 when the pointer leaves the plots.
+	OnHover func(i int)
+	// OnTapped is called with the index of a tapped plot.
+	OnTapped func(i int)
+
+	plots    []Plot
+	rows     int
+	cols     int
+	at       map[[2]int]int // (row, col) → plot index
+	hover    int
+	selected int
+}
+
+var (
+	_ fyne.Widget       = (*Map)(nil)
+	_ fyne.Tappable     = (*Map)(nil)
+	_ desktop.Hoverable = (*Map)(nil)
+)
+
+// New returns an empty map.
+func New() *Map {
+	m := &Map{hover: -1, selected: -1}
+	m.ExtendBaseWidget(m)
+	return m
+}
+
+// SetPlots replaces the plots drawn.
+func (m *Map) SetPlots(plots []Plot) {
+	m.plots = append(m.plots[:0], plots...)
+	m.rows, m.cols = 0, 0
+	m.at = make(map[[2]int]int, len(plots))
+	for i, p := range plots {
+		m.rows = max(m.rows, p.Row)
+		m.cols = max(m.cols, p.Column)
+		m.at[[2]int{p.Row, p.Column}] = i
+	}
+	if m.selected >= len(plots) {
+		m.selected = -1
+	}
+	m.Refresh()
+}
+
+// Plots returns the plots drawn.
+func (m *Map) Plots() []Plot { return m.plots }
+
+// Select marks plot i (−1 for none).
+func (m *Map) Select(i int) {
+	m.selected = i
+	m.Refresh()
+}
+
+// Selected returns the marked plot or −1.
+func (m *Map) Selected() int { return m.selected }
+
+// geometry returns the size of one cell and the origin of the grid for a
+// widget of size s: cells are square-ish and the grid is centred.
+func (m *Map) geometry(s fyne.Size) (cw, ch float32, origin fyne.Position) {
+	if m.rows == 0 || m.cols == 0 {
+		return 0, 0, fyne.Position{}
+	}
+	cw = s.Width / float32(m.cols)
+	ch = s.Height / float32(m.rows)
+	// Plots are longer than wide on most maps; keep the aspect within 1:2.
+	if ch > 2*cw {
+		ch = 2 * cw
+	}
+	if cw > 2*ch {
+		cw = 2 * ch
+	}
+	origin = fyne.NewPos((s.Width-cw*float32(m.cols))/2, (s.Height-ch*float32(m.rows))/2)
+	return cw, ch, origin
+}
+
+// PlotAt returns the index of the plot at position p, or −1.
+func (m *Map) PlotAt(p fyne.Position) int {
+	cw, ch, o := m.geometry(m.Size())
+	if cw == 0 {
+		return -1
+	}
+	c := int((p.X-o.X)/cw) + 1
+	r := int((p.Y-o.Y)/ch) + 1
+	if p.X < o.X || p.Y < o.Y || c > m.cols || r > m.rows {
+		return -1
+	}
+	if i, ok := m.at[[2]int{r, c}]; ok {
+		return i
+	}
+	return -1
+}
+
+// Tapped selects the plot under the pointer.
+func (m *Map) Tapped(e *fyne.PointEvent) {
+	i := m.PlotAt(e.Position)
+	if i < 0 {
+		return
+	}
+	m.Select(i)
+	if m.OnTapped != nil {
+		m.OnTapped(i)
+	}
+}
+
+// MouseIn implements desktop.Hoverable.
+func (m *Map) MouseIn(e *desktop.MouseEvent) { m.MouseMoved(e) }
+
+// MouseMoved reports the plot under the pointer when it changes.
+func (m *Map) MouseMoved(e *desktop.MouseEvent) {
+	i := m.PlotAt(e.Position)
+	if i == m.hover {
+		return
+	}
+	m.hover = i
+	m.Refresh()
+	if m.OnHover != nil {
+		m.OnHover(i)
+	}
+}
+
+// MouseOut implements desktop.Hoverable.
+func (m *Map) MouseOut() {
+	if m.hover != -1 {
+		m.hover = -1
+		m.Refresh()
+		if m.OnHover != nil {
+			m.OnHover(-1)
+		}
+	}
+}
+
+// MinSize is small; the map scales to the space it is given.
+func (m *Map) MinSize() fyne.Size { return fyne.NewSize(200, 150) }
+
+// CreateRenderer implements fyne.Widget.
+func (m *Map) CreateRenderer() fyne.WidgetRenderer {
+	m.ExtendBaseWidget(m)
+	return &renderer{m: m}
+}
+
+type renderer struct {
+	m       *Map
+	cells   []*canvas.Rectangle
+	numbers []*canvas.Text
+	codes   []*canvas.Text
+	blocks  []*canvas.Rectangle
+	mark    *canvas.Rectangle
+	objects []fyne.CanvasObject
+}
+
+func (r *renderer) Destroy() {}
+
+func (r *renderer) MinSize() fyne.Size { return r.m.MinSize() }
+
+func (r *renderer) Objects() []fyne.CanvasObject { return r.objects }
+
+// Refresh rebuilds the objects when the plots changed and restyles them.
+func (r *renderer) Refresh() {
+	m := r.m
+	if len(r.cells) != len(m.plots) || len(r.blocks) != numBlocks(m.plots) {
+		r.build()
+	}
+	labelled := len(m.plots) <= maxLabelled
+	fg := theme.Color(theme.ColorNameForeground)
+	for i, p := range m.plots {
+		c := r.cells[i]
+		c.FillColor = fillColor(p)
+		c.StrokeWidth = 0.5
+		c.StrokeColor = theme.Color(theme.ColorNameBackground)
+		if labelled {
+			r.numbers[i].Text = strconv.Itoa(p.Number)
+			r.codes[i].Text = p.Code
+			tc := textOn(c.FillColor, fg)
+			r.numbers[i].Color, r.codes[i].Color = tc, tc
+		}
+	}
+	for _, b := range r.blocks {
+		b.StrokeColor = fg
+	}
+	r.mark.StrokeColor = theme.Color(theme.ColorNamePrimary)
+	r.Layout(m.Size())
+	canvas.Refresh(m)
+}
+
+func numBlocks(ps []Plot) int {
+	seen := map[int]bool{}
+	for _, p := range ps {
+		seen[p.Block] = true
+	}
+	return len(seen)
+}
+
+func (r *renderer) build() {
+	m := r.m
+	labelled := len(m.plots) <= maxLabelled
+	r.cells = make([]*canvas.Rectangle, len(m.plots))
+	r.numbers, r.codes = nil, nil
+	r.objects = r.objects[:0]
+	for i := range m.plots {
+		r.cells[i] = canvas.NewRectangle(color.Transparent)
+		r.objects = append(r.objects, r.cells[i])
+	}
+	if labelled {
+		r.numbers = make([]*canvas.Text, len(m.plots))
+		r.codes = make([]*canvas.Text, len(m.plots))
+		for i := range m.plots {
+			r.numbers[i] = canvas.NewText("", nil)
+			r.numbers[i].TextStyle = fyne.TextStyle{Bold: true}
+			r.numbers[i].Alignment = fyne.TextAlignCenter
+			r.codes[i] = canvas.NewText("", nil)
+			r.codes[i].Alignment = fyne.TextAlignCenter
+			r.objects = append(r.objects, r.numbers[i], r.codes[i])
+		}
+	}
+	r.blocks = nil
+	for range numBlocks(m.plots) {
+		b := canvas.NewRectangle(color.Transparent)
+		b.StrokeWidth = 2.5
+		r.blocks = append(r.blocks, b)
+		r.objects = append(r.objects, b)
+	}
+	r.mark = canvas.NewRectangle(color.Transparent)
+	r.mark.StrokeWidth = 3
+	r.objects = append(r.objects, r.mark)
+}
+
+// Layout places every plot, label and block outline.
+func (r *renderer) Layout(s fyne.Size) {
+	m := r.m
+	cw, ch, o := m.geometry(s)
+	cellPos := func(p Plot) fyne.Position {
+		return fyne.NewPos(o.X+float32(p.Column-1)*cw, o.Y+float32(p.Row-1)*ch)
+	}
+	textSize := min(ch/3.2, cw/3.2, theme.TextSize())
+	showText := textSize >= 7
+	for i, p := range m.plots {
+		pos := cellPos(p)
+		r.cells[i].Move(pos)
+		r.cells[i].Resize(fyne.NewSize(cw, ch))
+		if r.numbers == nil {
+			continue
+		}
+		r.numbers[i].TextSize, r.codes[i].TextSize = textSize, textSize*0.9
+		r.numbers[i].Hidden, r.codes[i].Hidden = !showText, !showText
+		r.numbers[i].Move(fyne.NewPos(pos.X, pos.Y+ch/2-textSize*1.3))
+		r.numbers[i].Resize(fyne.NewSize(cw, textSize*1.3))
+		r.codes[i].Move(fyne.NewPos(pos.X, pos.Y+ch/2))
+		r.codes[i].Resize(fyne.NewSize(cw, textSize*1.3))
+	}
+	// Block outlines: the bounding box of each block's plots.
+	type box struct{ r0, c0, r1, c1 int }
+	boxes := map[int]*box{}
+	var order []int
+	for _, p := range m.plots {
+		b, ok := boxes[p.Block]
+		if !ok {
+			b = &box{p.Row, p.Column, p.Row, p.Column}
+			boxes[p.Block] = b
+			order = append(order, p.Block)
+		}
+		b.r0, b.c0 = min(b.r0, p.Row), min(b.c0, p.Column)
+		b.r1, b.c1 = max(b.r1, p.Row), max(b.c1, p.Column)
+	}
+	for i, k := range order {
+		if i >= len(r.blocks) {
+			break
+		}
+		b := boxes[k]
+		r.blocks[i].Move(fyne.NewPos(o.X+float32(b.c0-1)*cw, o.Y+float32(b.r0-1)*ch))
+		r.blocks[i].Resize(fyne.NewSize(float32(b.c1-b.c0+1)*cw, float32(b.r1-b.r0+1)*ch))
+	}
+	mark := m.hover
+	if mark < 0 {
+		mark = m.selected
+	}
+	r.mark.Hidden = mark < 0 || mark >= len(m.plots)
+	if !r.mark.Hidden {
+		r.mark.Move(cellPos(m.plots[mark]))
+		r.mark.Resize(fyne.NewSize(cw, ch))
+	}
+}
+
+// fillColor is a plot's fill: its group's palette colour, grey when the
+// plot is excluded, none for a negative group.
+func fillColor(p Plot) color.Color {
+	if p.Excluded {
+		return color.NRGBA{0x9a, 0x9a, 0x9a, 0xff}
+	}
+	if p.Group < 0 {
+		return color.Transparent
+	}
+	return OkabeIto[p.Group%len(OkabeIto)]
+}
+
+// textOn picks black or white text for a fill by its relative luminance
+// (WCAG 2.1 definition), or the theme's foreground on no fill.
+func textOn(c color.Color, fg color.Color) color.Color {
+	r, g, b, a := c.RGBA()
+	if a == 0 {
+		return fg
+	}
+	lum := 0.2126*lin(r) + 0.7152*lin(g) + 0.0722*lin(b)
+	if lum > 0.4 {
+		return color.Black
+	}
+	return color.White
+}
+
+// lin linearises one sRGB channel (WCAG 2.1 relative luminance).
+func lin(v uint32) float64 {
+	c := float64(v) / 0xffff
+	if c <= 0.04045 {
+		return c / 12.92
+	}
+	return math.Pow((c+0.055)/1.055, 2.4)
+}
