@@ -154,11 +154,19 @@ func (a *analyser) run() {
 			if ctx.Err() != nil {
 				return
 			}
-			set.charts = drawCharts(snap, tr, method)
+			// Tables first, charts as soon as they are drawn.
 			set.took = time.Since(start)
-			partial := *set
-			partial.traits = append([]traitResult(nil), set.traits...)
-			fyne.Do(func() { a.deliver(&partial) })
+			tables := *set
+			tables.traits = append([]traitResult(nil), set.traits...)
+			fyne.Do(func() { a.deliver(&tables) })
+			set.charts = drawCharts(snap, tr, method)
+			if ctx.Err() != nil {
+				return
+			}
+			withCharts := tables
+			withCharts.charts = set.charts
+			withCharts.took = time.Since(start)
+			fyne.Do(func() { a.deliver(&withCharts) })
 		}
 		for _, tr := range snap.Traits {
 			if tr.Key == focus {

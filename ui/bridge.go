@@ -3,7 +3,6 @@ package ui
 import (
 	"errors"
 
-	"furlong/trial"
 	"furlong/trial/analysis"
 )
 
@@ -14,6 +13,4 @@ var errAnalysisFailed = errors.New("the analysis failed unexpectedly on these da
 var errChartFailed = errors.New("the chart could not be drawn from these data")
 
 // analyzeFunc is the analysis behind the Compare and Report steps.
-var analyzeFunc = func(t *trial.Trial, key string, opts analysis.Options) (*analysis.Result, error) {
-	return nil, errors.New("the analysis engine is not part of this build yet")
-}
+var analyzeFunc = analysis.Analyze

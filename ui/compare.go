@@ -121,15 +121,15 @@ func newCompareStep(u *App) *compareStep {
 		c.summary.SetColumnWidth(i, w)
 	}
 
-	controls := container.NewHBox(widget.NewLabel("Trait"), c.traitSel, widget.NewSeparator(), c.methodSel,
+	controls := container.NewHBox(widget.NewLabel("Trait"), container.NewGridWrap(fyne.NewSize(300, c.traitSel.MinSize().Height), c.traitSel), widget.NewSeparator(), c.methodSel,
 		widget.NewSeparator(), widget.NewLabel("Significance level"), c.alphaSel, c.state)
 	caution := widget.NewLabel(cautionShort)
 	caution.Importance = widget.WarningImportance
 	caution.Truncation = fyne.TextTruncateEllipsis
 
-	left := container.NewBorder(
-		container.NewVBox(heading("Analysis of variance"), c.anova, heading("Statistics"), c.statsBox, c.warnings, heading("Means")),
-		nil, nil, nil, c.means)
+	upper := container.NewVScroll(container.NewVBox(heading("Analysis of variance"), c.anova, heading("Statistics"), c.statsBox, c.warnings))
+	left := container.NewVSplit(upper, container.NewBorder(heading("Means"), nil, nil, nil, c.means))
+	left.Offset = 0.55
 	detail := container.NewHSplit(left, c.charts)
 	detail.Offset = 0.45
 	tabs := container.NewAppTabs(
@@ -209,7 +209,7 @@ func (c *compareStep) show(s *resultSet) {
 	c.anova.Refresh()
 	c.statsBox.Refresh()
 	c.means.Refresh()
-	if s.focus == c.traitKey {
+	if s.focus == c.traitKey && s.charts != nil {
 		c.showCharts(s.charts)
 	}
 	if s.complete {
@@ -245,10 +245,14 @@ func (c *compareStep) showResult(r *analysis.Result) {
 		add := func(k, v string) { c.statsBox.Add(cell(k, false)); c.statsBox.Add(cell(v, true)) }
 		add("Grand mean", fixed(a.GrandMean, r.Decimals+1)+" "+r.Unit)
 		add("CV %", fixed(a.CVPercent, 1))
+		sep, v := "LSD", r.LSD
 		if c.method == analysis.Tukey {
-			add(fmt.Sprintf("HSD (%.0f %%)", 100*r.Alpha), optNum(r.HSD, r.Decimals+1))
+			sep, v = "HSD", r.HSD
+		}
+		if v != nil {
+			add(fmt.Sprintf("%s (%s %%)", sep, num(100*r.Alpha, 2)), fixed(*v, r.Decimals+1))
 		} else {
-			add(fmt.Sprintf("LSD (%.0f %%)", 100*r.Alpha), optNum(r.LSD, r.Decimals+1))
+			add(fmt.Sprintf("%s (%s %%)", sep, num(100*r.Alpha, 2)), "differs between pairs (unequal plots per treatment)")
 		}
 		add("R²", fixed(a.RSquared, 3))
 		if a.RelativeEfficiency > 0 {

@@ -1,6 +1,7 @@
 package ui
 
 import (
+	"io"
 	"math"
 	"testing"
 	"time"
@@ -10,6 +11,7 @@ import (
 	"fyne.io/fyne/v2/widget"
 
 	"furlong/trial"
+	"furlong/trial/trialfile"
 )
 
 // newTestApp builds the window on a headless test app with in-memory
@@ -69,3 +71,6 @@ func enter(r *recordStep, text string) {
 func sameValue(a, b float64) bool {
 	return a == b || (math.IsNaN(a) && math.IsNaN(b))
 }
+
+// encodeTo encodes t to nowhere, for timing.
+func encodeTo(t *trial.Trial) error { return trialfile.Encode(io.Discard, t) }

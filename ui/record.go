@@ -95,9 +95,12 @@ func (r *recordStep) setWidths() {
 	t := r.trial()
 	r.table.SetColumnWidth(colPlot, 70)
 	r.table.SetColumnWidth(colBlock, 60)
-	r.table.SetColumnWidth(colTreatment, 150)
+	r.table.SetColumnWidth(colTreatment, 210)
+	pad := 4 * theme.Padding()
 	for j := range t.Traits {
-		r.table.SetColumnWidth(fixedCols+j, 120)
+		head := traitLabel(&t.Traits[j]) + " ="
+		w := fyne.MeasureText(head, theme.TextSize(), fyne.TextStyle{Bold: true}).Width + pad
+		r.table.SetColumnWidth(fixedCols+j, min(max(w, 90), 240))
 	}
 	r.table.SetColumnWidth(fixedCols+len(t.Traits), 260)
 }

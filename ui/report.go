@@ -12,7 +12,6 @@ import (
 	"fyne.io/fyne/v2/theme"
 	"fyne.io/fyne/v2/widget"
 
-	"furlong/export"
 	"furlong/export/chart"
 	"furlong/export/xlsx"
 	"furlong/trial"
@@ -42,6 +41,7 @@ func newReportStep(u *App) *reportStep {
 	r.charts.SetChecked(true)
 	r.method = widget.NewRadioGroup([]string{methodLabel(analysis.LSD), methodLabel(analysis.Tukey)}, nil)
 	r.method.SetSelected(methodLabel(u.prefs.method))
+	r.method.Horizontal = true
 	r.alpha = widget.NewSelect(alphaChoices, nil)
 	r.alpha.SetSelected(strconv.FormatFloat(u.prefs.alpha, 'g', -1, 64))
 	r.paperSel = widget.NewRadioGroup(paperLabels, nil)
@@ -159,14 +159,14 @@ func (r *reportStep) exportReport() {
 // writeReport analyses the chosen traits of a snapshot and writes the
 // season report workbook; it is the work behind the report's save dialog.
 func writeReport(ctx context.Context, w io.Writer, t *trial.Trial, keys []string, opts xlsx.ReportOptions, progress func(int, int)) error {
-	results := make([]export.TraitResult, 0, len(keys))
+	results := make([]analysis.Outcome, 0, len(keys))
 	steps := len(keys)
 	for i, k := range keys {
 		if err := ctx.Err(); err != nil {
 			return err
 		}
 		tr := analyzeTrait(t, k, analysis.Options{Alpha: opts.Alpha})
-		results = append(results, export.TraitResult{Trait: k, Result: tr.res, Err: tr.err})
+		results = append(results, analysis.Outcome{Key: k, Result: tr.res, Err: tr.err})
 		if progress != nil {
 			progress(i+1, 2*steps)
 		}

@@ -206,7 +206,7 @@ func nominalAxis(p *plot.Plot, names []string) {
 	case n > 80:
 		size = vg.Points(4)
 	case n > 40:
-		size = vg.Points(5)
+		size = vg.Points(6)
 	case n > 20:
 		size = vg.Points(6.5)
 	}

@@ -144,11 +144,6 @@ func countFill(svg []byte, hex string) int {
 	return bytes.Count(svg, []byte("fill:"+hex))
 }
 
-// size returns w, h of A4 landscape for tests.
-func a4() (vg.Length, vg.Length) { return A4Landscape() }
-
-var _ = fmt.Sprint
-
 // bigFixture is an invented RCBD with n treatments (the last two checks)
 // and reps blocks stacked one above the other, each block laid out in rows
 // of 20 plots; values and letters are invented from a fixed formula.

@@ -81,29 +81,22 @@ func (g *fieldGrid) Plot(c draw.Canvas, p *plot.Plot) {
 	}
 
 	// Text: one font size for the whole grid, the largest that fits every
-	// cell's lines.
+	// cell's lines (text width grows in proportion to the font size).
+	const ref = 10
+	refSty := textStyle(vg.Points(ref), color.Black)
 	size := g.maxFont
-	var sty text.Style
-	fits := func(s vg.Length) bool {
-		sty = textStyle(s, color.Black)
-		for _, cell := range g.cells {
-			if len(cell.lines) == 0 {
-				continue
-			}
-			if vg.Length(len(cell.lines))*s*1.15 > ch*0.9 {
-				return false
-			}
-			for _, l := range cell.lines {
-				if sty.Width(l) > cw*0.9 {
-					return false
-				}
+	for _, cell := range g.cells {
+		if len(cell.lines) == 0 {
+			continue
+		}
+		size = min(size, ch*0.9/(vg.Length(len(cell.lines))*1.15))
+		for _, l := range cell.lines {
+			if w := refSty.Width(l); w > 0 {
+				size = min(size, cw*0.9*ref/w)
 			}
 		}
-		return true
 	}
-	for size >= g.minFont && !fits(size) {
-		size -= vg.Points(0.5)
-	}
+	var sty text.Style
 	if size >= g.minFont {
 		sty = textStyle(size, color.Black)
 		sty.XAlign, sty.YAlign = draw.XCenter, draw.YCenter

@@ -180,6 +180,14 @@ func addResidualLayers(p *plot.Plot, xys plotter.XYs, d residualData, xlo, xhi f
 		ymax = math.Max(ymax, math.Abs(xy.Y)+0.3)
 	}
 	p.Y.Min, p.Y.Max = -ymax, ymax
+	p.Y.Tick.Marker = plot.TickerFunc(func(lo, hi float64) []plot.Tick {
+		var ts []plot.Tick
+		step := math.Max(1, math.Ceil((hi-lo)/12))
+		for v := math.Ceil(lo/step) * step; v <= hi; v += step {
+			ts = append(ts, plot.Tick{Value: v, Label: strconv.FormatFloat(v, 'f', 0, 64)})
+		}
+		return ts
+	})
 	g := pts.GlyphStyle
 	p.Add(&sidePanel{size: vg.Points(8), entries: []panelEntry{
 		{swatch: &swatch{Glyph: &g}, text: "Observation"},

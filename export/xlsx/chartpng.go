@@ -2,10 +2,13 @@ package xlsx
 
 import (
 	"bytes"
+	"context"
 	"fmt"
+	"runtime"
 
 	"gonum.org/v1/plot/vg"
 
+	"furlong/export"
 	"furlong/export/chart"
 	"furlong/trial"
 	"furlong/trial/analysis"
@@ -35,4 +38,48 @@ func meansChartPNG(t *trial.Trial, a *analysis.Result, opts ReportOptions) ([]by
 		return nil, err
 	}
 	return buf.Bytes(), nil
+}
+
+// chartPNG is a drawn chart, or why it could not be drawn.
+type chartPNG struct {
+	png []byte
+	err error
+}
+
+// startCharts draws the means chart of every analysed trait of the report
+// in the background, GOMAXPROCS at a time; the trait sheets take them from
+// r.charts. Drawing stops when ctx is done.
+func (r *report) startCharts(ctx context.Context) {
+	r.charts = make(map[string]chan chartPNG)
+	type job struct {
+		res *analysis.Result
+		out chan chartPNG
+	}
+	var jobs []job
+	for _, tr := range r.traits {
+		o, ok := export.LookupOutcome(r.res, tr.Key)
+		if !ok || export.Reason(o) != "" {
+			continue
+		}
+		ch := make(chan chartPNG, 1)
+		r.charts[tr.Key] = ch
+		jobs = append(jobs, job{o.Result, ch})
+	}
+	queue := make(chan job, len(jobs))
+	for _, j := range jobs {
+		queue <- j
+	}
+	close(queue)
+	for w := 0; w < min(runtime.GOMAXPROCS(0), len(jobs)); w++ {
+		go func() {
+			for j := range queue {
+				if ctx.Err() != nil {
+					j.out <- chartPNG{err: ctx.Err()}
+					continue
+				}
+				png, err := meansChartPNG(r.t, j.res, r.opts)
+				j.out <- chartPNG{png, err}
+			}
+		}()
+	}
 }

@@ -2,6 +2,7 @@ package xlsx
 
 import (
 	"bytes"
+	"context"
 	"encoding/csv"
 	"encoding/json"
 	"fmt"
@@ -9,13 +10,12 @@ import (
 	"os"
 	"strconv"
 	"strings"
+	"sync"
 	"testing"
 	"time"
 
 	"github.com/xuri/excelize/v2"
 
-	"furlong/export"
-	"furlong/stats"
 	"furlong/trial"
 	"furlong/trial/analysis"
 )
@@ -152,69 +152,29 @@ func barleyTrial(tb testing.TB) (*trial.Trial, barleyExpected) {
 	return t, exp
 }
 
-// barleyResult is the analysis of the barley yields built from the R
-// reference values (testdata/barley-1931-rcbd.expected.json), keyed by the
-// trial's treatment codes.
-func barleyResult(t *trial.Trial, exp barleyExpected, key string) *analysis.Result {
-	code := make(map[string]string)
-	check := make(map[string]bool)
-	for _, tm := range t.Treatments {
-		code[tm.Name] = tm.Code
-		check[tm.Code] = tm.Role == trial.RoleCheck
-	}
-	var src []stats.Source
-	var byName = map[string]stats.Source{}
-	for _, a := range exp.ANOVA {
-		s := stats.Source{DF: a.DF, SS: a.SS, MS: a.MS}
-		if a.F != nil {
-			s.HasTest, s.F, s.P = true, *a.F, *a.P
-		}
-		switch a.Source {
-		case "variety":
-			s.Name = "treatment"
-		case "site":
-			s.Name = "block"
-		default:
-			s.Name = "error"
-		}
-		byName[s.Name] = s
-	}
-	src = append(src, byName["treatment"], byName["block"], byName["error"],
-		stats.Source{Name: "total", DF: 59, SS: exp.TotalSS})
-	an := &stats.ANOVA{Sources: src, N: 60, GrandMean: exp.GrandMean, MSE: exp.MSE, DFError: exp.DFError,
-		CVPercent: exp.CV, RSquared: 1 - byName["error"].SS/exp.TotalSS, Balanced: true,
-		SEMean: exp.Means[0].SE, SED: math.Sqrt(2) * exp.Means[0].SE, RelativeEfficiency: exp.RE}
-	r := &analysis.Result{TraitKey: key, TraitName: "Yield", Unit: "bu/ac", Decimals: 2, HigherBetter: true,
-		Design: trial.RCBD, Alpha: 0.05, N: 60, ANOVA: an, LSD: fptr(exp.LSD), HSD: fptr(exp.HSD), LSDLettersGiven: true}
-	for _, m := range exp.Means {
-		c := code[m.Treatment]
-		r.Means = append(r.Means, analysis.Mean{Treatment: c, Name: m.Treatment, Check: check[c], N: m.N,
-			Mean: m.LSMean, RawMean: m.RawMean, SE: m.SE, BackMean: m.LSMean,
-			LettersLSD: exp.Letters[m.Treatment], LettersTukey: exp.Letters[m.Treatment]})
-	}
-	r.Diagnostics.ShapiroW, r.Diagnostics.ShapiroP = fptr(exp.Shapiro.W), fptr(exp.Shapiro.P)
-	r.Warnings = []string{"The residuals depart somewhat from normality."}
-	return r
+var barley struct {
+	once sync.Once
+	out  []analysis.Outcome
+	err  error
 }
 
-// barleyResults analyses every trait of the barley trial; the all-missing
-// trait carries the reason it has no analysis.
-func barleyResults(t *trial.Trial, exp barleyExpected) []export.TraitResult {
-	var out []export.TraitResult
-	for _, tr := range t.Traits {
-		if tr.Key == "lodge" {
-			out = append(out, export.TraitResult{Trait: tr.Key, Err: export.ErrNoValues})
-			continue
-		}
-		r := barleyResult(t, exp, tr.Key)
-		r.TraitName = tr.Name
-		out = append(out, export.TraitResult{Trait: tr.Key, Result: r})
+// barleyResults returns the real analysis of every trait of the barley
+// trial (made once and shared: tests only read it); the all-missing trait
+// carries the reason it has no analysis. t must hold the barley values.
+func barleyResults(tb testing.TB, _ *trial.Trial) []analysis.Outcome {
+	tb.Helper()
+	barley.once.Do(func() {
+		tr, _ := barleyTrial(tb)
+		barley.out, barley.err = analysis.AnalyzeAll(context.Background(), tr, nil, analysis.Options{})
+	})
+	if barley.err != nil {
+		tb.Fatal(barley.err)
 	}
-	return out
+	return barley.out
 }
 
 // writeReport writes the report and opens it again.
-func writeReport(tb testing.TB, t *trial.Trial, res []export.TraitResult, opts ReportOptions) (*excelize.File, []byte) {
+func writeReport(tb testing.TB, t *trial.Trial, res []analysis.Outcome, opts ReportOptions) (*excelize.File, []byte) {
 	tb.Helper()
 	var buf bytes.Buffer
 	if err := WriteReport(&buf, t, res, opts); err != nil {

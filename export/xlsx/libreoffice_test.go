@@ -68,8 +68,8 @@ func TestLibreOffice(t *testing.T) {
 	if testing.Short() {
 		t.Skip("LibreOffice conversion is slow; skipped with -short")
 	}
-	tr, exp := barleyTrial(t)
-	res := barleyResults(tr, exp)
+	tr, _ := barleyTrial(t)
+	res := barleyResults(t, tr)
 	res[0].Result.ANOVA.Sources[1].P = 1e-17 // shown as <0.001
 	dir := t.TempDir()
 	var buf bytes.Buffer

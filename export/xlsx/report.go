@@ -64,6 +64,7 @@ type report struct {
 	sum    *export.Summary
 	names  *sheetNamer
 	values map[string][]float64 // per trait key, aligned with t.Plots
+	charts map[string]chan chartPNG
 }
 
 // WriteReport writes the season report of trial t as an xlsx workbook to w.
@@ -93,6 +94,13 @@ func WriteReport(w io.Writer, t *trial.Trial, results []analysis.Outcome, opts R
 		values: make(map[string][]float64),
 	}
 	r.sum = export.NewSummary(t, results, opts.Traits, opts.Method, opts.Alpha)
+	if opts.Charts {
+		// Charts take most of a report's time: draw them in the background,
+		// on as many cores as there are, while the sheets are written.
+		cctx, cancel := context.WithCancel(ctx)
+		defer cancel()
+		r.startCharts(cctx)
+	}
 
 	type step struct {
 		name  string

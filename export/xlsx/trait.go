@@ -197,7 +197,13 @@ func (r *report) writeTrait(name string, tr trial.Trait) error {
 	s.freeze(0, 0)
 	s.fitColumns(6, 40)
 	if r.opts.Charts && s.err == nil {
-		png, err := meansChartPNG(r.t, a, r.opts)
+		var c chartPNG
+		if ch, ok := r.charts[tr.Key]; ok {
+			c = <-ch
+		} else {
+			c.png, c.err = meansChartPNG(r.t, a, r.opts)
+		}
+		png, err := c.png, c.err
 		if err != nil {
 			// A chart that cannot be drawn leaves a note, not a failed report.
 			s.textNoWidth(chartCol, meansHead, err.Error(), noteStyle)

@@ -26,7 +26,7 @@ func log1pmx(d float64) float64 {
 		return math.Log1p(d) - d
 	}
 	// -d²/2 + d³/3 - d⁴/4 + ...
-	term := -d
+	term := d
 	sum := 0.0
 	for n := 2; n < 40; n++ {
 		term *= -d

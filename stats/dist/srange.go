@@ -17,7 +17,7 @@ const badParams = "dist: studentized range needs K ≥ 2 and Nu ≥ 1"
 
 // Quadrature tolerances of the direct methods (see adaptiveGK).
 const (
-	directRel = 1e-9
+	directRel = 1e-10
 	directAbs = 1e-19
 )
 
@@ -145,12 +145,13 @@ func (StudentizedRange) NumParameters() int {
 }
 
 // Quantile returns the inverse of the cumulative distribution function.
+// It panics if p is outside [0, 1] (or NaN).
 //
 // The root of log P(Q ≤ q) = log p (for p ≤ ½) or log P(Q > q) = log(1-p)
 // (for p > ½) is found in log q by Newton's method safeguarded by bisection
 // inside a bracket, to a relative accuracy of about 1e-13 in q.
 func (s StudentizedRange) Quantile(p float64) float64 {
-	if p < 0 || p > 1 {
+	if !(p >= 0 && p <= 1) {
 		panic(badPercentile)
 	}
 	s.check()

@@ -8,8 +8,8 @@ import (
 const (
 	chebPoints     = 24    // interpolation points per piece
 	densityTol     = 2e-15 // coefficient-tail tolerance for the range density
-	survivalTol    = 1e-11 // coefficient-tail tolerance for the survival function
-	tableRel       = 1e-9  // quadrature tolerance used while building a table
+	survivalTol    = 1e-10 // coefficient-tail tolerance for the survival function
+	tableRel       = 1e-7  // quadrature tolerance used while building a table
 	tableMaxBisect = 12    // maximum bisection depth of a table
 )
 
@@ -40,7 +40,7 @@ func rangeDensityFunc(ct *chebTable) func(float64) float64 {
 // last four coefficients sum to at most 2e-15); then P(Q > q) is computed
 // from the interpolated density (see StudentizedRange) at the Chebyshev
 // points of pieces in t = log q, bisected until the last four coefficients
-// sum to at most 1e-11. Outside [q_lo, q_hi], where P(Q ≤ q_lo) and
+// sum to at most 1e-10. Outside [q_lo, q_hi], where P(Q ≤ q_lo) and
 // P(Q > q_hi) are below 1e-13, the table returns 1 below q_lo and a
 // monotone extrapolation bounded by P(Q > q_hi) above q_hi. The tests check
 // the table against StudentizedRange.Survival at random points: the

@@ -29,13 +29,14 @@ const (
 
 // direct computes p(t) from the regularised incomplete beta function:
 // with y = t²/(ν+t²), P(|T| < t) = I_y(1/2, ν/2) and p = I_{1−y}(ν/2, 1/2)
-// (Abramowitz & Stegun 26.7.1 with 26.5.27). Near t = 0 the first form is
-// used (p = 1 − I_y), since 1 − y loses digits there.
+// (Abramowitz & Stegun 26.7.1 with 26.5.27). The first form (p = 1 − I_y,
+// accurate to about 1e-16 absolute) is used while p > 0.001, since passing
+// 1 − y to the incomplete beta function loses digits when y is small.
 func (tt *tTail) direct(t float64) float64 {
 	t2 := t * t
 	nu := tt.nu
 	if t2 < nu {
-		if c := mathext.RegIncBeta(0.5, nu/2, t2/(nu+t2)); c < 0.5 {
+		if c := mathext.RegIncBeta(0.5, nu/2, t2/(nu+t2)); c < 0.999 {
 			return 1 - c
 		}
 	}

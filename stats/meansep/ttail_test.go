@@ -13,8 +13,9 @@ import (
 // ν = 2: p = 1 − t/√(2+t²); ν = 3: p = 1 − (2/π)[atan(t/√3) +
 // (t/√3)/(1+t²/3)]; from memory, e.g. Johnson, Kotz & Balakrishnan,
 // Continuous Univariate Distributions 2, ch. 28) to 1e-12 relative, and
-// gonum's distuv.StudentsT for larger ν to 1e-10 (gonum passes ν/(ν+t²)
-// to the incomplete beta function and loses some digits near t = 0).
+// gonum's distuv.StudentsT for larger ν to 1e-10 (1e-9 for |t| < 1: gonum
+// passes ν/(ν+t²) to the incomplete beta function and loses digits near
+// t = 0, as the closed forms show).
 func TestTTail(t *testing.T) {
 	t.Parallel()
 	closed := map[float64]func(x float64) float64{
@@ -44,6 +45,9 @@ func TestTTail(t *testing.T) {
 			}
 			ax := math.Abs(x)
 			want, tol := 2*d.Survival(ax), 1e-10
+			if ax < 1 {
+				tol = 1e-9 // gonum's own error near t = 0
+			}
 			if f, ok := closed[nu]; ok {
 				want, tol = f(ax), 1e-12
 				if nu == 3 && ax > 8 {

@@ -113,12 +113,12 @@ func (m *Map) geometry(s fyne.Size) (cw, ch float32, origin fyne.Position) {
 	}
 	cw = s.Width / float32(m.cols)
 	ch = s.Height / float32(m.rows)
-	// Plots are longer than wide on most maps; keep the aspect within 1:2.
-	if ch > 2*cw {
-		ch = 2 * cw
+	// Plots are longer than wide on most maps; keep the aspect within 1:3.
+	if ch > 3*cw {
+		ch = 3 * cw
 	}
-	if cw > 2*ch {
-		cw = 2 * ch
+	if cw > 3*ch {
+		cw = 3 * ch
 	}
 	origin = fyne.NewPos((s.Width-cw*float32(m.cols))/2, (s.Height-ch*float32(m.rows))/2)
 	return cw, ch, origin

@@ -67,10 +67,7 @@ and the field map. Numbers are stored at full precision and shown with each trai
 				if err != nil {
 					return err
 				}
-				results := make([]export.TraitResult, len(outcomes))
-				for i, oc := range outcomes {
-					results[i] = export.TraitResult{Trait: oc.Key, Result: oc.Result, Err: oc.Err}
-				}
+				results := outcomes
 				var buf bytes.Buffer
 				err = xlsx.WriteReport(&buf, t, results, xlsx.ReportOptions{
 					Method: m, Alpha: *alpha, Traits: keys, Version: env.Version,
@@ -85,7 +82,7 @@ and the field map. Numbers are stored at full precision and shown with each trai
 				fmt.Fprintf(env.Stdout, "wrote the report for %d traits to %s\n", len(results), *out)
 				for _, r := range results {
 					if r.Err != nil {
-						fmt.Fprintf(env.Stdout, "  %s was not analysed: %s\n", r.Trait, r.Reason())
+						fmt.Fprintf(env.Stdout, "  %s was not analysed: %s\n", r.Key, export.Reason(r))
 					}
 				}
 				return nil
