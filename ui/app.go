@@ -335,8 +335,12 @@ func (u *App) showStep(s stepID) {
 	u.nav.setCurrent(s)
 	u.body.Objects = []fyne.CanvasObject{u.steps[s].object()}
 	u.body.Refresh()
+	// Analyses run only while a screen shows them; typing in Record does
+	// not compete with them for the processor.
 	if s == stepCompare || s == stepReport {
 		u.compute.visible()
+	} else {
+		u.compute.active = false
 	}
 }
 

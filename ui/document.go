@@ -23,11 +23,15 @@ type document struct {
 	gen   uint64 // incremented by every edit
 	hist  history
 
+	// row is the plot index touched by the edit being reported, or -1
+	// when the edit may touch any plot; screens use it to redraw one row.
+	row int
+
 	onChange func(change)
 }
 
 func newDocument(t *trial.Trial, path string) *document {
-	return &document{t: t, path: path}
+	return &document{t: t, path: path, row: -1}
 }
 
 // edited records an edit of the given kind and notifies the window.
@@ -43,14 +47,24 @@ func (d *document) edited(c change) {
 func (d *document) apply(c command) {
 	c.do(d.t)
 	d.hist.push(c)
+	d.notify(c)
+}
+
+// notify reports a command's edit with its row hint.
+func (d *document) notify(c command) {
+	d.row = -1
+	if r, ok := c.(interface{ plotRow() int }); ok {
+		d.row = r.plotRow()
+	}
 	d.edited(c.kind())
+	d.row = -1
 }
 
 // record puts a command that has already been carried out on the undo
 // stack and notifies.
 func (d *document) record(c command) {
 	d.hist.push(c)
-	d.edited(c.kind())
+	d.notify(c)
 }
 
 func (d *document) undo() bool {
@@ -59,7 +73,7 @@ func (d *document) undo() bool {
 		return false
 	}
 	c.undo(d.t)
-	d.edited(c.kind())
+	d.notify(c)
 	return true
 }
 
@@ -69,7 +83,7 @@ func (d *document) redo() bool {
 		return false
 	}
 	c.do(d.t)
-	d.edited(c.kind())
+	d.notify(c)
 	return true
 }
 

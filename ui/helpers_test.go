@@ -17,7 +17,7 @@ import (
 // newTestApp builds the window on a headless test app with in-memory
 // preferences. Autosaves wait an hour unless the test sets delay, so that
 // they only happen when a test asks (saver.sync), never while it edits.
-func newTestApp(t *testing.T, delay time.Duration) (*App, fyne.Window) {
+func newTestApp(t testing.TB, delay time.Duration) (*App, fyne.Window) {
 	t.Helper()
 	a := test.NewTempApp(t)
 	w := test.NewTempWindow(t, widget.NewLabel(""))

@@ -64,6 +64,7 @@ func (c *setValue) do(t *trial.Trial)   { t.Traits[c.trait].Values[c.plot] = c.n
 func (c *setValue) undo(t *trial.Trial) { t.Traits[c.trait].Values[c.plot] = c.old }
 func (c *setValue) kind() change        { return changeValues }
 func (c *setValue) label() string       { return "value entry" }
+func (c *setValue) plotRow() int        { return c.plot }
 
 // setExclusions replaces a plot's exclusions and note.
 type setExclusions struct {
@@ -83,6 +84,7 @@ func (c *setExclusions) undo(t *trial.Trial) {
 }
 
 func (c *setExclusions) kind() change { return changeValues }
+func (c *setExclusions) plotRow() int { return c.plot }
 func (c *setExclusions) label() string {
 	return "exclusion change"
 }

@@ -2,12 +2,17 @@ package ui
 
 import (
 	"fmt"
+	"path/filepath"
 	"testing"
 	"time"
+
+	"fyne.io/fyne/v2"
+	"fyne.io/fyne/v2/test"
 
 	"furlong/sampledata"
 	"furlong/trial"
 	"furlong/trial/analysis"
+	"furlong/trial/trialfile"
 )
 
 // bigTrial is an invented RCBD of n plots (n/4 entries in 4 blocks) with
@@ -91,4 +96,99 @@ func BenchmarkChartsDemo(b *testing.B) {
 	}
 }
 
-var _ = time.Now
+
+// openAndShowRecord opens the trial file at path and lays out the Record
+// grid in a 1366×768 window.
+func openAndShowRecord(tb testing.TB, u *App, path string) {
+	tb.Helper()
+	if err := u.OpenFile(path); err != nil {
+		tb.Fatal(err)
+	}
+	u.showStep(stepRecord)
+	u.win.Resize(fyne.NewSize(1366, 768))
+	r := u.steps[stepRecord].(*recordStep)
+	test.WidgetRenderer(r.table).Layout(fyne.NewSize(1100, 600))
+}
+
+func savedBigTrial(tb testing.TB, n int) string {
+	tb.Helper()
+	path := filepath.Join(tb.TempDir(), fmt.Sprintf("big%d.furlong", n))
+	if err := trialfile.Save(path, bigTrial(tb, n)); err != nil {
+		tb.Fatal(err)
+	}
+	return path
+}
+
+func benchOpen(b *testing.B, n int) {
+	path := savedBigTrial(b, n)
+	u, _ := newTestApp(b, 0)
+	for b.Loop() {
+		openAndShowRecord(b, u, path)
+	}
+}
+
+func BenchmarkOpenRecord1200(b *testing.B)  { benchOpen(b, 1200) }
+func BenchmarkOpenRecord24000(b *testing.B) { benchOpen(b, 24000) }
+
+// editToCompare types one value in Record and waits until Compare shows
+// the new analysis of that trait.
+func editToCompare(tb testing.TB, u *App, v float64) time.Duration {
+	tb.Helper()
+	done := make(chan struct{})
+	start := time.Now()
+	var seen time.Duration
+	u.compute.delivered = func(s *resultSet) {
+		if s.gen != u.compute.gen {
+			return
+		}
+		if seen == 0 && s.result("yield") != nil {
+			seen = time.Since(start)
+		}
+		// Wait for the round to end, so that no goroutine of it is left
+		// when the next edit starts another.
+		if s.complete {
+			u.compute.delivered = nil
+			close(done)
+		}
+	}
+	u.doc.apply(&setValue{trait: 0, plot: 5, old: u.doc.t.Traits[0].Values[5], new: v})
+	<-done
+	return seen
+}
+
+// TestSpeed measures the brief's speed targets with generous bounds (the
+// test machine is shared): open a 1,200-plot trial and show the grid
+// (target 1 s), the same for 24,000 plots (3 s), and a value edit seen in
+// Compare for 1,200 plots (200 ms).
+func TestSpeed(t *testing.T) {
+	if testing.Short() {
+		t.Skip("timing test")
+	}
+	for _, c := range []struct {
+		n     int
+		bound time.Duration
+	}{{1200, 3 * time.Second}, {24000, 9 * time.Second}} {
+		path := savedBigTrial(t, c.n)
+		u, _ := newTestApp(t, 0)
+		start := time.Now()
+		openAndShowRecord(t, u, path)
+		took := time.Since(start)
+		t.Logf("open %d plots and show the grid: %v", c.n, took)
+		if took > c.bound {
+			t.Errorf("opening %d plots took %v (bound %v)", c.n, took, c.bound)
+		}
+	}
+	u, _ := newTestApp(t, 0)
+	u.OpenTrial(bigTrial(t, 1200), "")
+	u.compute.delivered = nil
+	waitAnalysis(t, u, func() { u.showStep(stepCompare) })
+	var worst time.Duration
+	for i := range 3 {
+		d := editToCompare(t, u, 6+float64(i)/10)
+		worst = max(worst, d)
+		t.Logf("edit to Compare refresh (1,200 plots): %v", d)
+	}
+	if worst > time.Second {
+		t.Errorf("edit to Compare refresh took %v (bound 1 s)", worst)
+	}
+}

@@ -95,19 +95,35 @@ func (r *recordStep) setWidths() {
 	t := r.trial()
 	r.table.SetColumnWidth(colPlot, 70)
 	r.table.SetColumnWidth(colBlock, 60)
-	r.table.SetColumnWidth(colTreatment, 210)
+	r.table.SetColumnWidth(colTreatment, r.colWidth(colTreatment))
 	pad := 4 * theme.Padding()
 	for j := range t.Traits {
 		head := traitLabel(&t.Traits[j]) + " ="
 		w := fyne.MeasureText(head, theme.TextSize(), fyne.TextStyle{Bold: true}).Width + pad
 		r.table.SetColumnWidth(fixedCols+j, min(max(w, 90), 240))
 	}
-	r.table.SetColumnWidth(fixedCols+len(t.Traits), 260)
+	r.table.SetColumnWidth(fixedCols+len(t.Traits), r.colWidth(fixedCols+len(t.Traits)))
 }
 
 // refresh recomputes derived traits and redraws the grid.
 func (r *recordStep) refresh(c change) {
 	t := r.trial()
+	if row := r.u.doc.row; c == changeValues && row >= 0 && row < len(t.Plots) {
+		// One plot changed: recompute its derived values, redraw its row.
+		for j := range r.derived {
+			if v, err := t.TraitValues(t.Traits[j].Key); err == nil {
+				r.derived[j] = v
+			}
+		}
+		_, cols := r.length()
+		for col := range cols {
+			r.table.RefreshItem(widget.TableCellID{Row: row, Col: col})
+		}
+		if r.hasSel {
+			r.loadEntry()
+		}
+		return
+	}
 	if c&(changeValues|changeStructure) != 0 {
 		clear(r.derived)
 		for j := range t.Traits {
@@ -182,23 +198,19 @@ func blockWord(t *trial.Trial) string {
 	return "Block"
 }
 
-// gridCell is a table cell: a background (flag, exclusion) under a label.
-type gridCell struct {
-	bg    *canvas.Rectangle
-	label *widget.Label
-}
-
+// newGridCell is a table cell: a background (flag, exclusion) under a
+// text. canvas.Text is used rather than a label: the grid redraws many
+// cells on every entry and a label's text shaping costs far more.
 func newGridCell() fyne.CanvasObject {
 	bg := canvas.NewRectangle(nil)
-	l := widget.NewLabel("")
-	l.Truncation = fyne.TextTruncateEllipsis
-	return container.NewStack(bg, l)
+	txt := canvas.NewText("", theme.Color(theme.ColorNameForeground))
+	return container.NewStack(bg, container.NewPadded(txt))
 }
 
 func (r *recordStep) updateCell(id widget.TableCellID, o fyne.CanvasObject) {
 	c := o.(*fyne.Container)
 	bg := c.Objects[0].(*canvas.Rectangle)
-	l := c.Objects[1].(*widget.Label)
+	l := c.Objects[1].(*fyne.Container).Objects[0].(*canvas.Text)
 	t := r.trial()
 	if id.Row >= len(t.Plots) {
 		return
@@ -246,9 +258,39 @@ func (r *recordStep) updateCell(id widget.TableCellID, o fyne.CanvasObject) {
 		bg.FillColor = theme.Color(fill)
 	}
 	bg.Refresh()
+	if id.Col == colTreatment || id.Col >= fixedCols+len(t.Traits) {
+		text = fitText(text, r.colWidth(id.Col), theme.TextSize())
+	}
 	l.Alignment = align
 	l.TextStyle = fyne.TextStyle{Italic: italic}
-	l.SetText(text)
+	l.Color = theme.Color(theme.ColorNameForeground)
+	l.Text = text
+	l.Refresh()
+}
+
+// colWidth is the width given to a column.
+func (r *recordStep) colWidth(col int) float32 {
+	switch col {
+	case colTreatment:
+		return 210
+	}
+	return 260
+}
+
+// fitText shortens s with an ellipsis to fit width at text size ts.
+func fitText(s string, width, ts float32) string {
+	width -= 2 * theme.Padding()
+	if fyne.MeasureText(s, ts, fyne.TextStyle{}).Width <= width {
+		return s
+	}
+	rs := []rune(s)
+	for n := len(rs) - 1; n > 0; n-- {
+		t := string(rs[:n]) + "…"
+		if fyne.MeasureText(t, ts, fyne.TextStyle{}).Width <= width {
+			return t
+		}
+	}
+	return "…"
 }
 
 // exclusionText lists a plot's exclusions and note.

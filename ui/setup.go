@@ -431,25 +431,28 @@ func (s *setupStep) designTab() fyne.CanvasObject {
 		}
 		return nil
 	}
-	apply := widget.NewButtonWithIcon("Apply design", theme.ConfirmIcon(), func() {
-		i := slices.Index(designLabels, s.designSel.Selected)
-		if i < 0 {
-			return
-		}
-		n, err := strconv.Atoi(strings.TrimSpace(s.reps.Text))
-		if err != nil {
-			dialog.ShowInformation("Replicates", "Type the number of replicates as a whole number, for example 4.", s.u.win)
-			return
-		}
-		d := trial.Design{Kind: designKinds[i], Reps: n}
-		if d.Kind == trial.Latin {
-			d.Reps = len(s.t().Treatments)
-		}
-		s.structural("The design could not be changed", func(t *trial.Trial) error { return t.SetDesign(d) })
-	})
+	apply := widget.NewButtonWithIcon("Apply design", theme.ConfirmIcon(), s.applyDesign)
 	apply.Importance = widget.HighImportance
 	form := widget.NewForm(widget.NewFormItem("Design", s.designSel), widget.NewFormItem("Replicates", s.reps))
 	return container.NewVScroll(container.NewPadded(container.NewVBox(form, s.designMsg, container.NewHBox(apply))))
+}
+
+// applyDesign sets the design chosen in the Design tab.
+func (s *setupStep) applyDesign() {
+	i := slices.Index(designLabels, s.designSel.Selected)
+	if i < 0 {
+		return
+	}
+	n, err := strconv.Atoi(strings.TrimSpace(s.reps.Text))
+	if err != nil {
+		dialog.ShowInformation("Replicates", "Type the number of replicates as a whole number, for example 4.", s.u.win)
+		return
+	}
+	d := trial.Design{Kind: designKinds[i], Reps: n}
+	if d.Kind == trial.Latin {
+		d.Reps = len(s.t().Treatments)
+	}
+	s.structural("The design could not be changed", func(t *trial.Trial) error { return t.SetDesign(d) })
 }
 
 func (s *setupStep) loadDesign() {

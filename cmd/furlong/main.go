@@ -12,6 +12,7 @@ import (
 	"syscall"
 
 	"furlong/cmd/furlong/cli"
+	_ "furlong/cmd/furlong/internal/locale" // before fyne reads the locale
 )
 
 // version is set at build time with -ldflags "-X main.version=...".

@@ -19,7 +19,8 @@ import (
 const (
 	chartWidthPt  = 453.5
 	chartHeightPt = 283.5
-	chartPerMean  = 14 // points of width per treatment beyond 30
+	chartPerMean  = 14   // points of width per treatment beyond 30
+	chartMaxWidth = 2400 // about 85 cm: wider charts help no reader
 )
 
 // meansChartPNG draws the means of a with ± 1 SE error bars and the letters of
@@ -31,7 +32,7 @@ func meansChartPNG(t *trial.Trial, a *analysis.Result, opts ReportOptions) ([]by
 	}
 	w := chartWidthPt
 	if n := len(a.Means); n > 30 {
-		w += float64(n-30) * chartPerMean
+		w = min(w+float64(n-30)*chartPerMean, chartMaxWidth)
 	}
 	var buf bytes.Buffer
 	if err := chart.Save(p, &buf, "png", vg.Length(w), vg.Length(chartHeightPt)); err != nil {

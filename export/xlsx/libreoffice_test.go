@@ -12,6 +12,7 @@ import (
 	"time"
 
 	"furlong/trial/analysis"
+	"furlong/trial/fieldbook"
 )
 
 // soffice converts in to the format given in dir, with a private profile so
@@ -80,8 +81,10 @@ func TestLibreOffice(t *testing.T) {
 	if err := os.WriteFile(in, buf.Bytes(), 0o644); err != nil {
 		t.Fatal(err)
 	}
-	// Raw values first (token 9 false: cell contents as stored): LibreOffice
-	// reads back every number exactly.
+	// Raw values first (token 9 false: cell contents as stored). LibreOffice
+	// writes numbers to at most 15 significant digits (from memory; seen
+	// here), so the comparison is to 15 digits; the full float64 precision of
+	// the stored cells is checked by reading them back with excelize.
 	soffice(t, dir, in, "csv:Text - txt - csv (StarCalc):44,34,76,1,,0,false,true,false,false,false,-1")
 	yield := res[0].Result
 	raw := readCSV(t, filepath.Join(dir, "report-Summary.csv"))
@@ -91,7 +94,7 @@ func TestLibreOffice(t *testing.T) {
 	}
 	for i, m := range yield.Means {
 		r := raw[head+1+i]
-		if got, err := strconv.ParseFloat(r[3], 64); err != nil || got != m.BackMean {
+		if !sameTo15(r[3], strconv.FormatFloat(m.BackMean, 'g', -1, 64)) {
 			t.Errorf("%s mean read by LibreOffice %q, want %v", m.Treatment, r[3], m.BackMean)
 		}
 	}
@@ -164,4 +167,55 @@ func csvRow(recs [][]string, first string) int {
 		}
 	}
 	return -1
+}
+
+// TestLibreOfficeFieldBook opens the field book in LibreOffice Calc: the
+// header and values it reads back match the CSV field book's table
+// (fieldbook.Rows) apart from the longer trait headers.
+func TestLibreOfficeFieldBook(t *testing.T) {
+	if testing.Short() {
+		t.Skip("LibreOffice conversion is slow; skipped with -short")
+	}
+	tr := fieldBookTrial(t)
+	dir := t.TempDir()
+	var buf bytes.Buffer
+	if err := WriteFieldBook(&buf, tr, FieldBookOptions{}); err != nil {
+		t.Fatal(err)
+	}
+	in := filepath.Join(dir, "book.xlsx")
+	if err := os.WriteFile(in, buf.Bytes(), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	soffice(t, dir, in, "csv:Text - txt - csv (StarCalc):44,34,76,1,,0,false,true,false,false,false,-1")
+	got := readCSV(t, filepath.Join(dir, "book-Field book.csv"))
+	want := fieldbook.Rows(tr)
+	if len(got) != len(want) {
+		t.Fatalf("%d rows, want %d", len(got), len(want))
+	}
+	for i := range want {
+		for j := range want[i] {
+			g := ""
+			if j < len(got[i]) {
+				g = got[i][j]
+			}
+			if i == 0 && strings.HasPrefix(g, want[i][j]) || g == want[i][j] || sameTo15(g, want[i][j]) {
+				continue
+			}
+			t.Errorf("row %d column %d: LibreOffice reads %q, the CSV field book has %q", i, j, g, want[i][j])
+		}
+	}
+	soffice(t, dir, in, "pdf")
+	if keep := os.Getenv("FURLONG_KEEP_DIR"); keep != "" {
+		b, _ := os.ReadFile(filepath.Join(dir, "book.pdf"))
+		os.WriteFile(filepath.Join(keep, "book.pdf"), b, 0o644)
+	}
+}
+
+// sameTo15 reports whether two numbers written as text agree to 15
+// significant digits.
+func sameTo15(a, b string) bool {
+	x, err1 := strconv.ParseFloat(a, 64)
+	y, err2 := strconv.ParseFloat(b, 64)
+	return err1 == nil && err2 == nil &&
+		strconv.FormatFloat(x, 'g', 15, 64) == strconv.FormatFloat(y, 'g', 15, 64)
 }

@@ -1,6 +1,7 @@
 package xlsx
 
 import (
+	"bytes"
 	"context"
 	"errors"
 	"math"
@@ -12,6 +13,7 @@ import (
 	"github.com/xuri/excelize/v2"
 
 	"furlong/export"
+	"furlong/stats"
 	"furlong/trial"
 	"furlong/trial/analysis"
 )
@@ -461,5 +463,54 @@ func TestReportProgressCancel(t *testing.T) {
 	}
 	if b.Len() != 0 {
 		t.Error("cancelled report wrote output")
+	}
+}
+
+func TestReportCharts(t *testing.T) {
+	t.Parallel()
+	tr, _ := barleyTrial(t)
+	f, _ := writeReport(t, tr, barleyResults(t, tr), ReportOptions{Charts: true, Method: analysis.Tukey})
+	for _, sh := range []string{"Yield", "收获"} {
+		c := cell(chartCol, findRow(t, f, sh, 1, "Treatment"))
+		pics, err := f.GetPictures(sh, c)
+		if err != nil {
+			t.Fatal(err)
+		}
+		// A PNG file starts with the signature 89 50 4E 47 0D 0A 1A 0A (PNG
+		// specification, ISO/IEC 15948, section 5.2).
+		if len(pics) != 1 || !bytes.HasPrefix(pics[0].File, []byte("\x89PNG\r\n\x1a\n")) {
+			t.Errorf("%s: %d pictures at %s", sh, len(pics), c)
+		}
+	}
+	cells, err := f.GetPictureCells("Lodging")
+	if err != nil || len(cells) != 0 {
+		t.Errorf("all-missing trait has pictures %v (%v)", cells, err)
+	}
+}
+
+func TestReportTransformed(t *testing.T) {
+	t.Parallel()
+	tr, _ := barleyTrial(t)
+	r, err := analysis.Analyze(tr, "yield", analysis.Options{Transform: stats.Log})
+	if err != nil {
+		t.Fatal(err)
+	}
+	f, _ := writeReport(t, tr, []analysis.Outcome{{Key: "yield", Result: r}}, ReportOptions{Traits: []string{"yield"}})
+	mh := findRow(t, f, "Yield", 1, "Treatment")
+	if got := textAt(t, f, "Yield", cell(8, mh)); got != "Back-transformed mean" {
+		t.Fatalf("column H header %q", got)
+	}
+	head := findRow(t, f, SummarySheet, 1, "Treatment")
+	for i, m := range r.Means {
+		if got := numberAt(t, f, "Yield", cell(4, mh+1+i)); got != m.Mean {
+			t.Errorf("%s LS mean (log scale) %v, want %v", m.Treatment, got, m.Mean)
+		}
+		if got := numberAt(t, f, "Yield", cell(8, mh+1+i)); got != m.BackMean {
+			t.Errorf("%s back-transformed %v, want %v", m.Treatment, got, m.BackMean)
+		}
+		// The summary leads with the original scale.
+		if got := numberAt(t, f, SummarySheet, cell(4, head+1+i)); got != m.BackMean {
+			t.Errorf("%s summary mean %v, want %v", m.Treatment, got, m.BackMean)
+		}
 	}
 }

@@ -44,7 +44,8 @@ func rangeDensityFunc(ct *chebTable) func(float64) float64 {
 // P(Q > q_hi) are below 1e-13, the table returns 1 below q_lo and a
 // monotone extrapolation bounded by P(Q > q_hi) above q_hi. The tests check
 // the table against StudentizedRange.Survival at random points: the
-// observed absolute error is below 1e-11, inside the 1e-9 design bound.
+// largest absolute error observed over k in {2, 3, 10, 300, 1000} and ν in
+// {1, 2, 5, 20, 880, ∞} is 1.4e-10, inside the 1e-9 design bound.
 //
 // Survival costs one logarithm, one table look-up and a 24-term Clenshaw
 // sum, whatever K and Nu.

@@ -111,7 +111,6 @@ func Compare(means []float64, se PairSEer, df int, alpha float64) (*Result, erro
 		Means: append([]float64(nil), means...),
 		Pairs: make([]Pair, 0, k*(k-1)/2),
 		TCrit: tdist.Quantile(1 - alpha/2),
-		QCrit: rangeQuantile(k, df, 1-alpha),
 	}
 	r.EqualSE = true
 	var se0, tmax float64
@@ -140,11 +139,12 @@ func Compare(means []float64, se PairSEer, df int, alpha float64) (*Result, erro
 		}
 	}
 	ttail := newTTail(nu, len(r.Pairs), tmax)
-	tukey := rangeSurvival(k, df, len(r.Pairs), tmax*math.Sqrt2)
+	srange := studentizedRange(k, df, len(r.Pairs))
+	r.QCrit = srange.quantile(1 - alpha)
 	for n := range r.Pairs {
 		p := &r.Pairs[n]
 		p.PLSD = ttail.p(p.T)
-		p.PTukey = tukey(math.Abs(p.T) * math.Sqrt2)
+		p.PTukey = srange.survival(math.Abs(p.T) * math.Sqrt2)
 	}
 	if r.EqualSE {
 		r.SED = se0

@@ -191,6 +191,8 @@ func TestLettersFixtures(t *testing.T) {
 		}
 		cols, _ := letterColumns(r.Means, r.Significant(LSD), LetterOptions{})
 		checkDisplay(t, r.K, func(i, j int) bool { return l.fx.Pairs[l.index[[2]int{i, j}]].PLSD < 0.05 }, cols)
+		cols, _ = letterColumns(r.Means, r.Significant(Tukey), LetterOptions{})
+		checkDisplay(t, r.K, func(i, j int) bool { return l.fx.Pairs[l.index[[2]int{i, j}]].PTukeyExact < 0.05 }, cols)
 	}
 }
 

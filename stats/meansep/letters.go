@@ -3,6 +3,7 @@ package meansep
 import (
 	"errors"
 	"math"
+	"math/bits"
 	"slices"
 	"strings"
 )
@@ -109,7 +110,7 @@ func letterColumns(means []float64, sig func(i, j int) bool, opt LetterOptions) 
 			}
 		}
 	}
-	cols, err := insertAbsorb(k, sigSet)
+	cols, err := insertAbsorb(k, sigSet, MaxLetterColumns)
 	if err != nil {
 		return nil, err
 	}
@@ -133,6 +134,8 @@ type absorber struct {
 	colsOf []bitset // treatment → set of column ids
 	count  []int    // treatment → number of columns
 	live   int
+
+	scratch bitset
 }
 
 func (a *absorber) add(b bitset) {
@@ -169,24 +172,57 @@ func (a *absorber) remove(id int) bitset {
 	return b
 }
 
-// absorbed reports whether b is contained in a current column.
+// absorbed reports whether b is contained in a current column. It either
+// tests b against each column of its rarest member, or intersects the
+// column sets of all its members, whichever takes fewer word operations.
 func (a *absorber) absorbed(b bitset) bool {
-	rare, best := -1, math.MaxInt
-	b.each(func(t int) {
-		if a.count[t] < best {
-			rare, best = t, a.count[t]
+	rare, best, size := -1, math.MaxInt, 0
+	for wi, w := range b {
+		for w != 0 {
+			t := wi<<6 | bits.TrailingZeros64(w)
+			w &= w - 1
+			size++
+			if c := a.count[t]; c < best {
+				rare, best = t, c
+			}
 		}
-	})
+	}
 	if rare < 0 || best == 0 {
 		return false
 	}
-	found := false
-	a.colsOf[rare].each(func(id int) {
-		if !found && b.subsetOf(a.cols[id]) {
-			found = true
+	cw := len(a.colsOf[rare])
+	if best*len(b) <= size*cw {
+		for wi, w := range a.colsOf[rare] {
+			for w != 0 {
+				id := wi<<6 | bits.TrailingZeros64(w)
+				w &= w - 1
+				if b.subsetOf(a.cols[id]) {
+					return true
+				}
+			}
 		}
-	})
-	return found
+		return false
+	}
+	if cap(a.scratch) < cw {
+		a.scratch = make(bitset, cw)
+	}
+	x := a.scratch[:cw]
+	copy(x, a.colsOf[rare])
+	for wi, w := range b {
+		for w != 0 {
+			t := wi<<6 | bits.TrailingZeros64(w)
+			w &= w - 1
+			var any uint64
+			for i, v := range a.colsOf[t] {
+				x[i] &= v
+				any |= x[i]
+			}
+			if any == 0 {
+				return false
+			}
+		}
+	}
+	return true
 }
 
 // insertAbsorb is the insert-and-absorb step of Piepho (2004). It starts
@@ -197,8 +233,9 @@ func (a *absorber) absorbed(b bitset) bool {
 // together — the columns holding t and some partner s of t are each split
 // into K∖{t} and K∖S(t), S(t) the partners of t — which gives the same
 // columns as inserting the pairs one by one. The columns are then the
-// maximal sets of treatments without a significant pair among them.
-func insertAbsorb(k int, sigSet []bitset) ([]bitset, error) {
+// maximal sets of treatments without a significant pair among them. More
+// than limit columns at any time return ErrTooManyLetters.
+func insertAbsorb(k int, sigSet []bitset, limit int) ([]bitset, error) {
 	a := &absorber{k: k, colsOf: make([]bitset, k), count: make([]int, k)}
 	for t := range a.colsOf {
 		a.colsOf[t] = make(bitset, 1)
@@ -249,7 +286,7 @@ func insertAbsorb(k int, sigSet []bitset) ([]bitset, error) {
 		for _, c := range cand {
 			if c.n > 0 && !a.absorbed(c.b) {
 				a.add(c.b)
-				if a.live > MaxLetterColumns {
+				if a.live > limit {
 					return nil, ErrTooManyLetters
 				}
 			}
@@ -280,7 +317,7 @@ func sweep(k int, cols []bitset) []bitset {
 	}
 	// shared[i*k+j]: number of columns holding both i and j (i == j: the
 	// number of columns holding i).
-	shared := make([]int32, k*k)
+	shared := make([]uint16, k*k) // counts ≤ MaxLetterColumns < 65536
 	for _, m := range members {
 		for _, i := range m {
 			row := shared[int(i)*k : int(i)*k+k]

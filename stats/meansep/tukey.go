@@ -1,24 +1,56 @@
 package meansep
 
-import "furlong/stats/dist"
+import (
+	"math"
 
-// tableMinPairs is the number of pairs from which the Tukey p-values are
+	"furlong/stats/dist"
+)
+
+// tableMinPairs is the number of pairs from which the studentised range is
 // read from a precomputed dist.SurvivalTable (absolute error below 1e-9,
-// about 1e-11 observed) instead of being integrated one by one (relative
-// error about 1e-11, also for very small p-values).
+// about 1e-11 observed) instead of being integrated for each pair.
 const tableMinPairs = 200
 
-// rangeQuantile is the p quantile of the studentised range for k means and
-// df degrees of freedom.
-func rangeQuantile(k, df int, p float64) float64 {
-	return dist.StudentizedRange{K: float64(k), Nu: float64(df)}.Quantile(p)
+// rangeDist is the studentised range for k means and df degrees of
+// freedom, as used by Compare.
+type rangeDist struct {
+	survival func(q float64) float64 // P(Q > q)
+	quantile func(p float64) float64 // q with P(Q ≤ q) = p
 }
 
-// rangeSurvival returns P(Q > q) for the studentised range with k means and
-// df degrees of freedom, to be evaluated for n values of q ≤ qmax.
-func rangeSurvival(k, df, n int, qmax float64) func(q float64) float64 {
-	if n >= tableMinPairs {
-		return dist.NewSurvivalTable(float64(k), float64(df)).Survival
+// studentizedRange returns the distribution for n evaluations. With many
+// evaluations both functions use the survival table: the quantile is found
+// by bisection on it (relative error about 1e-10 in q, from the table's
+// error divided by the density).
+func studentizedRange(k, df, n int) rangeDist {
+	if n < tableMinPairs {
+		d := dist.StudentizedRange{K: float64(k), Nu: float64(df)}
+		return rangeDist{survival: d.Survival, quantile: d.Quantile}
 	}
-	return dist.StudentizedRange{K: float64(k), Nu: float64(df)}.Survival
+	t := dist.NewSurvivalTable(float64(k), float64(df))
+	return rangeDist{survival: t.Survival, quantile: func(p float64) float64 { return invertSurvival(t.Survival, 1-p) }}
+}
+
+// invertSurvival returns q with s(q) = a for a decreasing survival
+// function s, by bisection.
+func invertSurvival(s func(float64) float64, a float64) float64 {
+	lo, hi := 0.0, 1.0
+	for s(hi) > a {
+		lo, hi = hi, 2*hi
+		if math.IsInf(hi, 0) {
+			return hi
+		}
+	}
+	for range 200 {
+		mid := (lo + hi) / 2
+		if mid <= lo || mid >= hi || hi-lo <= 1e-15*hi {
+			break
+		}
+		if s(mid) > a {
+			lo = mid
+		} else {
+			hi = mid
+		}
+	}
+	return (lo + hi) / 2
 }

@@ -208,7 +208,7 @@ func (r *renderer) Objects() []fyne.CanvasObject { return r.objects }
 // Refresh rebuilds the objects when the plots changed and restyles them.
 func (r *renderer) Refresh() {
 	m := r.m
-	if len(r.cells) != len(m.plots) || len(r.blocks) != numBlocks(m.plots) {
+	if r.mark == nil || len(r.cells) != len(m.plots) || len(r.blocks) != numBlocks(m.plots) {
 		r.build()
 	}
 	labelled := len(m.plots) <= maxLabelled

@@ -195,6 +195,12 @@ func writeFileNew(path string, data []byte, force bool) error {
 	if err != nil {
 		return err
 	}
+	// CreateTemp makes the file private; an export is an ordinary document.
+	if err := tmp.Chmod(0o644); err != nil {
+		tmp.Close()
+		os.Remove(tmp.Name())
+		return err
+	}
 	if _, err := tmp.Write(data); err != nil {
 		tmp.Close()
 		os.Remove(tmp.Name())
