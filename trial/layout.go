@@ -2,8 +2,9 @@ package trial
 
 // DefaultLayout returns the layout Furlong proposes for a new trial: plots
 // 10 m long and 1.5 m wide, of which 8 m × 1.5 m is harvested, 1 m alleys,
-// every block in one field row, blocks side by side, plots numbered by
-// block and walked in a serpentine.
+// every block in one field row (range) with the blocks stacked one behind
+// the other, the usual small-plot arrangement (common practice), plots
+// numbered by block and walked in a serpentine.
 func DefaultLayout() Layout {
 	return Layout{
 		PlotLength:    10,
@@ -12,7 +13,7 @@ func DefaultLayout() Layout {
 		HarvestWidth:  1.5,
 		Alley:         1,
 		PlotsPerRow:   0,
-		Blocks:        BlocksSideBySide,
+		Blocks:        BlocksStacked,
 		Numbering:     NumberByBlock,
 		Walk:          WalkSerpentine,
 	}

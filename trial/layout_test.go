@@ -77,6 +77,7 @@ func TestLayOutSideBySideSequential(t *testing.T) {
 	//	       block 1 block 2 block 3
 	l := DefaultLayout()
 	l.PlotsPerRow = 2
+	l.Blocks = BlocksSideBySide
 	l.Numbering = NumberSequential
 	got, err := LayOut(lettered(4), Design{Kind: RCBD, Reps: 3}, l)
 	if err != nil {
@@ -120,15 +121,15 @@ func TestLayOutOneRowPerBlock(t *testing.T) {
 		{301, 3, 3, 1, "A"}, {302, 3, 3, 2, "B"}, {303, 3, 3, 3, "C"},
 	})
 
-	// Default: side by side in one field row.
+	// Default: each block in one field row, blocks stacked, serpentine.
 	got, err = LayOut(ts, d, DefaultLayout())
 	if err != nil {
 		t.Fatal(err)
 	}
 	checkPlots(t, got, []wantPlot{
 		{101, 1, 1, 1, "A"}, {102, 1, 1, 2, "B"}, {103, 1, 1, 3, "C"},
-		{201, 2, 1, 4, "A"}, {202, 2, 1, 5, "B"}, {203, 2, 1, 6, "C"},
-		{301, 3, 1, 7, "A"}, {302, 3, 1, 8, "B"}, {303, 3, 1, 9, "C"},
+		{201, 2, 2, 3, "A"}, {202, 2, 2, 2, "B"}, {203, 2, 2, 1, "C"},
+		{301, 3, 3, 1, "A"}, {302, 3, 3, 2, "B"}, {303, 3, 3, 3, "C"},
 	})
 
 	// Empty arrangement settings take the defaults.
@@ -139,8 +140,8 @@ func TestLayOutOneRowPerBlock(t *testing.T) {
 	}
 	checkPlots(t, got2, []wantPlot{
 		{101, 1, 1, 1, "A"}, {102, 1, 1, 2, "B"}, {103, 1, 1, 3, "C"},
-		{201, 2, 1, 4, "A"}, {202, 2, 1, 5, "B"}, {203, 2, 1, 6, "C"},
-		{301, 3, 1, 7, "A"}, {302, 3, 1, 8, "B"}, {303, 3, 1, 9, "C"},
+		{201, 2, 2, 3, "A"}, {202, 2, 2, 2, "B"}, {203, 2, 2, 1, "C"},
+		{301, 3, 3, 1, "A"}, {302, 3, 3, 2, "B"}, {303, 3, 3, 3, "C"},
 	})
 }
 

@@ -3,6 +3,7 @@ package ui
 import (
 	"context"
 	"image"
+	"sync"
 	"time"
 
 	"fyne.io/fyne/v2"
@@ -65,6 +66,8 @@ type analyser struct {
 	onResults []func(*resultSet)
 	// delivered, when set, is called after each delivery (tests).
 	delivered func(*resultSet)
+
+	rounds sync.WaitGroup // running rounds
 }
 
 func newAnalyser(u *App) *analyser { return &analyser{u: u, stale: true} }
@@ -101,6 +104,15 @@ func (a *analyser) cancel() {
 	a.stale = true
 	a.active = false
 	a.onResults = nil
+}
+
+// shutdown cancels the running round and waits until its goroutine ended.
+func (a *analyser) shutdown() {
+	if a.stop != nil {
+		a.stop()
+	}
+	a.rounds.Wait()
+	a.cancel()
 }
 
 // analysisOptions are the options of the analyses, from the Compare step's
@@ -143,7 +155,9 @@ func (a *analyser) run() {
 	if snap.Trait(focus) == nil && len(snap.Traits) > 0 {
 		focus = snap.Traits[0].Key
 	}
+	a.rounds.Add(1)
 	go func() {
+		defer a.rounds.Done()
 		start := time.Now()
 		set := &resultSet{gen: gen, snap: snap, alpha: opts.Alpha, focus: focus}
 		// The trait on screen first, with its charts, so that Compare

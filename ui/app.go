@@ -161,10 +161,12 @@ func (u *App) closeDocument() {
 }
 
 // OpenFile opens the trial file at path. When a recovery copy newer than
-// the file exists, the user is offered to restore it.
+// the file exists, the user is offered to restore it. A file that cannot
+// be read is explained in a dialog, and the error returned.
 func (u *App) OpenFile(path string) error {
 	t, err := loadFile(path)
 	if err != nil {
+		showError(u.win, "Could not open the trial", "The trial file "+filepath.Base(path)+" could not be opened", err)
 		return err
 	}
 	u.OpenTrial(t, path)
@@ -172,12 +174,8 @@ func (u *App) OpenFile(path string) error {
 	return nil
 }
 
-// openPath opens a file and shows any error as a dialog.
-func (u *App) openPath(path string) {
-	if err := u.OpenFile(path); err != nil {
-		showError(u.win, "Could not open the trial", "The trial file "+filepath.Base(path)+" could not be opened", err)
-	}
-}
+// openPath opens a file; OpenFile shows any error.
+func (u *App) openPath(path string) { _ = u.OpenFile(path) }
 
 // offerRecovery asks whether to restore a recovery copy of path that is
 // newer than the file itself.
@@ -217,9 +215,11 @@ func (u *App) offerRecovery(path string) {
 }
 
 // OpenDemo opens the built-in demo trial as a new, unsaved trial.
+// A failure is explained in a dialog, and the error returned.
 func (u *App) OpenDemo() error {
 	t, err := demoTrial()
 	if err != nil {
+		showError(u.win, "Could not open the demo", "The demo trial could not be opened", err)
 		return err
 	}
 	u.OpenTrial(t, "")

@@ -10,7 +10,7 @@ import (
 
 // Size of the chart images drawn for the screen; the canvas.Image scales
 // them to fit (FillMode contain).
-const chartW, chartH = 900, 560
+const chartW, chartH = 760, 500
 
 // drawCharts draws the screen charts of one analysed trait. It runs on the
 // analyser's goroutine and touches only the snapshot.
@@ -26,6 +26,14 @@ func drawCharts(t *trial.Trial, tr traitResult, m analysis.Method) []chartImage 
 		{"Means", func() (*plot.Plot, error) {
 			return chart.Means(t, tr.res, chart.MeansOptions{Letters: m, Order: chart.ByMean})
 		}},
+		{"Field heat map", func() (*plot.Plot, error) {
+			return chart.HeatMap(t, tr.key, chart.HeatMapOptions{PlotNumbers: true})
+		}},
+		{"Spread", func() (*plot.Plot, error) {
+			return chart.Spread(t, tr.key, chart.SpreadOptions{Order: chart.ByMean, ShowExcluded: true, Seed: 1})
+		}},
+		{"Residuals", func() (*plot.Plot, error) { return chart.Residuals(t, tr.res) }},
+		{"Normal Q-Q", func() (*plot.Plot, error) { return chart.QQ(t, tr.res) }},
 	}
 	out := make([]chartImage, 0, len(makers))
 	for _, mk := range makers {

@@ -84,8 +84,8 @@ func newCompareStep(u *App) *compareStep {
 	c.state = widget.NewLabel("")
 	c.state.Importance = widget.LowImportance
 
-	c.anova = container.NewGridWithColumns(6)
-	c.statsBox = container.NewGridWithColumns(2)
+	c.anova = container.New(columnsLayout{cols: 6})
+	c.statsBox = container.New(columnsLayout{cols: 2})
 	c.warnings = widget.NewLabel("")
 	c.warnings.Wrapping = fyne.TextWrapWord
 	c.means = widget.NewTableWithHeaders(
@@ -131,7 +131,7 @@ func newCompareStep(u *App) *compareStep {
 	left := container.NewVSplit(upper, container.NewBorder(heading("Means"), nil, nil, nil, c.means))
 	left.Offset = 0.55
 	detail := container.NewHSplit(left, c.charts)
-	detail.Offset = 0.45
+	detail.Offset = 0.42
 	tabs := container.NewAppTabs(
 		container.NewTabItem("This trait", detail),
 		container.NewTabItem("All traits", c.summary),
@@ -328,6 +328,7 @@ func (c *compareStep) showCharts(cs []chartImage) {
 			img := canvas.NewImageFromImage(ch.img)
 			img.FillMode = canvas.ImageFillContain
 			img.ScaleMode = canvas.ImageScaleSmooth
+			img.SetMinSize(fyne.NewSize(420, 280))
 			obj = img
 		}
 		items = append(items, container.NewTabItem(ch.title, obj))

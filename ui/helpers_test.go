@@ -27,7 +27,10 @@ func newTestApp(t testing.TB, delay time.Duration) (*App, fyne.Window) {
 	u := New(a, w, Options{Version: "test", autosaveDelay: delay})
 	u.recoveryDir = t.TempDir()
 	w.Resize(fyne.NewSize(1366, 768))
-	t.Cleanup(u.saver.stop)
+	t.Cleanup(func() {
+		u.compute.shutdown()
+		u.saver.stop()
+	})
 	return u, w
 }
 

@@ -25,11 +25,7 @@ func newStartScreen(u *App) *startScreen {
 	s.openBtn = widget.NewButtonWithIcon("Open a trial file…", theme.FolderOpenIcon(), u.openDialog)
 	s.openBtn.Importance = widget.HighImportance
 	s.newBtn = widget.NewButtonWithIcon("Start a new trial", theme.DocumentCreateIcon(), u.newTrial)
-	s.demoBtn = widget.NewButtonWithIcon("Look around in the demo trial", theme.InfoIcon(), func() {
-		if err := u.OpenDemo(); err != nil {
-			showError(u.win, "Could not open the demo", "The demo trial could not be opened", err)
-		}
-	})
+	s.demoBtn = widget.NewButtonWithIcon("Look around in the demo trial", theme.InfoIcon(), func() { _ = u.OpenDemo() })
 	s.recent = container.NewVBox()
 	recentHead := widget.NewLabelWithStyle("Recent trials", fyne.TextAlignLeading, fyne.TextStyle{Bold: true})
 	col := container.NewVBox(title, s.openBtn, s.newBtn, s.demoBtn, widget.NewSeparator(), recentHead, s.recent)

@@ -83,19 +83,21 @@ func WriteFieldBook(w io.Writer, t *trial.Trial, opts FieldBookOptions) error {
 		names[tm.Code] = tm.Name
 	}
 	ncol := len(fieldBookColumns) + len(traits)
+	first := len(fieldBookColumns) + 1
+	// Column number formats first: setting them later would restyle the
+	// header cells too.
+	for j, tr := range traits {
+		col, _ := excelize.ColumnNumberToName(first + j)
+		s.fail(f.SetColStyle(FieldBookSheet, col, s.style(numStyleFB(tr.Decimals))))
+	}
 	for i, h := range fieldBookColumns {
 		s.text(i+1, 1, h, headStyle)
 	}
-	first := len(fieldBookColumns) + 1
 	for j, tr := range traits {
 		h := FieldBookHeader(tr)
 		s.text(first+j, 1, h, headStyle)
 		s.widths[first+j] = math.Min(s.widths[first+j], 16)
 		s.track(first+j, 8)
-	}
-	for j, tr := range traits {
-		col, _ := excelize.ColumnNumberToName(first + j)
-		s.fail(f.SetColStyle(FieldBookSheet, col, s.style(numStyleFB(tr.Decimals))))
 	}
 	for i, p := range t.Plots {
 		row := i + 2

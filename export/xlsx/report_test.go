@@ -514,3 +514,65 @@ func TestReportTransformed(t *testing.T) {
 		}
 	}
 }
+
+// TestReportDerivedLatin writes the report of an invented Latin square with a
+// derived adjusted-yield trait: the data sheet holds the derived values as
+// the trial computes them (trial.TraitValues), the summary takes the derived
+// trait as the yield for the percentage of the check, and the field map
+// outlines the square's rows.
+func TestReportDerivedLatin(t *testing.T) {
+	t.Parallel()
+	var tms []trial.Treatment
+	for i := 0; i < 4; i++ {
+		tms = append(tms, trial.Treatment{Code: "T" + strconv.Itoa(i+1), Name: "Entry " + strconv.Itoa(i+1), Role: trial.RoleEntry})
+	}
+	tms[0].Role = trial.RoleCheck
+	tr, err := trial.New(trial.NewOptions{
+		Title: "Latin square demo", Crop: "maize", Treatments: tms,
+		Design: trial.Design{Kind: trial.Latin},
+		Traits: []trial.Trait{
+			{Key: "wt", Name: "Plot weight", Unit: "kg", Kind: trial.Continuous, Decimals: 2},
+			{Key: "mst", Name: "Moisture", Unit: "%", Kind: trial.Percent, Decimals: 1},
+			trial.AdjustedYieldTrait("gy", "wt", "mst", "maize", "t/ha"),
+		},
+		Seed: 11,
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, p := range tr.Plots {
+		code, _ := strconv.Atoi(p.Treatment[1:])
+		tr.SetValue(i, "wt", 8+0.5*float64(code)+0.1*float64(p.Row))
+		tr.SetValue(i, "mst", 18+0.3*float64(p.Column))
+	}
+	tr.SetValue(5, "wt", trial.Missing)
+	outs, err := analysis.AnalyzeAll(context.Background(), tr, nil, analysis.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	f, _ := writeReport(t, tr, outs, ReportOptions{Charts: true})
+	want, err := tr.TraitValues("gy")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i := range tr.Plots {
+		c := cell(9, i+2)
+		if trial.IsMissing(want[i]) {
+			if got := textAt(t, f, DataSheet, c); got != "" {
+				t.Errorf("plot %d: missing derived yield written as %q", tr.Plots[i].Number, got)
+			}
+			continue
+		}
+		if got := numberAt(t, f, DataSheet, c); got != want[i] {
+			t.Errorf("plot %d derived yield %v, want %v", tr.Plots[i].Number, got, want[i])
+		}
+	}
+	head := findRow(t, f, SummarySheet, 1, "Treatment")
+	pct := textAt(t, f, SummarySheet, cell(4+2*3, head))
+	if !strings.HasSuffix(pct, "% of check") || !strings.Contains(pct, tr.Traits[2].Name) {
+		t.Errorf("percentage column %q", pct)
+	}
+	if got := numberAt(t, f, SummarySheet, cell(4+2*3, head+1)); math.Abs(got-100) > 1e-12 {
+		t.Errorf("check at %v%% of itself", got)
+	}
+}

@@ -5,8 +5,10 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"runtime"
 	"sort"
 	"strings"
+	"sync"
 
 	"furlong/stats"
 	"furlong/stats/diag"
@@ -90,22 +92,44 @@ type Outcome struct {
 	Err    error
 }
 
-// AnalyzeAll analyses every trait of the trial (or those named in keys) in
-// trial order. A trait that cannot be analysed gets its error in the outcome;
-// the others are unaffected. It stops early when ctx is cancelled.
+// AnalyzeAll analyses every trait of the trial (or those named in keys) and
+// returns the outcomes in that order. A trait that cannot be analysed gets
+// its error in the outcome; the others are unaffected. Traits are analysed
+// concurrently, one worker per processor; t must not change meanwhile. It
+// stops early when ctx is cancelled and returns ctx's error.
 func AnalyzeAll(ctx context.Context, t *trial.Trial, keys []string, o Options) ([]Outcome, error) {
 	if len(keys) == 0 {
 		for _, tr := range t.Traits {
 			keys = append(keys, tr.Key)
 		}
 	}
-	out := make([]Outcome, 0, len(keys))
-	for _, k := range keys {
-		if err := ctx.Err(); err != nil {
-			return out, err
+	out := make([]Outcome, len(keys))
+	next := make(chan int)
+	var wg sync.WaitGroup
+	for w := 0; w < min(runtime.GOMAXPROCS(0), len(keys)); w++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for i := range next {
+				r, err := Analyze(t, keys[i], o)
+				out[i] = Outcome{Key: keys[i], Result: r, Err: err}
+			}
+		}()
+	}
+	var err error
+feed:
+	for i := range keys {
+		select {
+		case next <- i:
+		case <-ctx.Done():
+			err = ctx.Err()
+			break feed
 		}
-		r, err := Analyze(t, k, o)
-		out = append(out, Outcome{Key: k, Result: r, Err: err})
+	}
+	close(next)
+	wg.Wait()
+	if err != nil {
+		return nil, err
 	}
 	return out, nil
 }
