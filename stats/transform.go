@@ -100,3 +100,19 @@ func BackTransform(t Transform, v, offset float64) float64 {
 	}
 	panic(fmt.Sprintf("stats: BackTransform of unknown transformation %q", string(t)))
 }
+
+// Scale names the scale a transformation analyses on, in words for notes:
+// "log", "square-root", "arcsine square-root"; "original" for none.
+func (t Transform) Scale() string {
+	switch t {
+	case NoTransform:
+		return "original"
+	case Log:
+		return "log"
+	case Sqrt:
+		return "square-root"
+	case ArcsineSqrt:
+		return "arcsine square-root"
+	}
+	return string(t)
+}

@@ -338,7 +338,7 @@ func meanBars(r *analysis.Result, opt MeansOptions) (bars []meanBar, notes []str
 		notes = append(notes, "No mean separation letters are available for this analysis")
 	}
 	if r.Transform != stats.NoTransform {
-		notes = append(notes, fmt.Sprintf("Analysed on the %s scale; means and error bars back-transformed", transformName(r.Transform)))
+		notes = append(notes, fmt.Sprintf("Analysed on the %s scale; means and error bars back-transformed", r.Transform.Scale()))
 	}
 	if len(noData) > 0 {
 		notes = append(notes, "Not shown (no data): "+strings.Join(noData, ", "))
@@ -358,18 +358,6 @@ func errorBarNote(e ErrorBars, alpha float64) string {
 // formatPercent prints a fraction as a percentage: 0.05 → "5%".
 func formatPercent(f float64) string {
 	return strings.TrimSuffix(strings.TrimRight(fmt.Sprintf("%.2f", 100*f), "0"), ".") + "%"
-}
-
-func transformName(t stats.Transform) string {
-	switch t {
-	case stats.Log:
-		return "log"
-	case stats.Sqrt:
-		return "square-root"
-	case stats.ArcsineSqrt:
-		return "arcsine square-root"
-	}
-	return string(t)
 }
 
 // backTransformer returns the map from the analysis scale of r to the

@@ -33,18 +33,6 @@ func sourceName(n string) string {
 	return strings.ToUpper(n[:1]) + n[1:]
 }
 
-func transformName(t stats.Transform) string {
-	switch t {
-	case stats.Log:
-		return "natural log"
-	case stats.Sqrt:
-		return "square root"
-	case stats.ArcsineSqrt:
-		return "arcsine square root"
-	}
-	return string(t)
-}
-
 // Columns of the means table on a trait sheet.
 const (
 	meansFirstCol = 1
@@ -74,7 +62,7 @@ func (r *report) writeTrait(name string, tr trial.Trait) error {
 		designName(a.Design), tr.Key, a.N, a.Missing, len(a.Excluded)), noteStyle)
 	row := 3
 	if a.Transform != stats.NoTransform {
-		s.textNoWidth(1, row, "Analysed on the "+transformName(a.Transform)+" scale; the back-transformed means are on the original scale.", noteStyle)
+		s.textNoWidth(1, row, "Analysed on the "+a.Transform.Scale()+" scale; the back-transformed means are on the original scale.", noteStyle)
 		row++
 	}
 	row++

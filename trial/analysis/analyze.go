@@ -380,21 +380,9 @@ func notes(r *Result, d *Data, a *stats.ANOVA) {
 		w = append(w, "Some plots are missing, so each sum of squares is adjusted for the other terms of the model and the lines no longer add up to the total; means are least-squares means.")
 	}
 	if r.Transform != stats.NoTransform {
-		w = append(w, fmt.Sprintf("Analysed on the %s scale; the back-transformed means are given beside the means on that scale.", transformName(r.Transform)))
+		w = append(w, fmt.Sprintf("Analysed on the %s scale; the back-transformed means are given beside the means on that scale.", r.Transform.Scale()))
 	}
 	r.Warnings = append(w, r.Warnings...)
-}
-
-func transformName(t stats.Transform) string {
-	switch t {
-	case stats.Log:
-		return "log"
-	case stats.Sqrt:
-		return "square-root"
-	case stats.ArcsineSqrt:
-		return "arcsine square-root"
-	}
-	return string(t)
 }
 
 func plural(n int, one, many string) string {
