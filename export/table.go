@@ -6,6 +6,7 @@
 package export
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"strconv"
@@ -27,6 +28,12 @@ func Reason(o analysis.Outcome) string {
 	case o.Result != nil && o.Err == nil:
 		return ""
 	case o.Err != nil:
+		// The trait is named where the reason is shown; give the sentence
+		// without the "key: " prefix an analysis.Error carries.
+		var ae *analysis.Error
+		if errors.As(o.Err, &ae) && ae.Msg != "" {
+			return ae.Msg
+		}
 		return o.Err.Error()
 	default:
 		return NoValues

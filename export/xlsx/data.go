@@ -154,7 +154,7 @@ func (r *report) writeFieldMap(name string) error {
 		s.printSetup(r.opts.Paper, true, r.t.Title+": field map")
 		return s.err
 	}
-	s.textNoWidth(1, 2, "Each cell is one plot: plot number and treatment code. Field row 1 is at the top; heavy lines outline the blocks.", noteStyle)
+	s.textNoWidth(1, 2, "Each cell is one plot: plot number and treatment code. Field row 1 is at the bottom and column 1 at the left, as on the printed map; heavy lines outline the blocks.", noteStyle)
 	colour := make(map[string]string, len(t.Treatments))
 	order := make(map[string]int, len(t.Treatments))
 	for i, tm := range t.Treatments {
@@ -194,8 +194,10 @@ func (r *report) writeFieldMap(name string) error {
 		a, b := grid[r1][c1], grid[r2][c2]
 		return a.used && b.used && a.block == b.block
 	}
-	for fr := 1; fr <= maxRow; fr++ {
-		row := top + fr - 1
+	// The highest field row is printed first, so that row 1 is at the
+	// bottom as on the printed map and in 'furlong show'.
+	for fr := maxRow; fr >= 1; fr-- {
+		row := top + maxRow - fr
 		s.text(1, row, "Row "+strconv.Itoa(fr), styleKey{bold: true, valign: "center"})
 		if s.err == nil {
 			s.fail(r.f.SetRowHeight(name, row, 30))
@@ -216,8 +218,8 @@ func (r *report) writeFieldMap(name string) error {
 				return 2
 			}
 			k.border = [4]int{
-				edge(sameBlock(fr, fc, fr, fc-1)), edge(sameBlock(fr, fc, fr-1, fc)),
-				edge(sameBlock(fr, fc, fr, fc+1)), edge(sameBlock(fr, fc, fr+1, fc)),
+				edge(sameBlock(fr, fc, fr, fc-1)), edge(sameBlock(fr, fc, fr+1, fc)),
+				edge(sameBlock(fr, fc, fr, fc+1)), edge(sameBlock(fr, fc, fr-1, fc)),
 			}
 			s.textNoWidth(left+fc-1, row, g.text, k)
 		}

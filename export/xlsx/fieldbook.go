@@ -325,7 +325,9 @@ func insertPrintOptions(xml []byte) ([]byte, error) {
 func ReadTable(r io.Reader) ([][]string, error) {
 	f, err := excelize.OpenReader(r, excelize.Options{RawCellValue: true})
 	if err != nil {
-		return nil, fmt.Errorf("the file could not be read as an xlsx workbook: %w", err)
+		// The library's reason (a zip or XML detail) means nothing to the
+		// user; say what to do instead.
+		return nil, errors.New("the file could not be read as an xlsx workbook: it may be damaged, protected by a password or saved in another format; save it again as .xlsx or as CSV")
 	}
 	defer f.Close()
 	sheets := f.GetSheetList()

@@ -167,6 +167,7 @@ var (
 	titleStyle   = styleKey{bold: true, size: 14}
 	sectionStyle = styleKey{bold: true, size: 12}
 	headStyle    = styleKey{bold: true, wrap: true, valign: "center", border: [4]int{0, 0, 0, 1}}
+	headNumStyle = styleKey{bold: true, wrap: true, valign: "center", halign: "right", border: [4]int{0, 0, 0, 1}}
 	labelStyle   = styleKey{bold: true}
 	noteStyle    = styleKey{italic: true}
 	proseStyle   = styleKey{}

@@ -352,8 +352,14 @@ func TestReportFieldMap(t *testing.T) {
 	for i, tm := range tr.Treatments {
 		colour[tm.Code] = OkabeIto[i%8]
 	}
+	maxRow := 0
 	for _, p := range tr.Plots {
-		c := cell(1+p.Column, 3+p.Row)
+		maxRow = max(maxRow, p.Row)
+	}
+	for _, p := range tr.Plots {
+		// Field row 1 at the bottom, as on the printed map (common practice):
+		// the highest field row is on sheet row 4, under the column labels.
+		c := cell(1+p.Column, 4+maxRow-p.Row)
 		want := strconv.Itoa(p.Number) + "\n" + p.Treatment
 		if got := textAt(t, f, FieldMapSheet, c); got != want {
 			t.Errorf("map %s = %q, want %q", c, got, want)

@@ -1,6 +1,7 @@
 package xlsx
 
 import (
+	"errors"
 	"fmt"
 	"strings"
 
@@ -50,7 +51,13 @@ func (r *report) writeTrait(name string, tr trial.Trait) error {
 	}
 	if reason != "" {
 		s.textNoWidth(1, 3, "No analysis: "+reason+".", styleKey{bold: true})
-		s.textNoWidth(1, 4, "Record values for this trait in the field book, then run the report again.", noteStyle)
+		// Advice that fits the reason: no data at all, or data that cannot
+		// be analysed as it stands.
+		advice := "Check this trait's values on the data sheet, then run the report again."
+		if !ok || res.Err == nil || errors.Is(res.Err, stats.ErrNoData) {
+			advice = "Record values for this trait in the field book, then run the report again."
+		}
+		s.textNoWidth(1, 4, advice, noteStyle)
 		s.widths[1] = 12
 		s.fitColumns(8, 40)
 		s.printSetup(r.opts.Paper, true, r.t.Title+": "+title)
@@ -71,7 +78,11 @@ func (r *report) writeTrait(name string, tr trial.Trait) error {
 	s.textNoWidth(1, row, "Analysis of variance", sectionStyle)
 	row++
 	for i, h := range []string{"Source", "df", "SS", "MS", "F", "p"} {
-		s.text(1+i, row, h, headStyle)
+		k := headStyle
+		if i > 0 {
+			k = headNumStyle // over right-aligned numbers
+		}
+		s.text(1+i, row, h, k)
 	}
 	row++
 	if a.ANOVA != nil {
@@ -109,7 +120,14 @@ func (r *report) writeTrait(name string, tr trial.Trait) error {
 		heads = append(heads, "Back-transformed mean")
 	}
 	for i, h := range heads {
-		s.text(meansFirstCol+i, row, h, headStyle)
+		k := headStyle
+		switch {
+		case h == "Letters":
+			k.halign = "center"
+		case i >= 2:
+			k = headNumStyle // over right-aligned numbers
+		}
+		s.text(meansFirstCol+i, row, h, k)
 	}
 	meansHead := row
 	row++
@@ -122,9 +140,10 @@ func (r *report) writeTrait(name string, tr trial.Trait) error {
 		s.text(2, row, label, styleKey{bold: m.Check})
 		s.integer(3, row, m.N, styleKey{})
 		s.numOrDash(4, row, m.Mean, numStyle(meanDec))
-		s.numOrDash(5, row, m.RawMean, numStyle(dec))
+		// The raw mean is on the analysis scale, like the LS mean.
+		s.numOrDash(5, row, m.RawMean, numStyle(meanDec))
 		s.numOrDash(6, row, m.SE, numStyle(meanDec+1))
-		s.text(7, row, export.Letters(m, r.opts.Method), styleKey{})
+		s.text(7, row, export.Letters(m, r.opts.Method), styleKey{halign: "center"})
 		if a.Transform != stats.NoTransform {
 			s.numOrDash(8, row, m.BackMean, numStyle(dec))
 		}
@@ -155,7 +174,7 @@ func (r *report) writeTrait(name string, tr trial.Trait) error {
 		stat("SED", an.SED, an.SED > 0, numStyle(meanDec+1), "unequal n: each pair has its own SED")
 	}
 	msd := export.MSD(a, r.opts.Method)
-	stat(export.MSDLabel(r.opts.Method, r.opts.Alpha), deref(msd), msd != nil, numStyle(meanDec+1), "unequal n: each pair has its own")
+	stat(export.MSDLabel(r.opts.Method, r.opts.Alpha), deref(msd), msd != nil, numStyle(meanDec+1), "unequal n: no single value; each pair of means has its own")
 	if a.ANOVA != nil {
 		stat("Relative efficiency of blocking", a.ANOVA.RelativeEfficiency, a.ANOVA.RelativeEfficiency > 0, numStyle(2), "not applicable")
 	}

@@ -269,6 +269,7 @@ func AnalyzeData(d *Data, o Options) (*Result, error) {
 		return fail(describeStatsError(d, err, plots), err)
 	}
 	r.ANOVA = a
+	r.Offset = offset
 
 	r.Means = make([]Mean, k)
 	lsm := make([]float64, k)
@@ -380,7 +381,11 @@ func notes(r *Result, d *Data, a *stats.ANOVA) {
 		w = append(w, "Some plots are missing, so each sum of squares is adjusted for the other terms of the model and the lines no longer add up to the total; means are least-squares means.")
 	}
 	if r.Transform != stats.NoTransform {
-		w = append(w, fmt.Sprintf("Analysed on the %s scale; the back-transformed means are given beside the means on that scale.", r.Transform.Scale()))
+		note := fmt.Sprintf("Analysed on the %s scale: means, raw means, standard errors, LSD and HSD are on that scale, and the back-transformed means beside them are on the original scale.", r.Transform.Scale())
+		if r.Offset != 0 {
+			note += fmt.Sprintf(" Because some values are 0, %g was added to every value before transforming (and taken off again after back-transforming).", r.Offset)
+		}
+		w = append(w, note)
 	}
 	r.Warnings = append(w, r.Warnings...)
 }

@@ -40,6 +40,9 @@ type Result struct {
 	Design    trial.DesignKind
 	Alpha     float64
 	Transform stats.Transform
+	// Offset was added to every value before a log or square-root
+	// transformation because some values are 0 (0 when nothing was added).
+	Offset float64
 
 	N        int        // observations analysed
 	Missing  int        // plots with no value (not excluded)

@@ -258,6 +258,17 @@ func TestOverwrite(t *testing.T) {
 	if !plan.HasErrors(false) || plan.HasErrors(true) || len(plan.Conflicts()) != 1 || len(plan.Errors()) != 0 {
 		t.Fatalf("conflicts %v errors %v", plan.Conflicts(), plan.Errors())
 	}
+	// The report's closing line says what happens with and without
+	// overwriting allowed.
+	var refused, allowed strings.Builder
+	plan.WriteReport(&refused, false)
+	plan.WriteReport(&allowed, true)
+	if !strings.Contains(refused.String(), "Nothing is imported unless overwriting is allowed: 1 stored value would be replaced.") {
+		t.Errorf("report without overwriting:\n%s", refused.String())
+	}
+	if !strings.Contains(allowed.String(), "Ready to import; 1 stored value will be replaced.") || strings.Contains(allowed.String(), "Nothing") {
+		t.Errorf("report with overwriting:\n%s", allowed.String())
+	}
 	ch := plan.Changes()
 	if len(ch) != 3 || !ch[0].Overwrite || ch[0].Old != 20 || ch[0].New != 21 || ch[1].Overwrite {
 		t.Fatalf("changes %+v", ch)
@@ -269,6 +280,29 @@ func TestOverwrite(t *testing.T) {
 	// The plan is stale now: applying it again is refused.
 	if _, err := plan.Apply(tr, true); err == nil {
 		t.Error("a stale plan was applied")
+	}
+}
+
+// TestPartialBookOneNote: a book that covers few plots gets one note for
+// the plots it leaves out, not one line per plot.
+func TestPartialBookOneNote(t *testing.T) {
+	t.Parallel()
+	tr := &trial.Trial{Treatments: []trial.Treatment{{Code: "A"}, {Code: "B"}}}
+	for i := 1; i <= 10; i++ {
+		tr.Plots = append(tr.Plots, trial.Plot{Number: i, Block: 1, Row: 1, Column: i, Treatment: "A"})
+	}
+	tr.Traits = []trial.Trait{{Key: "ht", Name: "ht", Kind: trial.Continuous, Values: make([]float64, 10)}}
+	for i := range tr.Traits[0].Values {
+		tr.Traits[0].Values[i] = math.NaN()
+	}
+	table, _ := ReadTable(strings.NewReader("plot,ht\n1,5\n"))
+	plan, err := Plan(tr, table)
+	if err != nil {
+		t.Fatal(err)
+	}
+	notes := plan.Notes()
+	if len(notes) != 1 || !strings.Contains(notes[0].String(), "9 plots are not in the field book (2, 3, 4, 5, 6, ...)") {
+		t.Errorf("notes %v", notes)
 	}
 }
 

@@ -285,16 +285,33 @@ func Plan(t *trial.Trial, rows [][]string) (*ImportPlan, error) {
 	}
 	for j, n := range empty {
 		if n > 0 {
-			p.add(Issue{Severity: Info, Trait: t.Traits[j].Key, Message: fmt.Sprintf("%d empty %s: left as they are (an empty cell does not erase a value)", n, plural(n, "cell", "cells"))})
+			p.add(Issue{Severity: Info, Trait: t.Traits[j].Key, Message: fmt.Sprintf("%d empty %s: %s (an empty cell does not erase a value)", n, plural(n, "cell", "cells"), plural(n, "the trial's value is left as it is", "the trial's values are left as they are"))})
 		}
 	}
+	var absent []int
 	for i, pl := range t.Plots {
 		if _, ok := seen[i]; !ok {
-			p.add(Issue{Severity: Info, Plot: pl.Number, Message: fmt.Sprintf("plot %d is not in the field book; its values are left as they are", pl.Number)})
+			absent = append(absent, pl.Number)
 		}
+	}
+	if len(absent) <= maxAbsentListed {
+		for _, n := range absent {
+			p.add(Issue{Severity: Info, Plot: n, Message: fmt.Sprintf("plot %d is not in the field book; its values are left as they are", n)})
+		}
+	} else {
+		// One line for a partial book, not one per plot.
+		nums := make([]string, 0, maxAbsentListed)
+		for _, n := range absent[:maxAbsentListed] {
+			nums = append(nums, strconv.Itoa(n))
+		}
+		p.add(Issue{Severity: Info, Message: fmt.Sprintf("%d plots are not in the field book (%s, ...); their values are left as they are", len(absent), strings.Join(nums, ", "))})
 	}
 	return p, nil
 }
+
+// maxAbsentListed is how many plots missing from a field book are named
+// one per line; more are summed up in one line.
+const maxAbsentListed = 5
 
 // add records an issue that is not about a value: Old and New are NaN.
 func (p *ImportPlan) add(i Issue) {
@@ -341,7 +358,7 @@ func (p *ImportPlan) cell(t *trial.Trial, col column, line, pi int, text string,
 	c := Change{Line: line, Plot: number, PlotIndex: pi, Trait: tr.Key, TraitIndex: col.trait, Old: old, New: v}
 	if !trial.IsMissing(old) {
 		c.Overwrite = true
-		p.issues = append(p.issues, with(Conflict, v, fmt.Sprintf("%s would replace the stored value %s (only when overwriting is allowed)", show(v), show(old))))
+		p.issues = append(p.issues, with(Conflict, v, fmt.Sprintf("%s would replace the stored value %s", show(v), show(old))))
 	}
 	p.changes = append(p.changes, c)
 }
@@ -463,8 +480,12 @@ func (p *ImportPlan) Apply(t *trial.Trial, overwrite bool) (changed int, err err
 }
 
 // Report writes the plan as plain text: a summary, then one line per
-// finding, errors first.
-func (p *ImportPlan) Report(w io.Writer) error {
+// finding, errors first, as it stands when overwriting is not allowed.
+func (p *ImportPlan) Report(w io.Writer) error { return p.WriteReport(w, false) }
+
+// WriteReport is Report for an import that will (overwrite true) or will
+// not replace values already stored: its closing line says what happens.
+func (p *ImportPlan) WriteReport(w io.Writer, overwrite bool) error {
 	over := 0
 	for _, c := range p.changes {
 		if c.Overwrite {
@@ -492,8 +513,10 @@ func (p *ImportPlan) Report(w io.Writer) error {
 	switch {
 	case p.HasErrors(true):
 		b.WriteString("Nothing can be imported until the errors are corrected.\n")
-	case p.HasErrors(false):
-		b.WriteString("Allow overwriting to import; otherwise nothing is imported.\n")
+	case p.HasErrors(overwrite):
+		fmt.Fprintf(&b, "Nothing is imported unless overwriting is allowed: %d stored %s would be replaced.\n", over, plural(over, "value", "values"))
+	case over > 0:
+		fmt.Fprintf(&b, "Ready to import; %d stored %s will be replaced.\n", over, plural(over, "value", "values"))
 	default:
 		b.WriteString("Ready to import.\n")
 	}

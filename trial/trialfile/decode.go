@@ -40,6 +40,10 @@ func decode(data []byte) (*trial.Trial, error) {
 	if err := json.Unmarshal(data, &head); err != nil {
 		var se *json.SyntaxError
 		if errors.As(err, &se) {
+			if !looksLikeJSON(data) {
+				// A workbook, a CSV or a picture given where a trial belongs.
+				return nil, errorf(ErrNotTrialFile, "not a Furlong trial file")
+			}
 			return nil, syntaxError(data, se)
 		}
 		var te *json.UnmarshalTypeError
@@ -67,6 +71,13 @@ func decode(data []byte) (*trial.Trial, error) {
 	default:
 		return decodeV1(data)
 	}
+}
+
+// looksLikeJSON reports whether data starts, after blanks and a byte order
+// mark, with a JSON object: a trial file always does.
+func looksLikeJSON(data []byte) bool {
+	rest := strings.TrimLeft(strings.TrimPrefix(string(data[:min(len(data), 64)]), "\ufeff"), " \t\r\n")
+	return strings.HasPrefix(rest, "{")
 }
 
 // unmarshal decodes data into dst, translating errors.

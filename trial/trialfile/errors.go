@@ -136,7 +136,7 @@ func syntaxError(data []byte, e *json.SyntaxError) *ParseError {
 		off--
 	}
 	pe.Line, pe.Column = position(data, off)
-	pe.Err = errorf(ErrSyntax, "the file is damaged: %s", e.Error())
+	pe.Err = errorf(ErrSyntax, "the file is damaged: %s; restore the backup copy (.bak) or an earlier version", jsonProblem(e.Error()))
 	return pe
 }
 
@@ -360,4 +360,22 @@ func (w *walker) skipString() {
 		}
 	}
 	w.i = len(w.data)
+}
+
+// jsonProblem rewrites encoding/json's syntax messages ("invalid character
+// 'x' after object key") in plain words.
+func jsonProblem(msg string) string {
+	if rest, ok := strings.CutPrefix(msg, "invalid character "); ok {
+		ch, where, _ := strings.Cut(rest, " ")
+		switch {
+		case strings.HasPrefix(where, "after object key:value pair"), strings.HasPrefix(where, "after array element"):
+			return "a comma or closing bracket is missing before " + ch
+		case strings.HasPrefix(where, "after object key"):
+			return "a colon is missing before " + ch
+		case strings.HasPrefix(where, "looking for beginning of object key"):
+			return "a quoted name was expected instead of " + ch
+		}
+		return "the character " + ch + " does not belong here"
+	}
+	return "the text is not well-formed"
 }

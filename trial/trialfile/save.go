@@ -62,6 +62,13 @@ func save(path string, t *trial.Trial, wrap func(io.Writer) io.Writer) (err erro
 
 	tmp, err := os.CreateTemp(dir, "."+base+".saving-*")
 	if err != nil {
+		// The temporary file's name means nothing to the user: name the
+		// folder the trial was to be saved in.
+		var pe *fs.PathError
+		if errors.As(err, &pe) {
+			pe.Path = filepath.Clean(dir)
+			pe.Op = "save in"
+		}
 		return err
 	}
 	tmpName := tmp.Name()

@@ -159,6 +159,8 @@ func TestNotTrialFile(t *testing.T) {
 		`[1, 2, 3]`,
 		`"furlong-trial"`,
 		`{"type":"FeatureCollection","features":[]}`,
+		"PK\x03\x04\x14\x00\x06\x00", // a workbook given where a trial belongs
+		"plot,block,row\n101,1,1\n",  // a field book
 	} {
 		_, err := Decode(strings.NewReader(in))
 		if !errors.Is(err, ErrNotTrialFile) || err.Error() != "not a Furlong trial file" {

@@ -42,7 +42,10 @@ var commands = map[string]*command{}
 func register(c *command) { commands[c.name] = c }
 
 // UsageError is a mistake on the command line.
-type UsageError struct{ Msg string }
+type UsageError struct {
+	Msg     string
+	Command string // the command whose flags were wrong, or "" for the overview
+}
 
 func (e *UsageError) Error() string { return e.Msg }
 
@@ -88,7 +91,11 @@ func Exit(err error, env Env) int {
 		return ExitOK
 	case errors.As(err, &ue):
 		fmt.Fprintf(env.Stderr, "furlong: %s\n", ue.Msg)
-		fmt.Fprintln(env.Stderr, "Run 'furlong --help' for the list of commands.")
+		if ue.Command != "" {
+			fmt.Fprintf(env.Stderr, "Run 'furlong help %s' for its flags.\n", ue.Command)
+		} else {
+			fmt.Fprintln(env.Stderr, "Run 'furlong --help' for the list of commands.")
+		}
 		return ExitUsage
 	case errors.As(err, &ee):
 		if ee.Msg != "" {
@@ -135,20 +142,68 @@ func dispatch(ctx context.Context, args []string, env Env) error {
 	}
 	fs, run := c.flags(env)
 	fs.SetOutput(io.Discard)
-	if err := fs.Parse(interleave(fs, args[1:])); err != nil {
+	ordered, problem := interleave(fs, args[1:])
+	if problem != "" {
+		return &UsageError{Msg: c.name + ": " + problem, Command: c.name}
+	}
+	if err := fs.Parse(ordered); err != nil {
 		if errors.Is(err, flag.ErrHelp) {
 			printCommandHelp(env.Stdout, c, fs)
 			return flag.ErrHelp
 		}
-		return usagef("%s: %v", c.name, err)
+		return &UsageError{Msg: c.name + ": " + flagMessage(fs, err), Command: c.name}
 	}
-	return run(ctx, fs.Args())
+	err := run(ctx, fs.Args())
+	var ue *UsageError
+	if errors.As(err, &ue) && ue.Command == "" {
+		ue.Command = c.name
+	}
+	return err
+}
+
+// flagMessage rewrites the flag package's parse errors, which name Go
+// types ("parse error", "flag provided but not defined: -x"), in plain words.
+func flagMessage(fs *flag.FlagSet, err error) string {
+	msg := err.Error()
+	if name, ok := strings.CutPrefix(msg, "flag provided but not defined: "); ok {
+		return fmt.Sprintf("there is no flag --%s", strings.TrimLeft(name, "-"))
+	}
+	if name, ok := strings.CutPrefix(msg, "flag needs an argument: "); ok {
+		return fmt.Sprintf("--%s needs a value", strings.TrimLeft(name, "-"))
+	}
+	// invalid value "abc" for flag -plot-length: parse error
+	if rest, ok := strings.CutPrefix(msg, "invalid value "); ok {
+		if i := strings.Index(rest, " for flag -"); i > 0 {
+			value := rest[:i]
+			name, why, _ := strings.Cut(rest[i+len(" for flag -"):], ": ")
+			f := fs.Lookup(name)
+			if f == nil || (why != "parse error" && why != "value out of range") {
+				return fmt.Sprintf("--%s: %s", name, why)
+			}
+			kind := "a number"
+			if g, ok := f.Value.(flag.Getter); ok {
+				switch g.Get().(type) {
+				case int, int64, uint, uint64:
+					kind = "a whole number"
+				case bool:
+					kind = "true or false"
+				}
+			}
+			if why == "value out of range" {
+				return fmt.Sprintf("--%s must be %s of sensible size, not %s", name, kind, value)
+			}
+			return fmt.Sprintf("--%s must be %s, not %s", name, kind, value)
+		}
+	}
+	return msg
 }
 
 // interleave lets flags follow positional arguments ("furlong show
 // trial.furlong --verbose"), which the flag package alone does not allow:
 // it moves every flag (and its value) in front of the positional arguments.
-func interleave(fs *flag.FlagSet, args []string) []string {
+//
+// A last flag without its value is reported as problem ("" when none).
+func interleave(fs *flag.FlagSet, args []string) (out []string, problem string) {
 	var flags, pos []string
 	for i := 0; i < len(args); i++ {
 		a := args[i]
@@ -175,9 +230,13 @@ func interleave(fs *flag.FlagSet, args []string) []string {
 		if i+1 < len(args) {
 			flags = append(flags, args[i+1])
 			i++
+		} else {
+			// The last argument is a flag that needs a value: once moved in
+			// front it would take a file name as its value.
+			return nil, "--" + name + " needs a value"
 		}
 	}
-	return append(flags, pos...)
+	return append(flags, pos...), ""
 }
 
 func printOverview(w io.Writer) {

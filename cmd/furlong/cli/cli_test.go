@@ -1,6 +1,7 @@
 package cli
 
 import (
+	"errors"
 	"math"
 	"os"
 	"path/filepath"
@@ -27,6 +28,11 @@ func TestExitCodes(t *testing.T) {
 		{[]string{"show", filepath.Join(dir, "missing.furlong")}, ExitFailure, "cannot find"},
 		{[]string{"analyze", "x.csv", "--format", "xml"}, ExitUsage, "text, json or csv"},
 		{[]string{"show"}, ExitUsage, "one trial file"},
+		// Flag values the flag package cannot parse are told in plain words.
+		{[]string{"new", "-o", filepath.Join(dir, "x.furlong"), "--treatments", "3", "--reps", "2", "--plot-length", "abc"}, ExitUsage, `--plot-length must be a number, not "abc"`},
+		{[]string{"new", "--bogus"}, ExitUsage, "there is no flag --bogus"},
+		{[]string{"analyze", "x.csv", "--alpha"}, ExitUsage, "--alpha needs a value"},
+		{[]string{"new", "-o", filepath.Join(dir, "nofolder", "x.furlong"), "--treatments", "3", "--reps", "2", "--seed", "1"}, ExitFailure, "cannot find " + filepath.Join(dir, "nofolder")},
 	}
 	for _, c := range cases {
 		code, _, stderr := run(t, c.args...)
@@ -36,7 +42,7 @@ func TestExitCodes(t *testing.T) {
 		if !strings.Contains(stderr, c.in) {
 			t.Errorf("%v: stderr %q does not say %q", c.args, stderr, c.in)
 		}
-		if strings.Contains(stderr, "goroutine") || strings.Contains(stderr, ".go:") {
+		if strings.Contains(stderr, "goroutine") || strings.Contains(stderr, ".go:") || strings.Contains(stderr, "parse error") || strings.Contains(stderr, ".saving-") {
 			t.Errorf("%v: stderr shows Go internals: %s", c.args, stderr)
 		}
 	}
@@ -236,3 +242,64 @@ func TestImportReportsBadCells(t *testing.T) {
 func formatG(v float64) string { return strings.TrimRight(strings.TrimRight(ftoa(v), "0"), ".") }
 
 func ftoa(v float64) string { return strconvFormat(v) }
+
+func TestWindowArgsCatchMistypedCommands(t *testing.T) {
+	t.Parallel()
+	var ue *UsageError
+	if _, err := ParseWindowArgs([]string{"anlyze"}); !errors.As(err, &ue) || !strings.Contains(err.Error(), `there is no command "anlyze"`) {
+		t.Errorf("a mistyped command: %v", err)
+	}
+	missing := filepath.Join(t.TempDir(), "gone.furlong")
+	if _, err := ParseWindowArgs([]string{missing}); err == nil || !strings.Contains(err.Error(), "cannot find "+missing) {
+		t.Errorf("a missing trial file: %v", err)
+	}
+}
+
+// TestShowMapReadsLikeTheField checks that stacked blocks are printed top
+// of the field first, so that field row 1 ends up at the bottom of the text
+// as the header says (common practice for field maps), and that column
+// labels fit their cells.
+func TestShowMapReadsLikeTheField(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	path := filepath.Join(dir, "s.furlong")
+	if code, _, stderr := run(t, "new", "-o", path, "--design", "rcbd", "--treatments", "3", "--reps", "3", "--seed", "5", "--blocks", "stacked"); code != 0 {
+		t.Fatal(stderr)
+	}
+	_, out, _ := run(t, "show", path)
+	b3, b1 := strings.Index(out, "Block 3"), strings.Index(out, "Block 1")
+	if b3 < 0 || b1 < 0 || b3 > b1 {
+		t.Errorf("block 3 (top of the field) must be printed before block 1:\n%s", out)
+	}
+	for _, l := range strings.Split(out, "\n") {
+		if strings.HasSuffix(l, " ") {
+			t.Errorf("line ends in blanks: %q", l)
+		}
+	}
+	lat := filepath.Join(dir, "l.furlong")
+	if code, _, stderr := run(t, "new", "-o", lat, "--design", "latin", "--treatments", "A,B,C,D", "--numbering", "sequential", "--seed", "5"); code != 0 {
+		t.Fatal(stderr)
+	}
+	_, out, _ = run(t, "show", lat)
+	if !strings.Contains(out, "16 in 4 rows × 4 columns") {
+		t.Errorf("Latin square plots line:\n%s", out)
+	}
+	// Every grid line and the column labels start their cells at the same
+	// places: "| " before each cell, two blanks between labels.
+	var grid, cols string
+	for _, l := range strings.Split(out, "\n") {
+		if strings.HasPrefix(l, "  row   1 |") {
+			grid = l
+		}
+		if strings.Contains(l, "col 1") {
+			cols = l
+		}
+	}
+	for c := 1; c <= 4; c++ {
+		label := "col " + itoa(c)
+		i := strings.Index(cols, label)
+		if i < 2 || i > len(grid) || grid[i-2:i] != "| " {
+			t.Errorf("column label %q not under its cell:\n%s\n%s", label, grid, cols)
+		}
+	}
+}

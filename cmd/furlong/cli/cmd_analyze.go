@@ -36,7 +36,7 @@ func init() {
 	register(&command{
 		name:    "analyze",
 		summary: "analyse traits: ANOVA, means with LSD and Tukey letters, diagnostics",
-		usage: `furlong analyze TRIAL.furlong [--trait KEY] [--alpha 0.05] [--format text|json|csv]
+		usage: `furlong analyze TRIAL.furlong [--trait KEY] [--alpha 0.05] [--format text|json|csv] [--transform log|sqrt|arcsin] [--unprotected]
 furlong analyze DATA.csv --treatment COL [--block COL | --row COL --column COL] [--response COL]... [flags]`,
 		details: `Analyses every trait of a trial (or the one named by --trait) with the ANOVA that fits its design:
 one-way for a completely randomised design, treatment + block for an RCBD, treatment + row + column
@@ -55,8 +55,8 @@ for the fields) or csv (one row per treatment mean).`,
 			fs.StringVar(&o.trait, "trait", "", "analyse only this trait `key` (trial files)")
 			fs.StringVar(&o.treatment, "treatment", "", "CSV: the treatment `column`")
 			fs.StringVar(&o.block, "block", "", "CSV: the block `column` (gives an RCBD)")
-			fs.StringVar(&o.row, "row", "", "CSV: the Latin square row `column`")
-			fs.StringVar(&o.column, "column", "", "CSV: the Latin square column `column`")
+			fs.StringVar(&o.row, "row", "", "CSV: the `column` that holds the Latin square's row")
+			fs.StringVar(&o.column, "column", "", "CSV: the `column` that holds the Latin square's column (with --row)")
 			fs.Var(&o.responses, "response", "CSV: a response `column` to analyse (repeatable)")
 			fs.Float64Var(&o.alpha, "alpha", analysis.DefaultAlpha, "significance level")
 			fs.StringVar(&o.format, "format", "text", "output format: text, json or csv")
@@ -398,7 +398,21 @@ func writeAnalysisText(w io.Writer, outcomes []analysis.Outcome) error {
 	return nil
 }
 
+// writeResultText prints one trait's analysis as aligned text tables, with
+// the padding the tables leave at the ends of lines taken off.
 func writeResultText(w io.Writer, r *analysis.Result) {
+	var buf strings.Builder
+	writeResultTables(&buf, r)
+	lines := strings.SplitAfter(buf.String(), "\n")
+	for i, l := range lines {
+		if strings.HasSuffix(l, "\n") {
+			lines[i] = strings.TrimRight(l[:len(l)-1], " ") + "\n"
+		}
+	}
+	io.WriteString(w, strings.Join(lines, ""))
+}
+
+func writeResultTables(w io.Writer, r *analysis.Result) {
 	a := r.ANOVA
 	title := r.TraitKey
 	if r.TraitName != "" && r.TraitName != r.TraitKey {

@@ -71,7 +71,7 @@ For spreadsheets set to a European locale, --sep semicolon --decimal-comma write
 						return err
 					}
 				default:
-					return usagef("fieldbook: the output must end in .csv or .xlsx")
+					return usagef("fieldbook: the output must end in .csv (or .txt, .tsv) or .xlsx")
 				}
 				if err := writeFileNew(*out, buf.Bytes(), *force); err != nil {
 					return err
@@ -151,7 +151,7 @@ func runImport(env Env, trialPath, bookPath string, overwrite, dry bool) error {
 	if err != nil {
 		return fmt.Errorf("%s: %w", bookPath, err)
 	}
-	if err := plan.Report(env.Stdout); err != nil {
+	if err := plan.WriteReport(env.Stdout, overwrite); err != nil {
 		return err
 	}
 	if plan.HasErrors(overwrite) {

@@ -230,7 +230,7 @@ func parseTreatments(s string) ([]trial.Treatment, error) {
 			name = code
 		}
 		if err := trial.CheckCode(code); err != nil {
-			return nil, usagef("new: treatment %q: %v", code, err)
+			return nil, usagef("new: %v", err)
 		}
 		tr.Code, tr.Name = code, name
 		out = append(out, tr)
@@ -249,7 +249,7 @@ func parseTraits(s string) ([]trial.Trait, error) {
 		key, unit, _ := strings.Cut(part, ":")
 		key = strings.TrimSpace(key)
 		if err := trial.CheckTraitKey(key); err != nil {
-			return nil, usagef("new: trait %q: %v", key, err)
+			return nil, usagef("new: %v", err)
 		}
 		out = append(out, trial.Trait{
 			Key: key, Name: key, Unit: strings.TrimSpace(unit),

@@ -58,7 +58,16 @@ func writeShow(w io.Writer, t *trial.Trial) error {
 	line("Design", designName(t.Design))
 	l := t.Layout
 	line("Plot", fmt.Sprintf("%g × %g m, harvested %.4g m², alley %g m", l.PlotLength, l.PlotWidth, l.HarvestedArea(), l.Alley))
-	line("Plots", fmt.Sprintf("%d in %d blocks, numbered %s, walked %s", s.Plots, s.Blocks, l.Numbering, l.Walk))
+	var arrangement string
+	switch t.Design.Kind {
+	case trial.CRD:
+		arrangement = "in one randomised group"
+	case trial.Latin:
+		arrangement = fmt.Sprintf("in %d rows × %d columns", len(t.Treatments), len(t.Treatments))
+	default:
+		arrangement = fmt.Sprintf("in %d blocks", s.Blocks)
+	}
+	line("Plots", fmt.Sprintf("%d %s, numbered %s, walked %s", s.Plots, arrangement, l.Numbering, l.Walk))
 	if t.Randomized() {
 		line("Randomised", fmt.Sprintf("seed %d (%s) on %s", t.Random.Seed, t.Random.Method, t.Random.Done.Format("2 Jan 2006")))
 	} else {
@@ -66,13 +75,20 @@ func writeShow(w io.Writer, t *trial.Trial) error {
 	}
 	line("Notes", t.Notes)
 
-	fmt.Fprintf(w, "\nTreatments (%d, %d check):\n", s.Treatments, s.Checks)
+	checks := "no check"
+	switch {
+	case s.Checks == 1:
+		checks = "1 check"
+	case s.Checks > 1:
+		checks = fmt.Sprintf("%d checks", s.Checks)
+	}
+	fmt.Fprintf(w, "\nTreatments (%d, %s):\n", s.Treatments, checks)
 	for _, tr := range t.Treatments {
 		role := ""
 		if tr.Role == trial.RoleCheck {
 			role = "check"
 		}
-		fmt.Fprintf(w, "  %-12s %-30s %s\n", tr.Code, tr.Name, role)
+		fmt.Fprintln(w, strings.TrimRight(fmt.Sprintf("  %-12s %-30s %s", tr.Code, tr.Name, role), " "))
 	}
 
 	if len(t.Traits) > 0 {
@@ -89,7 +105,7 @@ func writeShow(w io.Writer, t *trial.Trial) error {
 				ts := s.Traits[i]
 				state = fmt.Sprintf("%d of %d plots entered", ts.Entered, s.Plots)
 			}
-			fmt.Fprintf(w, "  %-10s %-30s %s\n", tr.Key, tr.Name+unit, state)
+			fmt.Fprintln(w, strings.TrimRight(fmt.Sprintf("  %-10s %-30s %s", tr.Key, tr.Name+unit, state), " "))
 		}
 	}
 	var excl []string
@@ -112,30 +128,48 @@ func writeShow(w io.Writer, t *trial.Trial) error {
 }
 
 // writeTextMap prints each block's plots as a grid, field row 1 at the bottom.
+// Blocks are printed in the order they lie in the field, the top of the field
+// first and left before right, so that the whole map reads like the field.
 func writeTextMap(w io.Writer, t *trial.Trial) {
 	byBlock := map[int][]trial.Plot{}
 	width := 0
+	maxCol := 0
 	for _, p := range t.Plots {
 		byBlock[p.Block] = append(byBlock[p.Block], p)
-		if n := len(fmt.Sprintf("%d %s", p.Number, p.Treatment)); n > width {
-			width = n
-		}
+		width = max(width, len([]rune(fmt.Sprintf("%d %s", p.Number, p.Treatment))))
+		maxCol = max(maxCol, p.Column)
 	}
+	// The column labels under the grid must fit in a cell too.
+	width = max(width, len(fmt.Sprintf("col %d", maxCol)))
 	blocks := make([]int, 0, len(byBlock))
 	for b := range byBlock {
 		blocks = append(blocks, b)
 	}
-	sort.Ints(blocks)
 	label := "Block"
-	if t.Design.Kind == trial.Latin {
-		// A Latin square is one block; its rows are the field rows.
-		label = "Square row"
-		blocks = []int{0}
-		byBlock[0] = t.Plots
-	}
-	if t.Design.Kind == trial.CRD {
+	if t.Design.Kind == trial.Latin || t.Design.Kind == trial.CRD {
+		// A Latin square or a CRD is one grid; its rows are the field rows.
 		label = ""
+		blocks = []int{0}
+		byBlock = map[int][]trial.Plot{0: t.Plots}
 	}
+	top := func(b int) (maxRow, minCol int) {
+		maxRow, minCol = byBlock[b][0].Row, byBlock[b][0].Column
+		for _, p := range byBlock[b] {
+			maxRow, minCol = max(maxRow, p.Row), min(minCol, p.Column)
+		}
+		return maxRow, minCol
+	}
+	sort.Slice(blocks, func(i, j int) bool {
+		ri, ci := top(blocks[i])
+		rj, cj := top(blocks[j])
+		if ri != rj {
+			return ri > rj
+		}
+		if ci != cj {
+			return ci < cj
+		}
+		return blocks[i] < blocks[j]
+	})
 	fmt.Fprintln(w, "Field map (plot number and treatment; field row 1 at the bottom, column 1 at the left):")
 	for _, b := range blocks {
 		plots := byBlock[b]
@@ -166,10 +200,11 @@ func writeTextMap(w io.Writer, t *trial.Trial) {
 			}
 			fmt.Fprintln(w)
 		}
-		fmt.Fprintf(w, "  %9s", "")
+		var cols strings.Builder
+		fmt.Fprintf(&cols, "  %9s", "")
 		for c := minC; c <= maxC; c++ {
-			fmt.Fprintf(w, " %-*s  ", width, fmt.Sprintf("col %d", c))
+			fmt.Fprintf(&cols, " %-*s  ", width, fmt.Sprintf("col %d", c))
 		}
-		fmt.Fprintln(w)
+		fmt.Fprintln(w, strings.TrimRight(cols.String(), " "))
 	}
 }

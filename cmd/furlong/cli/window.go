@@ -1,6 +1,10 @@
 package cli
 
 import (
+	"errors"
+	"io/fs"
+	"os"
+	"runtime"
 	"strings"
 )
 
@@ -29,5 +33,34 @@ func ParseWindowArgs(args []string) (WindowOptions, error) {
 	if o.Demo && o.Path != "" {
 		return o, usagef("--demo and a trial file cannot be opened together")
 	}
+	if o.Path != "" {
+		if _, err := os.Stat(o.Path); errors.Is(err, fs.ErrNotExist) {
+			if !strings.ContainsAny(o.Path, "./\\") {
+				// A word that is neither a command nor a file: most likely a
+				// mistyped command.
+				return o, usagef("there is no command %q", o.Path)
+			}
+			return o, errors.New("cannot find " + o.Path + ": check the name and folder")
+		}
+	}
+	if err := checkDisplay(); err != nil {
+		return o, err
+	}
 	return o, nil
+}
+
+// checkDisplay reports, on systems that draw windows through X11 or
+// Wayland, that there is no display to open the window on, instead of
+// letting the window library fail deep inside.
+func checkDisplay() error {
+	switch runtime.GOOS {
+	case "linux", "freebsd", "openbsd", "netbsd", "dragonfly":
+	default:
+		return nil
+	}
+	if os.Getenv("DISPLAY") != "" || os.Getenv("WAYLAND_DISPLAY") != "" {
+		return nil
+	}
+	return errors.New("the window needs a graphical display and none is set (DISPLAY and WAYLAND_DISPLAY are empty); " +
+		"the commands work without one: run 'furlong --help'")
 }
