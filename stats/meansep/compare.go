@@ -86,6 +86,12 @@ func (r *Result) Pair(i, j int) Pair {
 // studentised range for K means and df at |Diff|/SE·√2; with unequal
 // standard errors this is the Tukey–Kramer test (Kramer 1956, Biometrics
 // 12, 307–310). The confidence intervals are unadjusted t intervals.
+//
+// Precision: LSD p-values to about 1e-12 relative. Tukey p-values and the
+// critical value come from dist.StudentizedRange (relative error about
+// 1e-10) for up to 49 pairs, and from a precomputed dist.SurvivalTable
+// (absolute error below 1e-9) for 50 pairs (11 treatments) or more, which
+// keeps large trials fast. Memory is the Pairs slice.
 func Compare(means []float64, se PairSEer, df int, alpha float64) (*Result, error) {
 	k := len(means)
 	if k < 2 {

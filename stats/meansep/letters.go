@@ -54,8 +54,11 @@ type LetterOptions struct {
 // has two or more characters, the letters of a treatment are separated by
 // spaces ("a Z aa") so they can be read apart.
 //
-// Patterns that need more than MaxLetterColumns letters return
-// ErrTooManyLetters; non-finite means return ErrBadMean.
+// Working memory is O(k²) (significance bitsets and the pair counts of the
+// sweep) plus the columns, of which there are never more than
+// MaxLetterColumns: patterns that would need more at any stage of the
+// construction return ErrTooManyLetters (the display is never
+// approximated). Non-finite means return ErrBadMean.
 func Letters(means []float64, sig func(i, j int) bool, opt LetterOptions) ([]string, error) {
 	cols, err := letterColumns(means, sig, opt)
 	if err != nil {

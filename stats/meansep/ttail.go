@@ -49,7 +49,9 @@ func newTTail(nu float64, n int, tmax float64) *tTail {
 	if n < tTailMin || !(tmax > 0) || math.IsInf(tmax, 0) {
 		return tt
 	}
-	pieces := int(math.Ceil(tmax / tt.h))
+	// Beyond t = 100 (p below 1e-200 for ν ≥ 100; far in the tail for any
+	// ν) direct evaluation is used, which also bounds the table's size.
+	pieces := int(math.Ceil(math.Min(tmax, 100) / tt.h))
 	tt.tmax = float64(pieces) * tt.h
 	tt.coef = make([][]float64, pieces)
 	const m = tTailDeg + 1
