@@ -87,3 +87,27 @@ func BenchmarkAnalyzeAll300x10(b *testing.B) {
 		}
 	}
 }
+
+// BenchmarkAnalyze300Cold is BenchmarkAnalyze300 without the studentised
+// range table cache: it cycles through more trials with distinct error df
+// than the cache holds, so every analysis builds its table (the cost of the
+// first analysis of a trait).
+func BenchmarkAnalyze300Cold(b *testing.B) {
+	var ts []*trial.Trial
+	for i := 0; i < 20; i++ {
+		t := variety(b, 300, 4, 1, 0.02)
+		// Drop i more plots so that each trial has its own error df.
+		for j := 0; j < i; j++ {
+			t.Traits[0].Values[j*7+3] = trial.Missing
+		}
+		ts = append(ts, t)
+	}
+	b.ResetTimer()
+	i := 0
+	for b.Loop() {
+		if _, err := Analyze(ts[i%len(ts)], "t0", Options{}); err != nil {
+			b.Fatal(err)
+		}
+		i++
+	}
+}
