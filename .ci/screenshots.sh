@@ -1,0 +1,30 @@
+#!/usr/bin/env bash
+# Takes one screenshot per step of the window on the demo trial, and one of
+# the start screen, at 1366×768 (a common field-office laptop):
+#   .ci/screenshots.sh BINARY OUTDIR
+# Uses ../shared/tools/screenshot.sh when present (it installs Xvfb, xdotool
+# and ImageMagick with apt-get when missing).
+set -euo pipefail
+bin=$(realpath "$1"); out=$2
+mkdir -p "$out"; out=$(realpath "$out")
+tool=$(dirname "$0")/../../shared/tools/screenshot.sh
+[ -x "$tool" ] || tool=$(dirname "$0")/../../../shared/tools/screenshot.sh
+if [ ! -f "$tool" ]; then
+  echo "screenshots: needs shared/tools/screenshot.sh beside the repository" >&2
+  exit 1
+fi
+actions=$(mktemp)
+trap 'rm -f "$actions"' EXIT
+# The step navigator's cards sit at x=100, one every 105 pixels from y=50.
+cat >"$actions" <<ACT
+for s in 1:setup 2:field 3:record 4:compare 5:report; do
+  n=\${s%%:*}; name=\${s#*:}
+  xdotool mousemove --window \$WID 100 \$((50 + (n - 1) * 105)) click 1
+  sleep 2
+  shot \$name.png
+done
+ACT
+bash "$tool" -w 3 -a "$actions" "$out/last.png" "$bin" --demo >/dev/null
+rm -f "$out/last.png"
+bash "$tool" -w 2 "$out/start.png" "$bin" >/dev/null
+ls "$out"
