@@ -29,8 +29,8 @@ type ANOVA struct {
 	// RelativeEfficiency of the blocking against a completely randomised
 	// design (Gomez & Gomez 1984, section 2.2.3), with that section's
 	// adjustment when the error df are below 20; 0 when not applicable
-	// (only an RCBD with one plot of each treatment in every block and no
-	// missing plots has one).
+	// (only an RCBD has one; with missing plots it uses the adjusted block
+	// mean square and is approximate).
 	RelativeEfficiency float64
 
 	Fitted    []float64 // per observation, in input order

@@ -565,8 +565,8 @@ func assemble(r *fitResult, trt factorInfo, nuis []factorInfo, n, dfe int, gm, s
 		a.SEMean = math.Sqrt(mse / reps)
 		a.SED = math.Sqrt(2 * mse / reps)
 	}
-	if len(nuis) == 1 && balanced && n == k*nuis[0].levels {
-		a.RelativeEfficiency = relativeEfficiency(src[1].MS, mse, nuis[0].levels, k)
+	if len(nuis) == 1 && mse > 0 {
+		a.RelativeEfficiency = relativeEfficiency(src[1].MS, mse, nuis[0].levels, k, a.DFError)
 	}
 	counts := trt.counts
 	a.pairSE = func(i, j int) float64 {
@@ -599,12 +599,17 @@ func assemble(r *fitResult, trt factorInfo, nuis []factorInfo, n, dfe int, gm, s
 // the precision adjustment k = [(n₁+1)(n₂+3)] / [(n₁+3)(n₂+1)], with
 // n₁ = (r−1)(t−1) and n₂ = t(r−1) the error df of the RCBD and of the CRD
 // (same section, from memory).
-func relativeEfficiency(eb, ee float64, r, t int) float64 {
+//
+// With missing plots the same formula is applied to the block mean square
+// adjusted for treatments and to the actual error df (n₁ = error df, n₂ =
+// n₁ + r − 1, which reduce to the values above for complete data): an
+// approximation, as usual for incomplete RCBDs (common practice).
+func relativeEfficiency(eb, ee float64, r, t, dfe int) float64 {
 	rf, tf := float64(r), float64(t)
 	re := ((rf-1)*eb + rf*(tf-1)*ee) / ((rf*tf - 1) * ee)
-	n1 := (rf - 1) * (tf - 1)
+	n1 := float64(dfe)
 	if n1 < 20 {
-		n2 := tf * (rf - 1)
+		n2 := n1 + rf - 1
 		re *= ((n1 + 1) * (n2 + 3)) / ((n1 + 3) * (n2 + 1))
 	}
 	return re

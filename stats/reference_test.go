@@ -202,8 +202,17 @@ func TestBarleyRCBDMissing(t *testing.T) {
 	if a.Balanced || !a.Adjusted {
 		t.Errorf("Balanced %v Adjusted %v, want false true", a.Balanced, a.Adjusted)
 	}
-	if a.SEMean != 0 || a.SED != 0 || a.RelativeEfficiency != 0 {
-		t.Errorf("SEMean %g SED %g RE %g, want 0 for unbalanced data", a.SEMean, a.SED, a.RelativeEfficiency)
+	if a.SEMean != 0 || a.SED != 0 {
+		t.Errorf("SEMean %g SED %g, want 0 for unbalanced data", a.SEMean, a.SED)
+	}
+	// Relative efficiency with the adjusted block MS (Gomez & Gomez 1984,
+	// sec. 2.2.3, applied to incomplete data as an approximation): from R's
+	// adjusted site MS 1014.3678279768 and MSE 20.2427912051622 with r = 6,
+	// t = 10 and 43 error df (no small-df factor):
+	// (5·1014.3678279768 + 54·20.2427912051622) / (59·20.2427912051622).
+	wantRE := (5*1014.3678279768 + 54*20.2427912051622) / (59 * 20.2427912051622)
+	if math.Abs(a.RelativeEfficiency-wantRE) > 1e-9*wantRE {
+		t.Errorf("relative efficiency %.12g, want %.12g", a.RelativeEfficiency, wantRE)
 	}
 	checkLeverage(t, a, m)
 }
