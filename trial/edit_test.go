@@ -105,8 +105,7 @@ func TestSetValueAndData(t *testing.T) {
 		v   float64
 		msg string
 	}{
-		{0, "ht", 401, "Plant height 401 is outside its valid range 20 to 400"},
-		{0, "mst", 50, "outside its valid range 5 to 45"},
+		{0, "mst", 101, "is a percentage, so 101 is not possible"},
 		{0, "yld", 10, "is computed from other traits, so it cannot be entered"},
 		{0, "lodge", 1, `the trial has no trait "lodge"`},
 		{12, "ht", 100, "there is no plot 13 in walking order; the trial has 12 plots"},
@@ -118,6 +117,17 @@ func TestSetValueAndData(t *testing.T) {
 	}
 	if tr.Traits[2].Values[0] != 250 {
 		t.Error("refused value was stored")
+	}
+	// A value outside the valid range is data: kept, and flagged by
+	// RangeNote (the field book import treats it the same way).
+	if err := tr.SetValue(0, "ht", 401); err != nil {
+		t.Errorf("out-of-range value refused: %v", err)
+	}
+	if got, want := tr.Traits[2].RangeNote(401), "Plant height 401 is outside its valid range 20 to 400; check it"; got != want {
+		t.Errorf("RangeNote = %q, want %q", got, want)
+	}
+	if tr.Traits[2].RangeNote(250) != "" || tr.Traits[2].RangeNote(Missing) != "" {
+		t.Error("RangeNote flags a value in range or a missing value")
 	}
 	if err := tr.SetValue(0, "ht", Missing); err != nil || tr.HasData() {
 		t.Errorf("clearing: %v, HasData %v", err, tr.HasData())

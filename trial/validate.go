@@ -306,9 +306,6 @@ func valueProblem(tr *Trait, v float64) string {
 	if math.IsInf(v, 0) {
 		return fmt.Sprintf("the %s value is infinite", tr.label())
 	}
-	if tr.Min != nil && v < *tr.Min || tr.Max != nil && v > *tr.Max {
-		return fmt.Sprintf("%s %g is outside its valid range %s", tr.label(), v, tr.rangeText())
-	}
 	switch tr.Kind {
 	case Count:
 		if v < 0 || v != math.Trunc(v) {
@@ -320,6 +317,17 @@ func valueProblem(tr *Trait, v float64) string {
 		}
 	}
 	return ""
+}
+
+// RangeNote says, for a value outside the trait's valid range, that it is:
+// "Plant height 900 is outside its valid range 20 to 400; check it". It is
+// "" for values in range and for missing values. Such a value is kept as
+// data (a measurement may really be unusual) and flagged where it is shown.
+func (tr *Trait) RangeNote(v float64) string {
+	if IsMissing(v) || !(tr.Min != nil && v < *tr.Min || tr.Max != nil && v > *tr.Max) {
+		return ""
+	}
+	return fmt.Sprintf("%s %g is outside its valid range %s; check it", tr.label(), v, tr.rangeText())
 }
 
 // label is the trait's name for messages.

@@ -2,6 +2,7 @@ package trial
 
 import (
 	"errors"
+	"math"
 	"strings"
 	"testing"
 	"time"
@@ -133,8 +134,8 @@ func TestValidationRules(t *testing.T) {
 			"Traits[2].Decimals", "is set to 7 decimals; use 0 to 6"},
 		{"values length", func(tr *Trial) { tr.Traits[2].Values = tr.Traits[2].Values[:5] },
 			"Traits[2].Values", `trait "ht" has 5 values for 12 plots`},
-		{"value out of range", func(tr *Trial) { tr.Traits[2].Values[0] = 900 },
-			"Traits[2].Values[0]", "Plant height 900 is outside its valid range 20 to 400"},
+		{"infinite value", func(tr *Trial) { tr.Traits[2].Values[0] = math.Inf(1) },
+			"Traits[2].Values[0]", "Plant height value is infinite"},
 		{"fractional count", func(tr *Trial) {
 			tr.Traits[2].Kind, tr.Traits[2].Min, tr.Traits[2].Max = Count, nil, nil
 			tr.Traits[2].Values[1] = 2.5

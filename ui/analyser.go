@@ -28,7 +28,7 @@ type resultSet struct {
 	traits   []traitResult
 	complete bool // every trait analysed (not only the focus)
 	charts   []chartImage
-	took     time.Duration
+	took     time.Duration // until the focus trait's tables were ready
 }
 
 // result returns the analysis of the trait with key, or nil.
@@ -68,9 +68,14 @@ type analyser struct {
 	delivered func(*resultSet)
 
 	rounds sync.WaitGroup // running rounds
+	// post hands a delivery to the UI goroutine: fyne.Do. (The test driver
+	// runs fyne.Do at once on the calling goroutine; tests replace post to
+	// run deliveries on the test goroutine, as the real driver runs them on
+	// the main one.)
+	post func(func())
 }
 
-func newAnalyser(u *App) *analyser { return &analyser{u: u, stale: true} }
+func newAnalyser(u *App) *analyser { return &analyser{u: u, stale: true, post: fyne.Do} }
 
 // dataChanged marks results stale and recomputes when a screen shows them.
 func (a *analyser) dataChanged() {
@@ -172,15 +177,14 @@ func (a *analyser) run() {
 			set.took = time.Since(start)
 			tables := *set
 			tables.traits = append([]traitResult(nil), set.traits...)
-			fyne.Do(func() { a.deliver(&tables) })
+			a.post(func() { a.deliver(&tables) })
 			set.charts = drawCharts(snap, tr, method)
 			if ctx.Err() != nil {
 				return
 			}
 			withCharts := tables
 			withCharts.charts = set.charts
-			withCharts.took = time.Since(start)
-			fyne.Do(func() { a.deliver(&withCharts) })
+			a.post(func() { a.deliver(&withCharts) })
 		}
 		for _, tr := range snap.Traits {
 			if tr.Key == focus {
@@ -200,8 +204,10 @@ func (a *analyser) run() {
 		}
 		set.traits = ordered
 		set.complete = true
-		set.took = time.Since(start)
-		fyne.Do(func() { a.deliver(set) })
+		if set.took == 0 {
+			set.took = time.Since(start)
+		}
+		a.post(func() { a.deliver(set) })
 	}()
 }
 

@@ -5,6 +5,7 @@ import (
 	"encoding/hex"
 	"os"
 	"path/filepath"
+	"slices"
 	"time"
 
 	"fyne.io/fyne/v2"
@@ -26,9 +27,6 @@ type Options struct {
 // autosaveDelay is the debounce of the background saver: every edit is
 // written to the recovery file within this delay plus one write.
 const autosaveDelay = 800 * time.Millisecond
-
-// recoveryUntitled is the recovery file of a trial that was never saved.
-const recoveryUntitled = "untitled.furlong"
 
 // App is Furlong's window: the step navigator, the screens of each step and
 // the open trial.
@@ -114,14 +112,26 @@ func recoveryDir(a fyne.App) string {
 	return filepath.Join(os.TempDir(), "furlong-recovery")
 }
 
-// recoveryPath is the recovery file of the trial at path ("" for a trial
-// never saved).
+// recoveryPath is the recovery file of the trial at path. A trial never
+// saved gets a file of its own per session (untitled-TIME.furlong), so that
+// a second untitled trial never overwrites the recovery of a first.
 func (u *App) recoveryPath(path string) string {
 	if path == "" {
-		return filepath.Join(u.recoveryDir, recoveryUntitled)
+		return filepath.Join(u.recoveryDir, "untitled-"+time.Now().Format("20060102-150405.000000")+trialExt)
 	}
 	sum := sha256.Sum256([]byte(path))
-	return filepath.Join(u.recoveryDir, hex.EncodeToString(sum[:8])+".furlong")
+	return filepath.Join(u.recoveryDir, hex.EncodeToString(sum[:8])+trialExt)
+}
+
+// newestUntitled returns the most recent recovery file of a trial never
+// saved, or "".
+func (u *App) newestUntitled() string {
+	m, _ := filepath.Glob(filepath.Join(u.recoveryDir, "untitled-*"+trialExt))
+	if len(m) == 0 {
+		return ""
+	}
+	slices.Sort(m) // the names sort by time
+	return m[len(m)-1]
 }
 
 // saveTrial writes t to path, creating the folder when needed.
@@ -136,6 +146,7 @@ func saveTrial(path string, t *trial.Trial) error {
 func (u *App) OpenTrial(t *trial.Trial, path string) {
 	u.closeDocument()
 	u.doc = newDocument(t, path)
+	u.doc.recovery = u.recoveryPath(path)
 	u.doc.onChange = u.onChange
 	u.lastSaved = 0
 	for i := range u.steps {
@@ -147,7 +158,9 @@ func (u *App) OpenTrial(t *trial.Trial, path string) {
 	}
 	u.nav.setEnabled(true)
 	u.onChange(changeAll)
-	u.showStep(u.suggestedStep())
+	// Open on the suggested step, but never straight into an analysis: a
+	// large trial would start computing before the user asked for it.
+	u.showStep(min(u.suggestedStep(), stepRecord))
 }
 
 // closeDocument forgets the open trial after its last autosave is written.
@@ -178,40 +191,63 @@ func (u *App) OpenFile(path string) error {
 func (u *App) openPath(path string) { _ = u.OpenFile(path) }
 
 // offerRecovery asks whether to restore a recovery copy of path that is
-// newer than the file itself.
+// newer than the file itself; for path "" the newest copy of a trial never
+// saved.
 func (u *App) offerRecovery(path string) {
-	rp := u.recoveryPath(path)
-	rs, err := os.Stat(rp)
-	if err != nil {
+	rp, rt, when, ok := u.newerRecovery(path)
+	if !ok {
 		return
 	}
+	msg := "Furlong kept a copy of this trial from " + when.Format("2 Jan 2006 15:04") +
+		" with changes that were never saved (the program may have closed unexpectedly).\n\nRestore those changes?"
+	if path == "" {
+		msg = "Furlong kept the trial “" + rt.Title + "” from " + when.Format("2 Jan 2006 15:04") +
+			", which was never saved to a file.\n\nOpen it again? (No discards it.)"
+	}
+	dialog.ShowConfirm("Unsaved changes found", msg, func(ok bool) {
+		if ok {
+			u.restore(path, rp, rt)
+		} else if path == "" {
+			os.Remove(rp)
+		}
+	}, u.win)
+}
+
+// newerRecovery returns the recovery copy of path when it is newer than
+// the file (for a trial never saved: the newest such copy).
+func (u *App) newerRecovery(path string) (string, *trial.Trial, time.Time, bool) {
+	rp := u.recoveryPath(path)
+	if path == "" {
+		if rp = u.newestUntitled(); rp == "" {
+			return "", nil, time.Time{}, false
+		}
+	}
+	rs, err := os.Stat(rp)
+	if err != nil {
+		return "", nil, time.Time{}, false
+	}
 	if path != "" {
-		fs, err := os.Stat(path)
-		if err == nil && !rs.ModTime().After(fs.ModTime()) {
-			return
+		if fs, err := os.Stat(path); err == nil && !rs.ModTime().After(fs.ModTime()) {
+			return "", nil, time.Time{}, false
 		}
 	}
 	rt, err := loadFile(rp)
 	if err != nil {
+		return "", nil, time.Time{}, false
+	}
+	return rp, rt, rs.ModTime(), true
+}
+
+// restore replaces the open trial (or opens one) with its recovery copy
+// rp, as an undoable edit that leaves the trial marked unsaved.
+func (u *App) restore(path, rp string, rt *trial.Trial) {
+	if path == "" || u.doc == nil {
+		u.OpenTrial(rt, "")
+		u.doc.recovery = rp // keep writing to the same copy
+		u.doc.edited(changeAll)
 		return
 	}
-	msg := "Furlong kept a copy of this trial from " + rs.ModTime().Format("2 Jan 2006 15:04") +
-		" with changes that were never saved (the program may have closed unexpectedly).\n\nRestore those changes?"
-	if path == "" {
-		msg = "Furlong kept a trial from " + rs.ModTime().Format("2 Jan 2006 15:04") +
-			" that was never saved to a file.\n\nOpen it again?"
-	}
-	dialog.ShowConfirm("Unsaved changes found", msg, func(ok bool) {
-		if !ok {
-			return
-		}
-		if path == "" || u.doc == nil {
-			u.OpenTrial(rt, "")
-			u.doc.edited(changeAll)
-			return
-		}
-		u.doc.apply(&replaceTrial{what: "restore", before: cloneTrial(u.doc.t), after: rt, c: changeAll})
-	}, u.win)
+	u.doc.apply(&replaceTrial{what: "restore", before: cloneTrial(u.doc.t), after: rt, c: changeAll})
 }
 
 // OpenDemo opens the built-in demo trial as a new, unsaved trial.
@@ -248,19 +284,22 @@ func (u *App) onChange(c change) {
 	}
 	u.updateTitle()
 	u.nav.update(u.doc.t, u.suggestedStep())
-	if u.doc.dirty && u.doc.gen != u.lastSaved {
-		u.saver.submit(saveJob{snap: cloneTrial(u.doc.t), path: u.recoveryPath(u.doc.path), gen: u.doc.gen})
-		u.status.SetText("Changes not yet on disk…")
-	}
-	if c&(changeValues|changeStructure) != 0 {
-		u.compute.dataChanged()
-	}
 	for _, s := range u.steps {
 		if s != nil {
 			s.refresh(c)
 		}
 	}
 	u.updateMenus()
+	// Background work starts once this edit's screen work is done.
+	if c&(changeValues|changeStructure) != 0 {
+		u.compute.dataChanged()
+	}
+	// The snapshot goes to the saver last, once this edit's screen work is
+	// done.
+	if u.doc.dirty && u.doc.gen != u.lastSaved {
+		u.status.SetText("Changes not yet on disk…")
+		u.saver.submit(saveJob{snap: cloneTrial(u.doc.t), path: u.doc.recovery, gen: u.doc.gen})
+	}
 }
 
 // onSaved runs on the UI goroutine after a write finished.
@@ -378,32 +417,15 @@ func (u *App) suggestedStep() stepID {
 	return stepCompare
 }
 
-// dataProgress counts the stored values entered and expected.
+// dataProgress counts the stored values entered and expected (derived
+// traits are computed, not entered).
 func dataProgress(t *trial.Trial) (filled, total int) {
-	for _, tr := range t.Traits {
-		if tr.Derived != nil {
-			continue
-		}
-		for i := range t.Plots {
-			total++
-			if i < len(tr.Values) && !trial.IsMissing(tr.Values[i]) {
-				filled++
-			}
-		}
-	}
-	return filled, total
+	s := t.Summary()
+	return s.Entered, s.Cells
 }
 
-// excludedPlots counts plots with at least one exclusion.
-func excludedPlots(t *trial.Trial) int {
-	n := 0
-	for _, p := range t.Plots {
-		if len(p.Exclusions) > 0 {
-			n++
-		}
-	}
-	return n
-}
+// excludedPlots counts plots left out of at least one trait.
+func excludedPlots(t *trial.Trial) int { return t.Summary().ExcludedPlots }
 
 // onClose never discards changes silently.
 func (u *App) onClose() {
@@ -420,7 +442,7 @@ func (u *App) onClose() {
 	discard := widget.NewButton("Close without saving", func() {
 		d.Hide()
 		u.saver.sync()
-		os.Remove(u.recoveryPath(u.doc.path))
+		os.Remove(u.doc.recovery)
 		u.doc.dirty = false
 		u.quit()
 	})

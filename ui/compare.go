@@ -2,6 +2,7 @@ package ui
 
 import (
 	"fmt"
+	"math"
 	"slices"
 	"strconv"
 	"strings"
@@ -9,9 +10,10 @@ import (
 	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/canvas"
 	"fyne.io/fyne/v2/container"
+	"fyne.io/fyne/v2/theme"
 	"fyne.io/fyne/v2/widget"
 
-	"furlong/stats"
+	"furlong/export"
 	"furlong/trial"
 	"furlong/trial/analysis"
 )
@@ -38,14 +40,13 @@ type compareStep struct {
 	charts   *container.AppTabs
 
 	summary     *widget.Table
+	summaryHead []string
 	summaryRows [][]string
 
 	shown         *resultSet
 	shownDecimals int
 	root          fyne.CanvasObject
 }
-
-var summaryHead = []string{"Trait", "Plots", "Mean", "CV %", "P (treatments)", "LSD", "HSD", "Best treatment"}
 
 func newCompareStep(u *App) *compareStep {
 	c := &compareStep{u: u, method: u.prefs.method, alpha: u.prefs.alpha}
@@ -99,26 +100,29 @@ func newCompareStep(u *App) *compareStep {
 	c.means.UpdateHeader = func(id widget.TableCellID, o fyne.CanvasObject) {
 		o.(*widget.Label).SetText([]string{"Treatment", "Plots", "Mean", "SE", "Letters"}[id.Col])
 	}
-	for i, w := range []float32{200, 60, 90, 80, 80} {
+	for i, w := range []float32{170, 55, 80, 75, 75} {
 		c.means.SetColumnWidth(i, w)
 	}
 	c.charts = container.NewAppTabs()
 
 	c.summary = widget.NewTableWithHeaders(
-		func() (int, int) { return len(c.summaryRows), len(summaryHead) },
+		func() (int, int) { return len(c.summaryRows), len(c.summaryHead) },
 		func() fyne.CanvasObject { return widget.NewLabel("") },
 		func(id widget.TableCellID, o fyne.CanvasObject) {
-			o.(*widget.Label).SetText(c.summaryRows[id.Row][id.Col])
+			text := ""
+			if row := c.summaryRows[id.Row]; id.Col < len(row) {
+				text = row[id.Col]
+			}
+			o.(*widget.Label).SetText(text)
 		})
 	c.summary.ShowHeaderColumn = false
 	c.summary.CreateHeader = func() fyne.CanvasObject {
 		return widget.NewLabelWithStyle("", fyne.TextAlignLeading, fyne.TextStyle{Bold: true})
 	}
 	c.summary.UpdateHeader = func(id widget.TableCellID, o fyne.CanvasObject) {
-		o.(*widget.Label).SetText(summaryHead[id.Col])
-	}
-	for i, w := range []float32{220, 60, 90, 70, 110, 80, 80, 240} {
-		c.summary.SetColumnWidth(i, w)
+		if id.Col < len(c.summaryHead) {
+			o.(*widget.Label).SetText(c.summaryHead[id.Col])
+		}
 	}
 
 	controls := container.NewHBox(widget.NewLabel("Trait"), container.NewGridWrap(fyne.NewSize(300, c.traitSel.MinSize().Height), c.traitSel), widget.NewSeparator(), c.methodSel,
@@ -140,6 +144,18 @@ func newCompareStep(u *App) *compareStep {
 	u.compute.onResults = append(u.compute.onResults, c.show)
 	c.refresh(changeAll)
 	return c
+}
+
+// summaryWidths fits the summary columns to their headings.
+func (c *compareStep) summaryWidths() {
+	for i, h := range c.summaryHead {
+		w := fyne.MeasureText(h, theme.TextSize(), fyne.TextStyle{Bold: true}).Width + 4*theme.Padding()
+		w = min(max(w, 110), 260)
+		if i == 0 {
+			w = 290
+		}
+		c.summary.SetColumnWidth(i, w)
+	}
 }
 
 func heading(s string) *widget.Label {
@@ -192,12 +208,16 @@ func (c *compareStep) show(s *resultSet) {
 	if s == nil {
 		return
 	}
-	c.state.SetText(fmt.Sprintf("computed in %d ms", s.took.Milliseconds()))
+	c.state.SetText(fmt.Sprintf("up to date (%d ms)", s.took.Milliseconds()))
 	tr := s.result(c.traitKey)
 	c.anova.Objects = nil
 	c.statsBox.Objects = nil
 	c.meanRows = nil
 	switch {
+	case len(s.snap.Traits) == 0:
+		c.warnings.SetText("The trial has no traits yet. Add them in Setup and record data in Record; the analysis appears here.")
+	case len(s.snap.Plots) == 0:
+		c.warnings.SetText("The trial is not laid out yet. Randomise it in Field and record data; the analysis appears here.")
 	case tr == nil:
 		c.warnings.SetText("Computing…")
 	case tr.err != nil:
@@ -213,7 +233,8 @@ func (c *compareStep) show(s *resultSet) {
 		c.showCharts(s.charts)
 	}
 	if s.complete {
-		c.summaryRows = summaryRows(s)
+		c.summaryHead, c.summaryRows = summaryTable(s, c.method)
+		c.summaryWidths()
 		c.summary.Refresh()
 	}
 }
@@ -249,10 +270,11 @@ func (c *compareStep) showResult(r *analysis.Result) {
 		if c.method == analysis.Tukey {
 			sep, v = "HSD", r.HSD
 		}
+		level := fmt.Sprintf("%s (%g %%)", sep, math.Round(1000*r.Alpha)/10)
 		if v != nil {
-			add(fmt.Sprintf("%s (%s %%)", sep, num(100*r.Alpha, 2)), fixed(*v, r.Decimals+1))
+			add(level, fixed(*v, r.Decimals+1))
 		} else {
-			add(fmt.Sprintf("%s (%s %%)", sep, num(100*r.Alpha, 2)), "differs between pairs (unequal plots per treatment)")
+			add(level, "differs between pairs (unequal plots per treatment)")
 		}
 		add("R²", fixed(a.RSquared, 3))
 		if a.RelativeEfficiency > 0 {
@@ -358,58 +380,84 @@ func sourceName(s string) string {
 	return s
 }
 
-// treatmentTest returns the treatment line of an ANOVA, or nil.
-func treatmentTest(a *stats.ANOVA) *stats.Source {
-	if a == nil {
-		return nil
-	}
-	for i := range a.Sources {
-		if a.Sources[i].Name == "treatment" {
-			return &a.Sources[i]
-		}
-	}
-	return nil
-}
-
-// summaryRows is one line per trait, as the report's summary sheet.
-func summaryRows(s *resultSet) [][]string {
-	var rows [][]string
+// summaryTable is the all-traits table of the season report's summary
+// sheet (export.NewSummary): one row per treatment with each trait's mean
+// and letters and the percentage of the check, then the lines of
+// statistics.
+func summaryTable(s *resultSet, method analysis.Method) (head []string, rows [][]string) {
+	outs := make([]analysis.Outcome, 0, len(s.traits))
+	keys := make([]string, 0, len(s.traits))
 	for _, tr := range s.traits {
-		t := s.snap.Trait(tr.key)
-		if t == nil {
-			continue
+		outs = append(outs, analysis.Outcome{Key: tr.key, Result: tr.res, Err: tr.err})
+		keys = append(keys, tr.key)
+	}
+	sum := export.NewSummary(s.snap, outs, keys, method, s.alpha)
+	head = []string{"Treatment"}
+	for _, st := range sum.Traits {
+		h := st.Name
+		if st.Unit != "" {
+			h += " (" + st.Unit + ")"
 		}
-		row := []string{traitLabel(t), "", "", "", "", "", "", ""}
-		if tr.err != nil || tr.res == nil || tr.res.ANOVA == nil {
-			m := "not analysed"
-			if tr.err != nil {
-				m = explain("Not analysed", tr.err).What
+		head = append(head, h)
+	}
+	if sum.HasCheck {
+		head = append(head, "% of check")
+	}
+	for _, r := range sum.Rows {
+		row := []string{r.Treatment + "  " + r.Name}
+		if r.Check {
+			row[0] += " (check)"
+		}
+		for i, c := range r.Cells {
+			if !c.OK {
+				row = append(row, "–")
+				continue
 			}
-			row[7] = m
-			rows = append(rows, row)
-			continue
+			row = append(row, strings.TrimSpace(fixed(c.Mean, sum.Traits[i].Decimals+1)+" "+c.Letters))
 		}
-		r := tr.res
-		row[1] = strconv.Itoa(r.N)
-		row[2] = fixed(r.ANOVA.GrandMean, r.Decimals+1)
-		row[3] = fixed(r.ANOVA.CVPercent, 1)
-		if src := treatmentTest(r.ANOVA); src != nil && src.HasTest {
-			row[4] = pValue(src.P)
-		}
-		row[5] = optNum(r.LSD, r.Decimals+1)
-		row[6] = optNum(r.HSD, r.Decimals+1)
-		if len(r.Means) > 0 {
-			best := r.Means[0]
-			for _, m := range r.Means[1:] {
-				if (r.HigherBetter && m.BackMean > best.BackMean) || (!r.HigherBetter && m.BackMean < best.BackMean) {
-					best = m
-				}
+		if sum.HasCheck {
+			if r.PercentOfCheck != nil {
+				row = append(row, fixed(*r.PercentOfCheck, 0))
+			} else {
+				row = append(row, "–")
 			}
-			row[7] = best.Treatment + " " + best.Name + " (" + fixed(best.BackMean, r.Decimals+1) + ")"
 		}
 		rows = append(rows, row)
 	}
-	return rows
+	line := func(name string, f func(st export.SummaryTrait) string) {
+		row := []string{name}
+		for _, st := range sum.Traits {
+			if st.Result == nil {
+				row = append(row, "")
+				continue
+			}
+			row = append(row, f(st))
+		}
+		if sum.HasCheck {
+			row = append(row, "")
+		}
+		rows = append(rows, row)
+	}
+	line("Mean", func(st export.SummaryTrait) string { return fixed(st.GrandMean, st.Decimals+1) })
+	line("CV %", func(st export.SummaryTrait) string { return fixed(st.CVPercent, 1) })
+	line(export.MSDLabel(method, s.alpha), func(st export.SummaryTrait) string {
+		if st.MSD == nil {
+			return "unequal plots"
+		}
+		return fixed(*st.MSD, st.Decimals+1)
+	})
+	line("P (treatments)", func(st export.SummaryTrait) string {
+		if !st.HasP {
+			return "–"
+		}
+		return pValue(st.P)
+	})
+	for _, st := range sum.Traits {
+		if st.Result == nil && st.Reason != "" {
+			rows = append(rows, []string{st.Name + ": " + st.Reason})
+		}
+	}
+	return head, rows
 }
 
 // analysableDefault picks the trait Compare opens with: the first derived

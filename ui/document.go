@@ -17,11 +17,13 @@ const (
 // methods run on the UI goroutine; background work only ever sees
 // snapshots made by cloneTrial.
 type document struct {
-	t     *trial.Trial
-	path  string // "" for a trial never saved
-	dirty bool   // edited since the last explicit save
-	gen   uint64 // incremented by every edit
-	hist  history
+	t    *trial.Trial
+	path string // "" for a trial never saved
+	// recovery is where the autosave writes (see App.recoveryPath).
+	recovery string
+	dirty    bool   // edited since the last explicit save
+	gen      uint64 // incremented by every edit
+	hist     history
 
 	// row is the plot index touched by the edit being reported, or -1
 	// when the edit may touch any plot; screens use it to redraw one row.

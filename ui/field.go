@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"math"
 	"slices"
 	"strconv"
 	"strings"
@@ -35,7 +36,16 @@ type fieldStep struct {
 
 	fmap    *fieldmap.Map
 	details *widget.Label
+
+	// Lengths are shown in unit ("m" or "ft"); perUnit metres make one.
+	unit    string
+	perUnit float64
+	shown   map[*widget.Entry]float64 // metres behind each length's text
 }
+
+// footM is the international foot in metres (exact by definition, NIST
+// Handbook 44, Appendix C).
+const footM = 0.3048
 
 var (
 	arrangeLabels = []string{"side by side", "one behind the other"}
@@ -47,7 +57,10 @@ var (
 )
 
 func newFieldStep(u *App) *fieldStep {
-	f := &fieldStep{u: u}
+	f := &fieldStep{u: u, unit: "m", perUnit: 1}
+	if u.prefs.units == unitsImperial {
+		f.unit, f.perUnit = "ft", footM
+	}
 	num := func() *widget.Entry {
 		e := widget.NewEntry()
 		e.Validator = func(s string) error {
@@ -55,7 +68,7 @@ func newFieldStep(u *App) *fieldStep {
 				return nil
 			}
 			if v, err := strconv.ParseFloat(strings.TrimSpace(s), 64); err != nil || v < 0 {
-				return errors.New("a length in metres, 0 or more")
+				return errors.New("a length, 0 or more")
 			}
 			return nil
 		}
@@ -69,11 +82,11 @@ func newFieldStep(u *App) *fieldStep {
 	f.walk = widget.NewSelect(walkLabels, nil)
 	applyLayout := widget.NewButtonWithIcon("Apply layout", theme.ConfirmIcon(), f.applyLayout)
 	geom := widget.NewForm(
-		widget.NewFormItem("Plot length (m)", f.plotLen),
-		widget.NewFormItem("Plot width (m)", f.plotWid),
-		widget.NewFormItem("Harvested length (m)", f.harvLen),
-		widget.NewFormItem("Harvested width (m)", f.harvWid),
-		widget.NewFormItem("Alley (m)", f.alley),
+		widget.NewFormItem("Plot length ("+f.unit+")", f.plotLen),
+		widget.NewFormItem("Plot width ("+f.unit+")", f.plotWid),
+		widget.NewFormItem("Harvested length ("+f.unit+")", f.harvLen),
+		widget.NewFormItem("Harvested width ("+f.unit+")", f.harvWid),
+		widget.NewFormItem("Alley ("+f.unit+")", f.alley),
 		widget.NewFormItem("Plots per row", f.perRow),
 		widget.NewFormItem("Blocks", f.blocks),
 		widget.NewFormItem("Numbering", f.numbering),
@@ -125,22 +138,29 @@ func newFieldStep(u *App) *fieldStep {
 func (f *fieldStep) object() fyne.CanvasObject { return f.root }
 func (f *fieldStep) t() *trial.Trial           { return f.u.doc.t }
 
-func metres(v float64) string {
-	if v == 0 {
-		return ""
+// showLength puts a length in metres into e in the display unit and
+// remembers the metres, so that untouched text is read back exactly.
+func (f *fieldStep) showLength(e *widget.Entry, m float64) {
+	text := ""
+	if m != 0 {
+		text = strconv.FormatFloat(math.Round(m/f.perUnit*1000)/1000, 'f', -1, 64)
 	}
-	return strconv.FormatFloat(v, 'f', -1, 64)
+	if f.shown == nil {
+		f.shown = map[*widget.Entry]float64{}
+	}
+	e.SetText(text)
+	f.shown[e] = m
 }
 
 func (f *fieldStep) refresh(c change) {
 	t := f.t()
 	if c&(changeStructure|changeFile) != 0 {
 		l := t.Layout
-		f.plotLen.SetText(metres(l.PlotLength))
-		f.plotWid.SetText(metres(l.PlotWidth))
-		f.harvLen.SetText(metres(l.HarvestLength))
-		f.harvWid.SetText(metres(l.HarvestWidth))
-		f.alley.SetText(metres(l.Alley))
+		f.showLength(f.plotLen, l.PlotLength)
+		f.showLength(f.plotWid, l.PlotWidth)
+		f.showLength(f.harvLen, l.HarvestLength)
+		f.showLength(f.harvWid, l.HarvestWidth)
+		f.showLength(f.alley, l.Alley)
 		f.perRow.SetText(strconv.Itoa(l.PlotsPerRow))
 		if i := slices.Index(arrangeValues, l.Blocks); i >= 0 {
 			f.blocks.SetSelectedIndex(i)
@@ -232,11 +252,17 @@ func (f *fieldStep) layoutFromForm() (trial.Layout, error) {
 		if s == "" {
 			return 0
 		}
+		if m, ok := f.shown[e]; ok && m != 0 {
+			shown := math.Round(m/f.perUnit*1000) / 1000
+			if s == strconv.FormatFloat(shown, 'f', -1, 64) {
+				return m // untouched: keep the stored metres exactly
+			}
+		}
 		v, err := strconv.ParseFloat(s, 64)
 		if err != nil || v < 0 {
-			errs = append(errs, fmt.Errorf("the %s must be a length in metres, not “%s”", name, s))
+			errs = append(errs, fmt.Errorf("the %s must be a length in %s, 0 or more, not “%s”", name, f.unit, s))
 		}
-		return v
+		return v * f.perUnit
 	}
 	l.PlotLength = read(f.plotLen, "plot length")
 	l.PlotWidth = read(f.plotWid, "plot width")

@@ -77,8 +77,9 @@ func (u *App) save(asNew bool, then func()) {
 
 // saveTo writes the trial to path through the saver and waits for it.
 func (u *App) saveTo(path string, then func()) {
-	old := u.recoveryPath(u.doc.path)
+	old := u.doc.recovery
 	if u.doc.path != path {
+		u.doc.recovery = u.recoveryPath(path)
 		u.doc.path = path
 		u.prefs.onFileOpened(path)
 		u.prefs.onLastFolderChanged(filepath.Dir(path))

@@ -88,19 +88,11 @@ func closeRel(a, b, tol float64) bool {
 	return math.Abs(a-b) <= tol*math.Max(1, math.Abs(b))
 }
 
-// waitAnalysis shows Compare and waits until a complete round of analyses
-// arrived (a channel closed inside the fyne.Do delivery).
-func waitAnalysis(t *testing.T, u *App, show func()) *resultSet {
+// waitAnalysis runs show (which starts a round of analyses) and waits for
+// the round's results, delivered on the test goroutine.
+func waitAnalysis(t testing.TB, u *App, show func()) *resultSet {
 	t.Helper()
-	done := make(chan *resultSet)
-	u.compute.delivered = func(s *resultSet) {
-		if s.complete && s.gen == u.compute.gen {
-			u.compute.delivered = nil
-			done <- s
-		}
-	}
-	show()
-	return <-done
+	return pumpAnalysis(t, u, show)
 }
 
 // checkANOVA compares the treatment, block and error lines with R.
@@ -136,9 +128,6 @@ func checkANOVA(t *testing.T, got *analysis.Result, want expectedANOVA) {
 // R's, exclude two plots and compare with R's missing-plot analysis,
 // export the season report, save, reopen and find everything.
 func TestFlow(t *testing.T) {
-	if testing.Short() {
-		t.Skip("the whole flow takes a few seconds")
-	}
 	b := readBarley(t)
 	u, _ := newTestApp(t, 0)
 
@@ -292,6 +281,7 @@ func TestFlow(t *testing.T) {
 	if err := u2.OpenFile(path); err != nil {
 		t.Fatal(err)
 	}
+	u2.compute.rounds.Wait()
 	back := u2.doc.t
 	if back.Title != "Barley 1931" || back.Random.Seed != 1931 || len(back.Plots) != 60 {
 		t.Fatalf("reopened %q seed %d plots %d", back.Title, back.Random.Seed, len(back.Plots))

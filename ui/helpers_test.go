@@ -3,6 +3,7 @@ package ui
 import (
 	"io"
 	"math"
+	"sync"
 	"testing"
 	"time"
 
@@ -25,11 +26,18 @@ func newTestApp(t testing.TB, delay time.Duration) (*App, fyne.Window) {
 		delay = time.Hour
 	}
 	u := New(a, w, Options{Version: "test", autosaveDelay: delay})
+	// Deliveries of the analyser run on the test goroutine, when a test
+	// pumps them (pumpAnalysis), as the real driver runs them on the main
+	// goroutine.
+	posts := make(chan func(), 256)
+	u.compute.post = func(f func()) { posts <- f }
+	testPosts.Store(u.compute, posts)
 	u.recoveryDir = t.TempDir()
 	w.Resize(fyne.NewSize(1366, 768))
 	t.Cleanup(func() {
 		u.compute.shutdown()
 		u.saver.stop()
+		testPosts.Delete(u.compute)
 	})
 	return u, w
 }
@@ -77,3 +85,32 @@ func sameValue(a, b float64) bool {
 
 // encodeTo encodes t to nowhere, for timing.
 func encodeTo(t *trial.Trial) error { return trialfile.Encode(io.Discard, t) }
+
+func nan() float64 { return math.NaN() }
+
+// testPosts holds each test app's queue of analyser deliveries.
+var testPosts sync.Map // *analyser → chan func()
+
+// pumpAnalysis runs trigger, then runs the analyser's deliveries on the
+// test goroutine until a complete round of the newest generation arrived,
+// and waits for its goroutine to end.
+func pumpAnalysis(t testing.TB, u *App, trigger func()) *resultSet {
+	t.Helper()
+	v, _ := testPosts.Load(u.compute)
+	posts := v.(chan func())
+	trigger()
+	timeout := time.After(60 * time.Second)
+	for {
+		if s := u.compute.current; s != nil && s.complete && s.gen == u.compute.gen {
+			break
+		}
+		select {
+		case f := <-posts:
+			f()
+		case <-timeout:
+			t.Fatal("no complete round of analyses within a minute")
+		}
+	}
+	u.compute.rounds.Wait()
+	return u.compute.current
+}

@@ -90,14 +90,27 @@ func (c *setExclusions) label() string {
 }
 
 // replaceTrial swaps the whole trial content, for imports and other edits
-// that touch many plots at once.
+// that touch many plots at once. With keepDetails the descriptive fields
+// (title, site, notes, ...) are left as they are now, so that undoing a
+// structural edit does not also undo later, unrecorded typing in the
+// details form.
 type replaceTrial struct {
 	what          string
 	before, after *trial.Trial // private copies
 	c             change
+	keepDetails   bool
 }
 
-func (c *replaceTrial) do(t *trial.Trial)   { *t = *cloneTrial(c.after) }
-func (c *replaceTrial) undo(t *trial.Trial) { *t = *cloneTrial(c.before) }
+func (c *replaceTrial) do(t *trial.Trial)   { c.swap(t, c.after) }
+func (c *replaceTrial) undo(t *trial.Trial) { c.swap(t, c.before) }
 func (c *replaceTrial) kind() change        { return c.c }
 func (c *replaceTrial) label() string       { return c.what }
+
+func (c *replaceTrial) swap(t, to *trial.Trial) {
+	n := cloneTrial(to)
+	if c.keepDetails {
+		n.Title, n.Crop, n.Season, n.Site = t.Title, t.Crop, t.Season, t.Site
+		n.Investigator, n.Objective, n.Notes = t.Investigator, t.Objective, t.Notes
+	}
+	*t = *n
+}

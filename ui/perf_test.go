@@ -96,7 +96,6 @@ func BenchmarkChartsDemo(b *testing.B) {
 	}
 }
 
-
 // openAndShowRecord opens the trial file at path and lays out the Record
 // grid in a 1366×768 window.
 func openAndShowRecord(tb testing.TB, u *App, path string) {
@@ -134,25 +133,17 @@ func BenchmarkOpenRecord24000(b *testing.B) { benchOpen(b, 24000) }
 // the new analysis of that trait.
 func editToCompare(tb testing.TB, u *App, v float64) time.Duration {
 	tb.Helper()
-	done := make(chan struct{})
 	start := time.Now()
 	var seen time.Duration
 	u.compute.delivered = func(s *resultSet) {
-		if s.gen != u.compute.gen {
-			return
-		}
 		if seen == 0 && s.result("yield") != nil {
 			seen = time.Since(start)
 		}
-		// Wait for the round to end, so that no goroutine of it is left
-		// when the next edit starts another.
-		if s.complete {
-			u.compute.delivered = nil
-			close(done)
-		}
 	}
-	u.doc.apply(&setValue{trait: 0, plot: 5, old: u.doc.t.Traits[0].Values[5], new: v})
-	<-done
+	pumpAnalysis(tb, u, func() {
+		u.doc.apply(&setValue{trait: 0, plot: 5, old: u.doc.t.Traits[0].Values[5], new: v})
+	})
+	u.compute.delivered = nil
 	return seen
 }
 
@@ -180,7 +171,6 @@ func TestSpeed(t *testing.T) {
 	}
 	u, _ := newTestApp(t, 0)
 	u.OpenTrial(bigTrial(t, 1200), "")
-	u.compute.delivered = nil
 	waitAnalysis(t, u, func() { u.showStep(stepCompare) })
 	var worst time.Duration
 	for i := range 3 {

@@ -29,13 +29,14 @@ const (
 type recordStep struct {
 	u *App
 
-	table   *widget.Table
+	table   *gridTable
 	where   *widget.Label // what the selected cell is
 	entry   *cellEntry
 	msg     *widget.Label
 	exclude *widget.Button
 	root    fyne.CanvasObject
 
+	empty   *widget.Label // shown while the trial has no plots
 	sel     widget.TableCellID
 	hasSel  bool
 	derived map[int][]float64 // trait index → computed values, for derived traits
@@ -52,7 +53,8 @@ func newRecordStep(u *App) *recordStep {
 	r.msg = widget.NewLabel("")
 	r.msg.Wrapping = fyne.TextWrapWord
 
-	r.table = widget.NewTableWithHeaders(r.length, newGridCell, r.updateCell)
+	r.table = newGridTable(r.length, newGridCell, r.updateCell)
+	r.table.onRune = r.typeInto
 	r.table.ShowHeaderColumn = false
 	r.table.StickyColumnCount = fixedCols
 	r.table.CreateHeader = func() fyne.CanvasObject {
@@ -70,14 +72,16 @@ func newRecordStep(u *App) *recordStep {
 	undo := widget.NewButtonWithIcon("", theme.ContentUndoIcon(), u.undo)
 	redo := widget.NewButtonWithIcon("", theme.ContentRedoIcon(), u.redo)
 	entryBox := container.NewGridWrap(fyne.NewSize(220, r.entry.MinSize().Height), r.entry)
-	bar := container.NewBorder(nil, nil, nil,
-		container.NewHBox(r.exclude, importBtn, undo, redo),
-		container.NewHBox(r.where, entryBox))
+	r.where.Truncation = fyne.TextTruncateEllipsis
+	bar := container.NewBorder(nil, nil, entryBox,
+		container.NewHBox(r.exclude, importBtn, undo, redo), r.where)
 	help := widget.NewLabel("Type a value and press Enter to move to the next plot in walking order. ↑/↓ move without leaving the entry; Esc restores the stored value.")
 	help.Wrapping = fyne.TextWrapWord
 	help.Importance = widget.LowImportance
 	top := container.NewVBox(bar, r.msg)
-	r.root = container.NewBorder(top, help, nil, nil, r.table)
+	r.empty = widget.NewLabel("No plots yet. Add treatments and traits in Setup, then lay the trial out in Field.")
+	r.empty.Alignment = fyne.TextAlignCenter
+	r.root = container.NewBorder(top, help, nil, nil, container.NewStack(r.table, container.NewCenter(r.empty)))
 	r.refresh(changeAll)
 	return r
 }
@@ -145,6 +149,8 @@ func (r *recordStep) refresh(c change) {
 		}
 	}
 	r.table.Refresh()
+	r.empty.Hidden = len(t.Plots) > 0
+	r.empty.Refresh()
 	if r.hasSel {
 		r.loadEntry()
 	}
@@ -329,6 +335,8 @@ func (r *recordStep) onSelected(id widget.TableCellID) {
 	r.sel, r.hasSel = id, true
 	r.loadEntry()
 	r.u.win.Canvas().Focus(r.entry)
+	// Typing replaces the value, as in a spreadsheet.
+	r.entry.TypedShortcut(&fyne.ShortcutSelectAll{})
 }
 
 // selTrait returns the selected trait index, or -1.
@@ -539,5 +547,50 @@ func (e *cellEntry) TypedKey(k *fyne.KeyEvent) {
 		}
 	default:
 		e.Entry.TypedKey(k)
+	}
+}
+
+// gridTable is the data grid. Typing while the grid has the keyboard
+// focus goes to the value entry, as in a spreadsheet: the first character
+// replaces the cell's text.
+type gridTable struct {
+	widget.Table
+	onRune func(r rune)
+}
+
+func newGridTable(length func() (int, int), create func() fyne.CanvasObject, update func(widget.TableCellID, fyne.CanvasObject)) *gridTable {
+	t := &gridTable{}
+	t.Length, t.CreateCell, t.UpdateCell = length, create, update
+	t.ShowHeaderRow = true
+	t.ExtendBaseWidget(t)
+	return t
+}
+
+// TypedRune starts an entry in the selected cell.
+func (t *gridTable) TypedRune(r rune) {
+	if t.onRune != nil {
+		t.onRune(r)
+	}
+}
+
+// TypedKey sends Enter to the entry and the rest to the table.
+func (t *gridTable) TypedKey(k *fyne.KeyEvent) {
+	if (k.Name == fyne.KeyReturn || k.Name == fyne.KeyEnter) && t.onRune != nil {
+		t.onRune(0)
+		return
+	}
+	t.Table.TypedKey(k)
+}
+
+// typeInto moves the keyboard to the entry; a rune replaces its text.
+func (r *recordStep) typeInto(c rune) {
+	if !r.hasSel || r.entry.Disabled() {
+		return
+	}
+	r.u.win.Canvas().Focus(r.entry)
+	if c != 0 {
+		r.entry.SetText(string(c))
+		r.entry.CursorColumn = len(r.entry.Text)
+		r.entry.Refresh()
 	}
 }

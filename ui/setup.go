@@ -404,7 +404,7 @@ func (u *App) structuralEdit(label, action string, f func(t *trial.Trial) error)
 		showError(u.win, "Could not change the trial", action, err)
 		return false
 	}
-	u.doc.apply(&replaceTrial{what: label, before: before, after: work, c: changeStructure | changeValues})
+	u.doc.apply(&replaceTrial{what: label, before: before, after: work, c: changeStructure | changeValues, keepDetails: true})
 	return true
 }
 

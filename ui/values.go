@@ -17,6 +17,20 @@ var (
 	errNotPct    = errors.New("not a percentage")
 )
 
+// valueError is a refused value: a plain message that wraps one of the
+// sentinels above.
+type valueError struct {
+	kind error
+	msg  string
+}
+
+func (e *valueError) Error() string { return e.msg }
+func (e *valueError) Unwrap() error { return e.kind }
+
+func refuse(kind error, format string, args ...any) error {
+	return &valueError{kind: kind, msg: fmt.Sprintf(format, args...)}
+}
+
 // parseValue reads the text typed for one plot and trait. Empty text is a
 // missing value. A comma is accepted as the decimal mark when the text has
 // no point. Text that is not a value of the trait's kind is refused with a
@@ -32,16 +46,16 @@ func parseValue(text string, tr *trial.Trait) (float64, error) {
 	}
 	v, err := strconv.ParseFloat(s, 64)
 	if err != nil || math.IsNaN(v) || math.IsInf(v, 0) || strings.ContainsAny(s, "xXpP_") {
-		return 0, fmt.Errorf("%w: “%s” is not a number. Type a number such as 12.5, or clear the cell for a missing value", errNotNumber, text)
+		return 0, refuse(errNotNumber, "“%s” is not a number. Type a number such as 12.5, or clear the cell for a missing value", text)
 	}
 	switch tr.Kind {
 	case trial.Count:
 		if v < 0 || v != math.Trunc(v) {
-			return 0, fmt.Errorf("%w: %s counts %s, so the value must be a whole number, 0 or more", errNotCount, tr.Name, unitOr(tr.Unit, "items"))
+			return 0, refuse(errNotCount, "%s counts %s, so the value must be a whole number, 0 or more", tr.Name, unitOr(tr.Unit, "items"))
 		}
 	case trial.Percent:
 		if v < 0 || v > 100 {
-			return 0, fmt.Errorf("%w: %s is a percentage, so the value must lie between 0 and 100", errNotPct, tr.Name)
+			return 0, refuse(errNotPct, "%s is a percentage, so the value must lie between 0 and 100", tr.Name)
 		}
 	}
 	return v, nil

@@ -3,7 +3,6 @@ package main
 import (
 	"fmt"
 
-	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/app"
 
 	"furlong/cmd/furlong/cli"
@@ -17,8 +16,7 @@ const appID = "org.furlong.desktop"
 func openWindow(opts cli.WindowOptions, env cli.Env) int {
 	a := app.NewWithID(appID)
 	w := a.NewWindow("Furlong")
-	fa := ui.New(a, w, ui.Options{Version: version})
-	w.Resize(fyne.NewSize(1280, 760))
+	fa := ui.New(a, w, ui.Options{Version: version}) // restores the remembered window size
 	var err error
 	switch {
 	case opts.Demo:

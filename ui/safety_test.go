@@ -1,0 +1,153 @@
+package ui
+
+import (
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+	"time"
+
+	"fyne.io/fyne/v2/widget"
+)
+
+// After a crash the most recent state is offered back: the recovery copy
+// written by the autosave is newer than the trial file (the brief's crash
+// rule).
+func TestRecoveryAfterCrash(t *testing.T) {
+	u, _ := newTestApp(t, 0)
+	path := filepath.Join(t.TempDir(), "strip.furlong")
+	u.OpenTrial(smallTrial(t), "")
+	u.saveTo(path, nil)
+	// Make sure the recovery copy gets a later modification time.
+	old := time.Now().Add(-time.Minute)
+	if err := os.Chtimes(path, old, old); err != nil {
+		t.Fatal(err)
+	}
+	u.showStep(stepRecord)
+	r := u.steps[stepRecord].(*recordStep)
+	r.table.Select(widget.TableCellID{Row: 0, Col: fixedCols})
+	enter(r, "4.5")
+	u.saver.sync() // the autosave reaches the disk; then the "crash"
+
+	u2, w2 := newTestApp(t, 0)
+	u2.recoveryDir = u.recoveryDir
+	if err := u2.OpenFile(path); err != nil {
+		t.Fatal(err)
+	}
+	if !sameValue(u2.doc.t.Traits[0].Values[0], nan()) {
+		t.Fatal("the file itself should not hold the unsaved value")
+	}
+	if w2.Canvas().Overlays().Top() == nil {
+		t.Fatal("no dialog offers the recovered changes")
+	}
+	rp, rt, _, ok := u2.newerRecovery(path)
+	if !ok {
+		t.Fatal("the recovery copy is not found newer than the file")
+	}
+	u2.restore(path, rp, rt)
+	if u2.doc.t.Traits[0].Values[0] != 4.5 || !u2.doc.dirty {
+		t.Fatalf("restored value %v, dirty %v", u2.doc.t.Traits[0].Values[0], u2.doc.dirty)
+	}
+	u2.undo()
+	if !sameValue(u2.doc.t.Traits[0].Values[0], nan()) {
+		t.Fatal("the restore cannot be undone")
+	}
+
+	// An explicit save removes the recovery copy: nothing is offered then.
+	u.saveTo(path, nil)
+	if _, _, _, ok := u.newerRecovery(path); ok {
+		t.Fatal("a recovery copy is still offered after saving")
+	}
+}
+
+// Closing with unsaved changes asks first; nothing is discarded silently.
+func TestCloseAsks(t *testing.T) {
+	u, w := newTestApp(t, 0)
+	u.OpenTrial(smallTrial(t), "")
+	u.doc.edited(changeDetails)
+	u.onClose()
+	if w.Canvas().Overlays().Top() == nil {
+		t.Fatal("closing with unsaved changes did not ask")
+	}
+	if u.doc == nil || !u.doc.dirty {
+		t.Fatal("the unsaved trial was dropped")
+	}
+}
+
+// Preferences: one key per setting, read back by a fresh load.
+func TestPrefs(t *testing.T) {
+	u, _ := newTestApp(t, 0)
+	p := u.prefs
+	p.onAlphaChanged(0.01)
+	p.onMethodChanged("tukey")
+	p.onUnitsChanged(unitsImperial)
+	for _, f := range []string{"/a/1.furlong", "/a/2.furlong", "/a/1.furlong"} {
+		p.onFileOpened(f)
+	}
+	q := loadPrefs(p.store)
+	if q.alpha != 0.01 || q.method != "tukey" || q.units != unitsImperial {
+		t.Errorf("reloaded %+v", q)
+	}
+	if len(q.recent) != 2 || q.recent[0] != "/a/1.furlong" {
+		t.Errorf("recent files %v", q.recent)
+	}
+}
+
+// A bad file never crashes the window: it is explained in plain words.
+func TestBadFiles(t *testing.T) {
+	dir := t.TempDir()
+	for _, c := range []struct{ name, data, want string }{
+		{"garbage.furlong", "\x00\x01 not json", "not a Furlong trial file"},
+		{"damaged.furlong", `{"format": "furlong-trial", "version": 1, "trial": {"title": "x",, "crop": "y"}}`, "damaged"},
+		{"cut.furlong", `{"format": "furlong-trial", "version": 1, "trial": {"title": "x"`, "ends in the middle"},
+		{"other.furlong", `{"hello": "world"}`, "not a Furlong trial file"},
+	} {
+		path := filepath.Join(dir, c.name)
+		if err := os.WriteFile(path, []byte(c.data), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		u, w := newTestApp(t, 0)
+		err := u.OpenFile(path)
+		if err == nil {
+			t.Fatalf("%s opened", c.name)
+		}
+		if u.doc != nil || w.Canvas().Overlays().Top() == nil {
+			t.Errorf("%s: no dialog, or a trial open", c.name)
+		}
+		m := explain("The trial file could not be opened", err)
+		if !strings.Contains(m.What, c.want) || m.Do == "" {
+			t.Errorf("%s: message %q / %q, want it to say %q", c.name, m.What, m.Do, c.want)
+		}
+	}
+	u, _ := newTestApp(t, 0)
+	if err := u.OpenFile(filepath.Join(dir, "missing.furlong")); err == nil ||
+		!strings.Contains(explain("x", err).What, "does not exist") {
+		t.Errorf("missing file: %v", err)
+	}
+}
+
+// A trial never saved is offered back on the start screen of the next
+// session, and a second untitled trial does not overwrite its copy.
+func TestUntitledRecovery(t *testing.T) {
+	u, _ := newTestApp(t, 0)
+	u.OpenTrial(smallTrial(t), "")
+	u.doc.t.Title = "First"
+	u.doc.edited(changeDetails)
+	u.saver.sync()
+	first := u.doc.recovery
+	u.OpenTrial(smallTrial(t), "")
+	u.doc.edited(changeDetails)
+	u.saver.sync()
+	if u.doc.recovery == first {
+		t.Fatal("two untitled trials share a recovery file")
+	}
+	if rt, err := loadFile(first); err != nil || rt.Title != "First" {
+		t.Fatalf("the first recovery copy was lost: %v", err)
+	}
+	u2, w2 := newTestApp(t, 0)
+	u2.recoveryDir = u.recoveryDir
+	u2.showStart()
+	if w2.Canvas().Overlays().Top() == nil {
+		t.Fatal("the start screen does not offer the unsaved trial")
+	}
+}
