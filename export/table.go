@@ -363,3 +363,26 @@ func PlotExclusions(p trial.Plot) string {
 	}
 	return strings.Join(reasons, "; ")
 }
+
+// SourceName is the label of an ANOVA line for people, from the stats
+// source name: "Treatments", "Blocks", "Rows", "Columns", "Error", "Total".
+func SourceName(n string) string {
+	switch n {
+	case "treatment":
+		return "Treatments"
+	case "block":
+		return "Blocks"
+	case "row":
+		return "Rows"
+	case "column":
+		return "Columns"
+	case "error":
+		return "Error"
+	case "total":
+		return "Total"
+	}
+	if n == "" {
+		return "—"
+	}
+	return strings.ToUpper(n[:1]) + n[1:]
+}

@@ -293,3 +293,55 @@ func (t *Trial) SetNote(plotIdx int, note string) error {
 	t.Plots[plotIdx].Note = note
 	return nil
 }
+
+// UpdateTrait replaces the description of the trait with key by tr: its
+// name, unit, kind, valid range, decimals, date assessed, whether higher is
+// better, and for a derived trait its formula's settings. The recorded
+// values stay (tr.Values is ignored); a stored trait cannot become derived
+// or the other way round. A new key is allowed when it is free: the plots'
+// exclusions and derived traits follow the rename. The change is refused,
+// leaving the trial as it was, when the trait would be invalid or an
+// existing value impossible for the new kind (a count of 2.5).
+func (t *Trial) UpdateTrait(key string, tr Trait) error {
+	j := t.TraitIndex(key)
+	if j < 0 {
+		return fmt.Errorf("the trial has no trait %q", key)
+	}
+	old := t.Traits[j]
+	if (old.Derived == nil) != (tr.Derived == nil) {
+		if old.Derived != nil {
+			return fmt.Errorf("trait %q is computed from other traits; remove it and add a recorded trait instead", key)
+		}
+		return fmt.Errorf("trait %q holds recorded values; add a new derived trait instead", key)
+	}
+	tr = cloneTrait(tr)
+	tr.Values = old.Values
+	saved := t.Clone()
+	t.Traits[j] = tr
+	if tr.Key != key {
+		for i := range t.Traits {
+			if d := t.Traits[i].Derived; d != nil && i != j {
+				if d.WeightTrait == key {
+					d.WeightTrait = tr.Key
+				}
+				if d.MoistureTrait == key {
+					d.MoistureTrait = tr.Key
+				}
+			}
+		}
+		for i := range t.Plots {
+			for e := range t.Plots[i].Exclusions {
+				if t.Plots[i].Exclusions[e].Trait == key {
+					t.Plots[i].Exclusions[e].Trait = tr.Key
+				}
+			}
+		}
+	}
+	var p problems
+	p.checkTraits(t)
+	if err := p.err(); err != nil {
+		*t = *saved
+		return err
+	}
+	return nil
+}

@@ -428,3 +428,44 @@ func TestPlotIndexConcurrent(t *testing.T) {
 		}
 	}
 }
+
+func TestUpdateTrait(t *testing.T) {
+	t.Parallel()
+	tr := sampleTrial(t)
+	if err := tr.SetValue(0, "ht", 250); err != nil {
+		t.Fatal(err)
+	}
+	if err := tr.Exclude(1, "ht", "hail"); err != nil {
+		t.Fatal(err)
+	}
+	nt := *tr.Trait("ht")
+	nt.Key, nt.Name, nt.Unit, nt.Decimals = "height", "Height at harvest", "cm", 1
+	if err := tr.UpdateTrait("ht", nt); err != nil {
+		t.Fatal(err)
+	}
+	got := tr.Trait("height")
+	if got == nil || got.Name != "Height at harvest" || got.Values[0] != 250 {
+		t.Fatalf("after the update: %+v", got)
+	}
+	if ex, _ := tr.Excluded(1, "height"); !ex {
+		t.Error("the exclusion did not follow the new key")
+	}
+	// A kind that makes a stored value impossible is refused, nothing changes.
+	if err := tr.SetValue(2, "height", 12.5); err != nil {
+		t.Fatal(err)
+	}
+	bad := *tr.Trait("height")
+	bad.Kind, bad.Min, bad.Max = Count, nil, nil
+	if err := tr.UpdateTrait("height", bad); err == nil || !strings.Contains(err.Error(), "is a count, so 12.5 is not possible") {
+		t.Errorf("count with 12.5 stored: %v", err)
+	}
+	if tr.Trait("height").Kind == Count {
+		t.Error("a refused update changed the trial")
+	}
+	// A key used by another trait is refused.
+	dup := *tr.Trait("height")
+	dup.Key = tr.Traits[0].Key
+	if err := tr.UpdateTrait("height", dup); err == nil {
+		t.Error("duplicate key accepted")
+	}
+}

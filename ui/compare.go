@@ -248,7 +248,7 @@ func (c *compareStep) showResult(r *analysis.Result) {
 	}
 	if r.ANOVA != nil {
 		for _, src := range r.ANOVA.Sources {
-			c.anova.Add(cell(sourceName(src.Name), false))
+			c.anova.Add(cell(export.SourceName(src.Name), false))
 			c.anova.Add(cell(strconv.Itoa(src.DF), false))
 			c.anova.Add(cell(num(src.SS, 5), false))
 			ms, f, p := "", "", ""
@@ -361,24 +361,6 @@ func (c *compareStep) showCharts(cs []chartImage) {
 	}
 }
 
-// sourceName is the ANOVA line name shown.
-func sourceName(s string) string {
-	switch s {
-	case "treatment":
-		return "Treatments"
-	case "block":
-		return "Blocks"
-	case "row":
-		return "Rows"
-	case "column":
-		return "Columns"
-	case "error":
-		return "Error"
-	case "total":
-		return "Total"
-	}
-	return s
-}
 
 // summaryTable is the all-traits table of the season report's summary
 // sheet (export.NewSummary): one row per treatment with each trait's mean

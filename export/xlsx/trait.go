@@ -12,27 +12,6 @@ import (
 	"furlong/trial"
 )
 
-// sourceName is the ANOVA line label shown for a stats source name.
-func sourceName(n string) string {
-	switch n {
-	case "treatment":
-		return "Treatments"
-	case "block":
-		return "Blocks"
-	case "row":
-		return "Rows"
-	case "column":
-		return "Columns"
-	case "error":
-		return "Error"
-	case "total":
-		return "Total"
-	}
-	if n == "" {
-		return dash
-	}
-	return strings.ToUpper(n[:1]) + n[1:]
-}
 
 // Columns of the means table on a trait sheet.
 const (
@@ -87,7 +66,7 @@ func (r *report) writeTrait(name string, tr trial.Trait) error {
 	row++
 	if a.ANOVA != nil {
 		for _, src := range a.ANOVA.Sources {
-			s.text(1, row, sourceName(src.Name), styleKey{})
+			s.text(1, row, export.SourceName(src.Name), styleKey{})
 			s.integer(2, row, src.DF, styleKey{})
 			s.numOrDash(3, row, src.SS, numStyle(3))
 			if src.Name != "total" {
