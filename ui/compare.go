@@ -361,7 +361,6 @@ func (c *compareStep) showCharts(cs []chartImage) {
 	}
 }
 
-
 // summaryTable is the all-traits table of the season report's summary
 // sheet (export.NewSummary): one row per treatment with each trait's mean
 // and letters and the percentage of the check, then the lines of

@@ -139,7 +139,7 @@ func TestReportTraitSheet(t *testing.T) {
 	}
 	for i, src := range r.ANOVA.Sources {
 		row := head + 1 + i
-		if got := textAt(t, f, sh, cell(1, row)); got != sourceName(src.Name) {
+		if got := textAt(t, f, sh, cell(1, row)); got != export.SourceName(src.Name) {
 			t.Errorf("source %d = %q", i, got)
 		}
 		if got := numberAt(t, f, sh, cell(2, row)); got != float64(src.DF) {

@@ -12,7 +12,6 @@ import (
 	"furlong/trial"
 )
 
-
 // Columns of the means table on a trait sheet.
 const (
 	meansFirstCol = 1
