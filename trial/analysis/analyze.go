@@ -291,7 +291,7 @@ func AnalyzeData(d *Data, o Options) (*Result, error) {
 	if err := separate(r, a, lsm, o); err != nil {
 		return fail(err.Error(), err)
 	}
-	diagnose(r, d, a, ty, trt, blk, plots)
+	diagnose(r, d, a, ty, y, trt, blk, plots)
 	notes(r, d, a)
 	return r, nil
 }
@@ -315,7 +315,9 @@ func describeStatsError(d *Data, err error, plots []int) string {
 	return ie.Reason
 }
 
-func diagnose(r *Result, d *Data, a *stats.ANOVA, y []float64, trt, blk, plots []int) {
+// diagnose runs the diagnostics on the analysed values ty (y before any
+// transformation) and adds their readings to the warnings.
+func diagnose(r *Result, d *Data, a *stats.ANOVA, ty, y []float64, trt, blk, plots []int) {
 	dg := &r.Diagnostics
 	sum := diag.Summary{HasCV: true, CVPercent: a.CVPercent}
 	if sw, err := diag.ShapiroWilk(a.Residuals); err == nil {
@@ -323,16 +325,16 @@ func diagnose(r *Result, d *Data, a *stats.ANOVA, y []float64, trt, blk, plots [
 		sum.HasNormality, sum.NormalityP = true, sw.P
 	}
 	if d.Design == trial.CRD {
-		if lv, err := diag.Levene(y, trt, len(d.Treatments), diag.Median); err == nil {
+		if lv, err := diag.Levene(ty, trt, len(d.Treatments), diag.Median); err == nil {
 			dg.LeveneF, dg.LeveneP = ptr(lv.F), ptr(lv.P)
 			sum.HasEqualVariance, sum.EqualVarianceP = true, lv.P
 		}
-		if bt, err := diag.Bartlett(y, trt, len(d.Treatments)); err == nil {
+		if bt, err := diag.Bartlett(ty, trt, len(d.Treatments)); err == nil {
 			dg.BartlettK2, dg.BartlettP = ptr(bt.ChiSquare), ptr(bt.P)
 		}
 	}
 	if d.Design == trial.RCBD && a.Balanced {
-		if na, err := diag.TukeyNonAdditivity(y, blk, trt, d.Blocks, len(d.Treatments)); err == nil {
+		if na, err := diag.TukeyNonAdditivity(ty, blk, trt, d.Blocks, len(d.Treatments)); err == nil {
 			dg.NonAdditivityF, dg.NonAdditivityP = ptr(na.F), ptr(na.P)
 			sum.HasNonAdditivity, sum.NonAdditivityP = true, na.P
 		}
@@ -345,7 +347,7 @@ func diagnose(r *Result, d *Data, a *stats.ANOVA, y []float64, trt, blk, plots [
 			o.Plot = d.label(plots[o.Index])
 			dg.Outliers = append(dg.Outliers, Outlier{
 				Plot: plots[o.Index], Treatment: d.Treatments[trt[o.Index]],
-				Value: d.valueAt(o.Index, y), Residual: a.Residuals[o.Index], StdResidual: o.Std,
+				Value: y[o.Index], Residual: a.Residuals[o.Index], StdResidual: o.Std,
 			})
 		}
 		sum.Outliers = outs
@@ -353,17 +355,8 @@ func diagnose(r *Result, d *Data, a *stats.ANOVA, y []float64, trt, blk, plots [
 	r.Warnings = append(r.Warnings, diag.Readings(sum)...)
 }
 
-// label names an observation in messages: "plot 103" or "line 14".
-func (d *Data) label(n int) string {
-	if d.Lines {
-		return fmt.Sprintf("line %d", n)
-	}
-	return fmt.Sprintf("plot %d", n)
-}
-
-// valueAt is the analysed value of observation i (on the analysis scale).
-func (d *Data) valueAt(i int, y []float64) float64 { return y[i] }
-
+// notes puts the counts of missing and excluded plots, the adjusted-SS and
+// transformation notes before the diagnostic readings.
 func notes(r *Result, d *Data, a *stats.ANOVA) {
 	var w []string
 	if r.Missing > 0 {
@@ -388,6 +381,14 @@ func notes(r *Result, d *Data, a *stats.ANOVA) {
 		w = append(w, note)
 	}
 	r.Warnings = append(w, r.Warnings...)
+}
+
+// label names an observation in messages: "plot 103" or "line 14".
+func (d *Data) label(n int) string {
+	if d.Lines {
+		return fmt.Sprintf("line %d", n)
+	}
+	return fmt.Sprintf("plot %d", n)
 }
 
 func plural(n int, one, many string) string {

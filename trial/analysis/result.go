@@ -117,6 +117,8 @@ type Diagnostics struct {
 
 // Outlier is an observation with a large standardised residual.
 type Outlier struct {
+	// Plot number (for a CSV table: the line); Value is the recorded
+	// value, Residual and StdResidual are on the analysis scale.
 	Plot        int
 	Treatment   string
 	Value       float64
