@@ -101,6 +101,8 @@ func TestDiagnosticsWords(t *testing.T) {
 	}
 }
 
+// TestPTextAndExclusions: p values are shown to three decimals and those
+// below 0.001 as "<0.001" (common practice in trial reports).
 func TestPTextAndExclusions(t *testing.T) {
 	t.Parallel()
 	for _, c := range []struct {

@@ -12,8 +12,8 @@ import (
 	"furlong/trial/analysis"
 )
 
-// TestDemoTrial checks the demo against what the foundation issue asks of
-// it: an RCBD with 8 to 12 entries and 4 blocks, a check, plot weight,
+// TestDemoTrial checks the demo (invented data) against what it is for: an
+// RCBD with 8 to 12 entries and 4 blocks, a check, plot weight,
 // moisture, derived yield, height and a lodging score, one excluded plot and
 // one missing value.
 func TestDemoTrial(t *testing.T) {

@@ -160,8 +160,9 @@ func denseRef(t *testing.T, m Model) (sse float64, hat, ls []float64, cov *mat.D
 	return sse, hat, ls, cov
 }
 
-// TestUnbalancedAgainstDenseLS: RCBDs and Latin squares with missing plots,
-// fitted by the absorbed QR, against the full dense least-squares fit:
+// TestUnbalancedAgainstDenseLS: RCBDs and Latin squares with missing plots
+// (random data; the reference is gonum's dense QR in denseRef), fitted by
+// the absorbed QR, against the full dense least-squares fit:
 // SSE, leverages, LS means, their SEs and every pair SE.
 func TestUnbalancedAgainstDenseLS(t *testing.T) {
 	t.Parallel()
@@ -227,7 +228,10 @@ func TestUnbalancedAgainstDenseLS(t *testing.T) {
 }
 
 // TestOneWayUnequalReplication: a one-way layout with unequal replication
-// uses the one-way formulas (not adjusted) and agrees with the dense fit.
+// (invented data) uses the one-way formulas (not adjusted) and agrees with
+// the dense gonum QR fit of denseRef. The pair SE check uses the usual
+// √(MSE(1/rᵢ + 1/rⱼ)) for unequal replication (common practice; e.g. Gomez &
+// Gomez 1984, chapter 5, from memory); the SS identity is a property.
 func TestOneWayUnequalReplication(t *testing.T) {
 	t.Parallel()
 	m := oneWay(3, []int{0, 0, 0, 1, 1, 2, 2, 2, 2}, []float64{5.1, 4.9, 5.6, 6.2, 6.8, 4.0, 4.4, 3.9, 4.6})

@@ -67,9 +67,9 @@ func TestSampleTrialValid(t *testing.T) {
 	}
 }
 
-// The rules below are Furlong's own (see the brief in validate.go); the
-// Latin square's error degrees of freedom, (t − 1)(t − 2), are from Gomez &
-// Gomez (1984), Statistical Procedures for Agricultural Research, 2.3.
+// The rules below are Furlong's own (the limits documented in validate.go);
+// the Latin square's error degrees of freedom, (t − 1)(t − 2), are from
+// Gomez & Gomez (1984), Statistical Procedures for Agricultural Research, 2.3.
 func TestValidationRules(t *testing.T) {
 	t.Parallel()
 	cases := []struct {

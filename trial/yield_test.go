@@ -40,6 +40,9 @@ func TestUnitDefinitions(t *testing.T) {
 	}
 }
 
+// TestMoistureAdjustedYieldByHand: hand-worked cases of the usual moisture
+// adjustment W·(100 − M)/(100 − Mstd), a dry-matter balance, converted to
+// t/ha as kg/m² × 10 (common practice).
 func TestMoistureAdjustedYieldByHand(t *testing.T) {
 	t.Parallel()
 	cases := []struct {
@@ -133,7 +136,8 @@ func TestBushelConversion(t *testing.T) {
 func TestCropDefaults(t *testing.T) {
 	t.Parallel()
 	// USDA standard bushel weights (maize 56 lb, soybean 60, wheat 60,
-	// barley 48, oats 32); standard moistures are common practice defaults.
+	// barley 48, oats 32; from memory); standard moistures are common
+	// practice defaults.
 	want := map[string]CropDefault{
 		"maize":   {15.5, 56},
 		"soybean": {13, 60},
@@ -157,6 +161,9 @@ func TestCropDefaults(t *testing.T) {
 	}
 }
 
+// TestHarvestedArea: the default plot (10 m × 1.5 m, 8 m harvested) is the
+// package's own documented DefaultLayout, not an outside fact; the check is
+// the arithmetic length × width.
 func TestHarvestedArea(t *testing.T) {
 	t.Parallel()
 	l := DefaultLayout()
@@ -221,6 +228,8 @@ func TestTraitValuesDerived(t *testing.T) {
 	}
 }
 
+// TestAdjustedYieldTrait: wheat's defaults as in TestCropDefaults (60 lb
+// bushel, USDA, from memory; 13.5 % moisture, common practice).
 func TestAdjustedYieldTrait(t *testing.T) {
 	t.Parallel()
 	tr := AdjustedYieldTrait("yld", "wt", "mst", "wheat", UnitBuAc)

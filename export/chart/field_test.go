@@ -121,7 +121,7 @@ func TestFieldMapSVG(t *testing.T) {
 	if !found {
 		t.Error("orientation note missing")
 	}
-	if countText(texts, "Brookfield Farm maize hybrids 2026") != 1 {
+	if countText(texts, "Thistlewade Farm maize hybrids 2026") != 1 {
 		t.Error("title missing")
 	}
 }

@@ -16,7 +16,7 @@ import (
 	"furlong/trial/analysis"
 )
 
-// Invented scenario: a maize hybrid trial on the fictional Brookfield
+// Invented scenario: a maize hybrid trial on the fictional Thistlewade
 // Farm, RCBD with 4 blocks of 6 plots, one block per field row.
 
 var fixtureLayout = [4][6]string{
@@ -32,7 +32,7 @@ var fixtureEffects = map[string]float64{"H1": 9.8, "H2": 8.9, "H3": 10.6, "H4": 
 
 func fixtureTrial() *trial.Trial {
 	t := &trial.Trial{
-		Title:  "Brookfield Farm maize hybrids 2026",
+		Title:  "Thistlewade Farm maize hybrids 2026",
 		Crop:   "maize",
 		Season: "2026",
 		Design: trial.Design{Kind: trial.RCBD, Reps: 4},
@@ -148,7 +148,7 @@ func countFill(svg []byte, hex string) int {
 // and reps blocks stacked one above the other, each block laid out in rows
 // of 20 plots; values and letters are invented from a fixed formula.
 func bigFixture(n, reps int) (*trial.Trial, *analysis.Result) {
-	t := &trial.Trial{Title: "Fictional Hillcrest Station wheat lines 2026", Design: trial.Design{Kind: trial.RCBD, Reps: reps}}
+	t := &trial.Trial{Title: "Fictional Marrowdene Station wheat lines 2026", Design: trial.Design{Kind: trial.RCBD, Reps: reps}}
 	for i := 0; i < n; i++ {
 		role := trial.RoleEntry
 		if i >= n-2 {

@@ -48,7 +48,7 @@ func TestMeansChartSVG(t *testing.T) {
 		}
 	}
 	for _, want := range []string{
-		"Grain yield (t/ha)", "Brookfield Farm maize hybrids 2026", "Entry", "Check",
+		"Grain yield (t/ha)", "Thistlewade Farm maize hybrids 2026", "Entry", "Check",
 		"Error bars: ± 1 SE", "Treatment (ordered by mean, highest first)",
 	} {
 		if countText(texts, want) != 1 {

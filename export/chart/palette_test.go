@@ -14,7 +14,8 @@ func TestOkabeItoPublished(t *testing.T) {
 	// RGB values of the eight colours as published by Okabe & Ito (2008),
 	// "Color Universal Design (CUD): how to make figures and presentations
 	// that are friendly to colorblind people", jfly.uni-koeln.de/color,
-	// figure 16; hex spellings as given in the brief (#E69F00 ...).
+	// figure 16 (values from memory; the hex spellings #E69F00 ... are the
+	// usual ones, common practice).
 	want := []struct {
 		name    string
 		hex     string

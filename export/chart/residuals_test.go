@@ -53,9 +53,13 @@ func TestQuartileLine(t *testing.T) {
 	if got := quantile7(sorted, 0.75); got != 6.25 {
 		t.Errorf("Q3 = %g, want 6.25", got)
 	}
-	// Φ⁻¹(0.75) = 0.6744897501960817 (standard normal upper quartile,
-	// tabulated in every statistics text): slope 3.5/(2·0.67449), intercept
-	// 4.5 by symmetry.
+	// Φ⁻¹(0.75) = 0.6744897501960817 (standard normal upper quartile: 0.6745
+	// in printed normal tables, the full digits from memory; the test's own
+	// normalCDF, math.Erfc based, confirms it here): slope 3.5/(2·0.67449),
+	// intercept 4.5 by symmetry.
+	if p := normalCDF(0.6744897501960817); math.Abs(p-0.75) > 1e-15 {
+		t.Fatalf("Φ(0.6744897501960817) = %.17g, want 0.75", p)
+	}
 	b0, b1 := quartileLine(sorted)
 	if want := 3.5 / (2 * 0.6744897501960817); math.Abs(b1-want) > 1e-12 {
 		t.Errorf("slope = %.15g, want %.15g", b1, want)

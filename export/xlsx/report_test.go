@@ -183,24 +183,34 @@ func TestReportTraitSheet(t *testing.T) {
 			t.Errorf("%s letters %q", m.Treatment, got)
 		}
 	}
+	// Each statistic is the analysis' value exactly and, where the R
+	// reference file has it (testdata: R 4.2.2 lm/emmeans; hsd_05 with
+	// scipy's studentized_range; relative efficiency by Gomez & Gomez 1984,
+	// section 2.2.3), agrees with R to 1e-9; ref 0 means no reference value.
 	for _, want := range []struct {
-		label string
-		v     float64
+		label  string
+		v, ref float64
 	}{
-		{"Grand mean", r.ANOVA.GrandMean}, {"CV%", r.ANOVA.CVPercent}, {"R²", r.ANOVA.RSquared},
-		{"SE of a mean", r.ANOVA.SEMean}, {"SED", r.ANOVA.SED}, {"HSD (0.05)", *r.HSD},
-		{"Relative efficiency of blocking", r.ANOVA.RelativeEfficiency},
+		{"Grand mean", r.ANOVA.GrandMean, exp.GrandMean}, {"CV%", r.ANOVA.CVPercent, exp.CV},
+		{"R²", r.ANOVA.RSquared, 1 - exp.ANOVA[len(exp.ANOVA)-1].SS/exp.TotalSS},
+		{"SE of a mean", r.ANOVA.SEMean, exp.Means[0].SE}, {"SED", r.ANOVA.SED, 0}, {"HSD (0.05)", *r.HSD, exp.HSD},
+		{"Relative efficiency of blocking", r.ANOVA.RelativeEfficiency, exp.RE},
 	} {
 		row := findRow(t, f, sh, 1, want.label)
 		if row == 0 {
 			t.Errorf("no %s line", want.label)
 			continue
 		}
-		if got := numberAt(t, f, sh, cell(2, row)); got != want.v {
+		got := numberAt(t, f, sh, cell(2, row))
+		if got != want.v {
 			t.Errorf("%s = %v, want %v", want.label, got, want.v)
 		}
+		if want.ref != 0 && !near(got, want.ref, 1e-9) {
+			t.Errorf("%s = %v, R reference gives %v", want.label, got, want.ref)
+		}
 	}
-	// The Shapiro–Wilk reading is given in words with its p.
+	// The Shapiro–Wilk reading is given in words with its p (R 4.2.2
+	// shapiro.test on the residuals: p = 0.018746, testdata).
 	rows, _ := f.GetRows(sh)
 	var all strings.Builder
 	for _, r := range rows {
@@ -211,6 +221,31 @@ func TestReportTraitSheet(t *testing.T) {
 	}
 	if strings.Contains(all.String(), "NaN") {
 		t.Error("trait sheet shows NaN")
+	}
+}
+
+// TestReportCoverCautions: the cover carries the three cautions every report
+// must show (a project requirement, not an outside fact): one site-year is
+// not a recommendation, follow the product label and local regulations, seek
+// licensed advice. The topics are checked as literal phrases, not against
+// the Cautions variable, so the test fails if the wording loses one.
+func TestReportCoverCautions(t *testing.T) {
+	t.Parallel()
+	tr, _ := barleyTrial(t)
+	f, _ := writeReport(t, tr, barleyResults(t, tr), ReportOptions{})
+	rows, err := f.GetRows(CoverSheet)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var cover []string
+	for _, r := range rows {
+		cover = append(cover, strings.Join(r, " "))
+	}
+	text := strings.Join(cover, "\n")
+	for _, want := range []string{"Cautions", "one site and one season", "not a recommendation", "product label", "local regulations", "licensed adviser"} {
+		if !strings.Contains(text, want) {
+			t.Errorf("cover sheet lacks %q:\n%s", want, text)
+		}
 	}
 }
 
@@ -372,9 +407,11 @@ func TestReportFieldMap(t *testing.T) {
 	}
 }
 
-// The palette is Okabe & Ito (2008), "Color Universal Design", as listed in
-// the brief; the font chosen on each fill must reach the WCAG 2.1 contrast of
-// at least 4.5:1 for normal text (WCAG 2.1, success criterion 1.4.3).
+// The palette is Okabe & Ito (2008), "Color Universal Design" (hex values
+// from memory); the font chosen on each fill must reach the WCAG 2.1 contrast
+// of at least 4.5:1 for normal text (WCAG 2.1, success criterion 1.4.3; the
+// relative-luminance and contrast-ratio formulas are WCAG 2.1's own
+// definitions, from memory).
 func TestFieldMapContrast(t *testing.T) {
 	t.Parallel()
 	want := []string{"E69F00", "56B4E9", "009E73", "F0E442", "0072B2", "D55E00", "CC79A7", "000000"}

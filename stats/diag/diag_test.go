@@ -436,7 +436,8 @@ func TestTukeyNonAdditivityNotApplicable(t *testing.T) {
 	}
 }
 
-// Standardised residual r/√(MSE(1−h)): hand-computed values.
+// Standardised residual r/√(MSE(1−h)) (the internally studentised residual
+// of any regression text, common practice): hand-computed values.
 func TestStandardisedResiduals(t *testing.T) {
 	t.Parallel()
 	std, err := StandardisedResiduals([]float64{2, -3, 0.5, 0}, []float64{0.5, 0.75, 0, 1}, 2)

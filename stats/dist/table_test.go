@@ -109,7 +109,7 @@ func TestSurvivalTableEnds(t *testing.T) {
 
 // TestSurvivalTableConcurrent evaluates one table from several goroutines
 // (the table is documented as safe for concurrent use) and compares with
-// sequential evaluation.
+// sequential evaluation (a property test: no outside values involved).
 func TestSurvivalTableConcurrent(t *testing.T) {
 	t.Parallel()
 	tb := NewSurvivalTable(30, 200)

@@ -331,8 +331,8 @@ func benchMeans(k int) ([]float64, PairSEer) {
 	return means, PairSEFunc(func(i, j int) float64 { return 2.5 })
 }
 
-// k = 300 entries in 4 replicates: error df (300−1)(4−1) = 897; the brief's
-// figure of 880 (some missing plots) is used.
+// k = 300 entries in 4 replicates: error df (300−1)(4−1) = 897; the
+// project's speed target of 880 error df (some missing plots) is used.
 func BenchmarkCompare300(b *testing.B) {
 	means, se := benchMeans(300)
 	for b.Loop() {

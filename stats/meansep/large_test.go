@@ -37,7 +37,8 @@ func qTable(t *testing.T) map[[3]string]float64 {
 
 // Large trials use the precomputed survival table for the Tukey p-values
 // and invert it for the critical value. Check the critical value against
-// the scipy quantile table to its 4 printed decimals, HSD = q·SED/√2, and
+// the scipy quantile table to its 4 printed decimals, HSD = q·SED/√2 (the
+// definition of Tukey's HSD, common practice), and
 // the per-pair p-values against the direct computation (gonum's t for the
 // LSD p to 1e-9 relative; the direct studentised range for Tukey, at the
 // table's design bound of 1e-9 absolute).

@@ -192,7 +192,8 @@ func randomThreshold(rng *rand.Rand, k int) pattern {
 
 // Thousands of random patterns, k from 2 to 40: random symmetric
 // significance (any pattern is allowed) and significance from a threshold
-// on random means. (Sparser random significance, below about 10% of
+// on random means (property test: Piepho 2004, section 2, and the maximal
+// cliques of Bron & Kerbosch 1973). (Sparser random significance, below about 10% of
 // pairs at k = 40, has of the order of 10⁴ maximal sets and is covered by
 // TestLettersPathological.) The display must have the exact property, no redundant
 // letter, and (every other pattern of each kind) its insert-and-absorb columns must be the
@@ -276,6 +277,9 @@ func TestLettersHand(t *testing.T) {
 	}
 }
 
+// TestLetterLabels: letters run a–z (common practice for mean-separation
+// letters), then A–Z and then two-letter labels; that continuation beyond 26
+// is the package's own documented scheme, not an outside fact.
 func TestLetterLabels(t *testing.T) {
 	t.Parallel()
 	for n, want := range map[int]string{0: "a", 25: "z", 26: "A", 51: "Z", 52: "aa", 53: "ab", 103: "aZ", 104: "ba", 52 + 52*52 - 1: "ZZ", 52 + 52*52: "aaa"} {
@@ -354,6 +358,8 @@ func TestLettersPathological(t *testing.T) {
 	}
 }
 
+// TestLettersEdge: one treatment, no differences and a NaN mean (common
+// practice: a lone mean or equal means all get "a").
 func TestLettersEdge(t *testing.T) {
 	t.Parallel()
 	got, err := Letters([]float64{3}, func(i, j int) bool { return true }, LetterOptions{})
@@ -379,6 +385,8 @@ func realistic(k int, lsd float64) pattern {
 	return pattern{means, func(i, j int) bool { d := means[i] - means[j]; return d > lsd || d < -lsd }}
 }
 
+// TestLettersRealistic is a property test on 300 random means: the display
+// must have the defining property of Piepho (2004), checked by checkDisplay.
 func TestLettersRealistic(t *testing.T) {
 	t.Parallel()
 	for _, lsd := range []float64{0.2, 0.5, 1} {

@@ -56,11 +56,12 @@ type Data struct {
 
 // Error is a trait that could not be analysed, with the reason in plain words.
 type Error struct {
-	Trait string
-	Msg   string
-	Err   error // the underlying cause, for errors.Is
+	Trait string // the trait's key, "" when not known
+	Msg   string // the reason, in plain words
+	Err   error  // the underlying cause, for errors.Is
 }
 
+// Error returns the reason, led by the trait when it is known.
 func (e *Error) Error() string {
 	if e.Trait == "" {
 		return e.Msg
@@ -68,6 +69,7 @@ func (e *Error) Error() string {
 	return e.Trait + ": " + e.Msg
 }
 
+// Unwrap returns the underlying cause.
 func (e *Error) Unwrap() error { return e.Err }
 
 // ErrNoTrait is returned for a trait key the trial does not have.

@@ -24,11 +24,12 @@ type TableColumns struct {
 // TableError is a problem in a data table, with its line (1 = header) and
 // column.
 type TableError struct {
-	Line   int
-	Column string
-	Msg    string
+	Line   int    // 1 is the header line; 0 when no line applies
+	Column string // the column's header, "" when no column applies
+	Msg    string // the problem, in plain words
 }
 
+// Error returns the problem led by its line and column.
 func (e *TableError) Error() string {
 	switch {
 	case e.Line > 0 && e.Column != "":

@@ -335,7 +335,7 @@ func TestMigrateVersion0(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if tr.Title != "Barley sowing dates, Stonecross block" || tr.Site.Name != "Stonecross" || tr.Design.Kind != trial.RCBD || tr.Design.Reps != 2 {
+	if tr.Title != "Barley sowing dates, Fernhollow block" || tr.Site.Name != "Fernhollow" || tr.Design.Kind != trial.RCBD || tr.Design.Reps != 2 {
 		t.Errorf("metadata not migrated: %+v", tr)
 	}
 	// 9007199254740993 = 2^53+1 cannot be held by a float64 (RFC 8259 §6);

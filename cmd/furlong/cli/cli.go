@@ -23,9 +23,9 @@ const (
 
 // Env is what every command gets from the process.
 type Env struct {
-	Stdout  io.Writer
-	Stderr  io.Writer
-	Version string
+	Stdout  io.Writer // where results go
+	Stderr  io.Writer // where messages and errors go
+	Version string    // the program version printed by "version"
 }
 
 // command is one subcommand.
@@ -43,10 +43,11 @@ func register(c *command) { commands[c.name] = c }
 
 // UsageError is a mistake on the command line.
 type UsageError struct {
-	Msg     string
+	Msg     string // the mistake, in plain words
 	Command string // the command whose flags were wrong, or "" for the overview
 }
 
+// Error returns the message.
 func (e *UsageError) Error() string { return e.Msg }
 
 func usagef(format string, a ...any) error { return &UsageError{Msg: fmt.Sprintf(format, a...)} }
@@ -54,10 +55,11 @@ func usagef(format string, a ...any) error { return &UsageError{Msg: fmt.Sprintf
 // ExitError carries a specific exit status with an optional message (for
 // example an import that found problems: the report was already printed).
 type ExitError struct {
-	Code int
-	Msg  string
+	Code int    // the exit status
+	Msg  string // printed to standard error when not empty
 }
 
+// Error returns the message.
 func (e *ExitError) Error() string { return e.Msg }
 
 // IsCommand reports whether args start with a headless subcommand (or a
