@@ -14,7 +14,10 @@ if [ ! -f "$tool" ]; then
   exit 1
 fi
 actions=$(mktemp)
-trap 'rm -f "$actions"' EXIT
+# A private settings folder: no recent files, no recovery copies left by an
+# earlier run, the first-run window size.
+export XDG_CONFIG_HOME=$(mktemp -d)
+trap 'rm -rf "$actions" "$XDG_CONFIG_HOME"' EXIT
 # The step navigator's cards sit at x=100, one every 105 pixels from y=50.
 cat >"$actions" <<ACT
 for s in 1:setup 2:field 3:record 4:compare 5:report; do

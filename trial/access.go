@@ -223,9 +223,10 @@ func (t *Trial) TraitValues(key string) ([]float64, error) {
 }
 
 // SetValue records v for plot plotIdx (an index into t.Plots) and the trait
-// with key; Missing clears the value. A value outside the trait's range, a
-// fractional or negative count, a percentage outside 0–100 or an infinite
-// value is refused with a *ValidationError and nothing is stored.
+// with key; Missing clears the value. An impossible value — a fractional or
+// negative count, a percentage outside 0–100, an infinite value — is
+// refused with a *ValidationError and nothing is stored. A value outside
+// the trait's valid range is stored: it is data, flagged by RangeNote.
 func (t *Trial) SetValue(plotIdx int, key string, v float64) error {
 	j := t.TraitIndex(key)
 	if j < 0 {

@@ -3,9 +3,12 @@ package ui
 import (
 	"crypto/sha256"
 	"encoding/hex"
+	"errors"
+	"io/fs"
 	"os"
 	"path/filepath"
 	"slices"
+	"strings"
 	"time"
 
 	"fyne.io/fyne/v2"
@@ -187,8 +190,17 @@ func (u *App) OpenFile(path string) error {
 	return nil
 }
 
-// openPath opens a file; OpenFile shows any error.
-func (u *App) openPath(path string) { _ = u.OpenFile(path) }
+// openPath opens a file from the recent list or a dialog; OpenFile shows
+// any error. A file that no longer exists leaves the recent list.
+func (u *App) openPath(path string) {
+	if err := u.OpenFile(path); errors.Is(err, fs.ErrNotExist) {
+		u.prefs.onRecentRemoved(path)
+		u.updateMenus()
+		if u.doc == nil {
+			u.start.refresh()
+		}
+	}
+}
 
 // offerRecovery asks whether to restore a recovery copy of path that is
 // newer than the file itself; for path "" the newest copy of a trial never
@@ -371,6 +383,7 @@ func (u *App) showStep(s stepID) {
 		u.steps[s] = u.buildStep(s)
 	}
 	u.cur = s
+	u.nav.next = u.suggestedStep()
 	u.nav.setCurrent(s)
 	u.body.Objects = []fyne.CanvasObject{u.steps[s].object()}
 	u.body.Refresh()
@@ -398,17 +411,26 @@ func (u *App) buildStep(s stepID) stepView {
 	}
 }
 
-// suggestedStep is the next sensible step for the open trial.
+// nearlyComplete is the share of expected values entered from which the
+// analysis is worth looking at: a few plots are often never harvested, and
+// the analysis copes with them (the statistics package handles missing
+// plots), so Compare is suggested from here rather than at 100 %.
+const nearlyComplete = 0.95
+
+// suggestedStep is the next sensible step for the open trial: Setup until
+// it has a title, two treatments and a trait; Field until the plots are
+// laid out and randomised; Record while less than nearlyComplete of the
+// values are entered; then Compare, and Report once the user compares.
 func (u *App) suggestedStep() stepID {
 	t := u.doc.t
-	if len(t.Treatments) < 2 || len(t.Traits) == 0 || t.Title == "" {
+	if len(t.Treatments) < 2 || len(t.Traits) == 0 || strings.TrimSpace(t.Title) == "" {
 		return stepSetup
 	}
-	if len(t.Plots) == 0 {
+	if len(t.Plots) == 0 || (!t.Randomized() && !t.HasData()) {
 		return stepField
 	}
 	filled, total := dataProgress(t)
-	if total == 0 || filled < total {
+	if total == 0 || float64(filled) < nearlyComplete*float64(total) {
 		return stepRecord
 	}
 	if u.cur == stepCompare || u.cur == stepReport {
@@ -433,10 +455,17 @@ func (u *App) onClose() {
 		u.quit()
 		return
 	}
+	u.askUnsaved(u.quit)
+}
+
+// askUnsaved asks what to do with unsaved changes before then runs (quit,
+// or close the trial): save first, drop them on an explicit choice, or
+// cancel. Nothing is discarded without that choice.
+func (u *App) askUnsaved(then func()) {
 	var d dialog.Dialog
 	save := widget.NewButton("Save", func() {
 		d.Hide()
-		u.save(false, u.quit)
+		u.save(false, then)
 	})
 	save.Importance = widget.HighImportance
 	discard := widget.NewButton("Close without saving", func() {
@@ -444,7 +473,7 @@ func (u *App) onClose() {
 		u.saver.sync()
 		os.Remove(u.doc.recovery)
 		u.doc.dirty = false
-		u.quit()
+		then()
 	})
 	cancel := widget.NewButton("Cancel", func() { d.Hide() })
 	text := widget.NewLabel("The trial “" + u.doc.t.Title + "” has changes that are not saved to its file.")

@@ -10,6 +10,7 @@ import (
 	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/canvas"
 	"fyne.io/fyne/v2/container"
+	"fyne.io/fyne/v2/layout"
 	"fyne.io/fyne/v2/theme"
 	"fyne.io/fyne/v2/widget"
 
@@ -91,14 +92,13 @@ func newCompareStep(u *App) *compareStep {
 	c.warnings.Wrapping = fyne.TextWrapWord
 	c.means = widget.NewTableWithHeaders(
 		func() (int, int) { return len(c.meanRows), 5 },
-		func() fyne.CanvasObject { return widget.NewLabel("") },
+		func() fyne.CanvasObject { return compactCell("", false) },
 		c.updateMean)
 	c.means.ShowHeaderColumn = false
-	c.means.CreateHeader = func() fyne.CanvasObject {
-		return widget.NewLabelWithStyle("", fyne.TextAlignLeading, fyne.TextStyle{Bold: true})
-	}
+	// The table's rows are as tall as its header cells: both compact.
+	c.means.CreateHeader = func() fyne.CanvasObject { return compactCell("", true) }
 	c.means.UpdateHeader = func(id widget.TableCellID, o fyne.CanvasObject) {
-		o.(*widget.Label).SetText([]string{"Treatment", "Plots", "Mean", "SE", "Letters"}[id.Col])
+		setCompact(o, []string{"Treatment", "Plots", "Mean", "SE", "Letters"}[id.Col])
 	}
 	for i, w := range []float32{170, 55, 80, 75, 75} {
 		c.means.SetColumnWidth(i, w)
@@ -107,21 +107,19 @@ func newCompareStep(u *App) *compareStep {
 
 	c.summary = widget.NewTableWithHeaders(
 		func() (int, int) { return len(c.summaryRows), len(c.summaryHead) },
-		func() fyne.CanvasObject { return widget.NewLabel("") },
+		func() fyne.CanvasObject { return compactCell("", false) },
 		func(id widget.TableCellID, o fyne.CanvasObject) {
 			text := ""
 			if row := c.summaryRows[id.Row]; id.Col < len(row) {
 				text = row[id.Col]
 			}
-			o.(*widget.Label).SetText(text)
+			setCompact(o, text)
 		})
 	c.summary.ShowHeaderColumn = false
-	c.summary.CreateHeader = func() fyne.CanvasObject {
-		return widget.NewLabelWithStyle("", fyne.TextAlignLeading, fyne.TextStyle{Bold: true})
-	}
+	c.summary.CreateHeader = func() fyne.CanvasObject { return compactCell("", true) }
 	c.summary.UpdateHeader = func(id widget.TableCellID, o fyne.CanvasObject) {
 		if id.Col < len(c.summaryHead) {
-			o.(*widget.Label).SetText(c.summaryHead[id.Col])
+			setCompact(o, c.summaryHead[id.Col])
 		}
 	}
 
@@ -133,7 +131,7 @@ func newCompareStep(u *App) *compareStep {
 
 	upper := container.NewVScroll(container.NewVBox(heading("Analysis of variance"), c.anova, heading("Statistics"), c.statsBox, c.warnings))
 	left := container.NewVSplit(upper, container.NewBorder(heading("Means"), nil, nil, nil, c.means))
-	left.Offset = 0.55
+	left.Offset = 0.6
 	detail := container.NewHSplit(left, c.charts)
 	detail.Offset = 0.42
 	tabs := container.NewAppTabs(
@@ -156,6 +154,24 @@ func (c *compareStep) summaryWidths() {
 		}
 		c.summary.SetColumnWidth(i, w)
 	}
+}
+
+// compactCell is one cell of the ANOVA and statistics grids: plain text
+// with little padding, so that both fit above the means on a 768-pixel
+// screen (a label's padding doubles the row height).
+func compactCell(s string, bold bool) fyne.CanvasObject {
+	t := canvas.NewText(s, theme.Color(theme.ColorNameForeground))
+	t.TextStyle = fyne.TextStyle{Bold: bold}
+	p := theme.Padding()
+	return container.New(layout.NewCustomPaddedLayout(p/2, p/2, p, p*2), t)
+}
+
+// setCompact sets the text of a compactCell in the current theme colour.
+func setCompact(o fyne.CanvasObject, s string) {
+	t := o.(*fyne.Container).Objects[0].(*canvas.Text)
+	t.Text = s
+	t.Color = theme.Color(theme.ColorNameForeground)
+	t.Refresh()
 }
 
 func heading(s string) *widget.Label {
@@ -240,9 +256,7 @@ func (c *compareStep) show(s *resultSet) {
 }
 
 func (c *compareStep) showResult(r *analysis.Result) {
-	cell := func(s string, bold bool) fyne.CanvasObject {
-		return widget.NewLabelWithStyle(s, fyne.TextAlignLeading, fyne.TextStyle{Bold: bold})
-	}
+	cell := compactCell
 	for _, h := range []string{"Source", "df", "SS", "MS", "F", "P"} {
 		c.anova.Add(cell(h, true))
 	}
@@ -278,7 +292,11 @@ func (c *compareStep) showResult(r *analysis.Result) {
 		}
 		add("R²", fixed(a.RSquared, 3))
 		if a.RelativeEfficiency > 0 {
-			add("Relative efficiency of blocking", fixed(a.RelativeEfficiency, 2))
+			re := fixed(a.RelativeEfficiency, 2)
+			if !a.Balanced {
+				re += " (approximate: missing plots)"
+			}
+			add("Relative efficiency of blocking", re)
 		}
 		add("Plots analysed", fmt.Sprintf("%d (missing %d, excluded %d)", r.N, r.Missing, len(r.Excluded)))
 	}
@@ -303,12 +321,16 @@ func (c *compareStep) showResult(r *analysis.Result) {
 }
 
 func (c *compareStep) updateMean(id widget.TableCellID, o fyne.CanvasObject) {
-	l := o.(*widget.Label)
-	if id.Row >= len(c.meanRows) {
-		return
+	setCompact(o, c.meanText(id.Row, id.Col))
+}
+
+// meanText is the text of one cell of the means table.
+func (c *compareStep) meanText(row, col int) string {
+	if row >= len(c.meanRows) {
+		return ""
 	}
-	m := c.meanRows[id.Row]
-	switch id.Col {
+	m := c.meanRows[row]
+	switch col {
 	case 0:
 		s := m.Treatment
 		if m.Name != "" && m.Name != m.Treatment {
@@ -317,20 +339,20 @@ func (c *compareStep) updateMean(id widget.TableCellID, o fyne.CanvasObject) {
 		if m.Check {
 			s += " (check)"
 		}
-		l.SetText(s)
+		return s
 	case 1:
-		l.SetText(strconv.Itoa(m.N))
+		return strconv.Itoa(m.N)
 	case 2:
-		l.SetText(fixed(m.BackMean, c.shownDecimals+1))
+		return fixed(m.BackMean, c.shownDecimals+1)
 	case 3:
-		l.SetText(fixed(m.SE, c.shownDecimals+2))
+		return fixed(m.SE, c.shownDecimals+2)
 	case 4:
 		if c.method == analysis.Tukey {
-			l.SetText(m.LettersTukey)
-		} else {
-			l.SetText(m.LettersLSD)
+			return m.LettersTukey
 		}
+		return m.LettersLSD
 	}
+	return ""
 }
 
 func (c *compareStep) showCharts(cs []chartImage) {

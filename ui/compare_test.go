@@ -5,6 +5,7 @@ import (
 	"testing"
 
 	"fyne.io/fyne/v2"
+	"fyne.io/fyne/v2/canvas"
 	"fyne.io/fyne/v2/test"
 	"fyne.io/fyne/v2/widget"
 
@@ -32,9 +33,9 @@ func TestCompareControls(t *testing.T) {
 		t.Errorf("summary %v with %d rows", c.summaryHead, len(c.summaryRows))
 	}
 	cell := func(row, col int) string {
-		l := widget.NewLabel("")
-		c.updateMean(widget.TableCellID{Row: row, Col: col}, l)
-		return l.Text
+		o := compactCell("", false)
+		c.updateMean(widget.TableCellID{Row: row, Col: col}, o)
+		return o.(*fyne.Container).Objects[0].(*canvas.Text).Text
 	}
 	if got, want := cell(0, 4), c.meanRows[0].LettersLSD; got != want {
 		t.Errorf("LSD letters shown %q, want %q", got, want)

@@ -13,7 +13,8 @@ import (
 )
 
 // A cancelled export leaves no partial file; a finished one is complete
-// (the brief's export rules).
+// (the product's export rule, issue 5; a partial file is worse than none:
+// common practice).
 func TestWriteExport(t *testing.T) {
 	test.NewTempApp(t)
 	dir := t.TempDir()

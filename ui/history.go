@@ -54,7 +54,9 @@ func (h *history) redo() command {
 func (h *history) canUndo() bool { return len(h.done) > 0 }
 func (h *history) canRedo() bool { return len(h.undone) > 0 }
 
-// setValue changes one stored value.
+// setValue changes one stored value. It is recorded after trial.SetValue
+// accepted the new value; undo and redo only move between values the trial
+// accepted, in stack order, so they assign directly.
 type setValue struct {
 	trait, plot int // indices into Trial.Traits and Trial.Plots
 	old, new    float64

@@ -138,12 +138,7 @@ func (u *App) closeTrial() {
 		back()
 		return
 	}
-	dialog.ShowConfirm("Save changes?", "Save the changes to “"+u.doc.t.Title+"” before closing it?",
-		func(ok bool) {
-			if ok {
-				u.save(false, back)
-			}
-		}, u.win)
+	u.askUnsaved(back)
 }
 
 // cautionText is shown in the About and Cautions dialogs and, shortened,
@@ -220,6 +215,9 @@ func (u *App) showPreferences() {
 			p.onMeansOrderChanged(orderTrial)
 		} else {
 			p.onMeansOrderChanged(orderBestFirst)
+		}
+		if c, ok := u.steps[stepCompare].(*compareStep); ok && c != nil {
+			c.show(c.shown) // the means table follows at once
 		}
 	}
 	form := widget.NewForm(

@@ -147,7 +147,7 @@ func editToCompare(tb testing.TB, u *App, v float64) time.Duration {
 	return seen
 }
 
-// TestSpeed measures the brief's speed targets with generous bounds (the
+// TestSpeed measures the window's speed targets (issue 5) with generous bounds (the
 // test machine is shared): open a 1,200-plot trial and show the grid
 // (target 1 s), the same for 24,000 plots (3 s), and a value edit seen in
 // Compare for 1,200 plots (200 ms).

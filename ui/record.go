@@ -1,6 +1,7 @@
 package ui
 
 import (
+	"errors"
 	"fmt"
 	"slices"
 	"strconv"
@@ -245,7 +246,7 @@ func (r *recordStep) updateCell(id widget.TableCellID, o fyne.CanvasObject) {
 		italic = tr.Derived != nil
 		if ex, _ := t.Excluded(id.Row, tr.Key); ex {
 			fill = colorNameExcluded
-		} else if outOfRange(v, tr) {
+		} else if tr.RangeNote(v) != "" {
 			fill = colorNameFlag
 		}
 	default:
@@ -380,8 +381,8 @@ func (r *recordStep) loadEntry() {
 	}
 	r.entry.Enable()
 	r.entry.SetText(editText(r.value(r.sel.Row, j)))
-	if note := rangeNote(r.value(r.sel.Row, j), tr); note != "" {
-		r.setMsg(note, widget.WarningImportance)
+	if note := tr.RangeNote(r.value(r.sel.Row, j)); note != "" {
+		r.setMsg(upperFirst(note)+". The value is kept.", widget.WarningImportance)
 	} else if ex, why := t.Excluded(r.sel.Row, tr.Key); ex {
 		r.setMsg("This plot is left out of the analysis of "+tr.Name+": "+why+".", widget.LowImportance)
 	} else {
@@ -405,18 +406,24 @@ func (r *recordStep) commit(text string, delta int) bool {
 	tr := &t.Traits[j]
 	row := r.sel.Row
 	if tr.Derived == nil {
-		v, err := parseValue(text, tr)
+		v, err := parseValue(text)
 		if err != nil {
 			r.setMsg(err.Error()+".", widget.DangerImportance)
 			return false
 		}
 		old := tr.Values[row]
 		if !(trial.IsMissing(old) && trial.IsMissing(v)) && old != v {
-			r.u.doc.apply(&setValue{trait: j, plot: row, old: old, new: v})
+			// The trial decides what a value may be: it refuses impossible
+			// values and keeps implausible ones (flagged below).
+			if err := t.SetValue(row, tr.Key, v); err != nil {
+				r.setMsg(refusalText(err), widget.DangerImportance)
+				return false
+			}
+			r.u.doc.record(&setValue{trait: j, plot: row, old: old, new: tr.Values[row]})
 		}
-		if note := rangeNote(v, tr); note != "" {
+		if note := tr.RangeNote(v); note != "" {
 			// Keep the warning in view after moving on.
-			defer r.setMsg(fmt.Sprintf("Plot %d: %s", t.Plots[row].Number, note), widget.WarningImportance)
+			defer r.setMsg(fmt.Sprintf("Plot %d: %s. The value is kept.", t.Plots[row].Number, note), widget.WarningImportance)
 		}
 	}
 	next := row + delta
@@ -425,6 +432,16 @@ func (r *recordStep) commit(text string, delta int) bool {
 	}
 	r.table.Select(widget.TableCellID{Row: next, Col: r.sel.Col})
 	return true
+}
+
+// refusalText is the message for a value trial.SetValue refused, as a
+// sentence ("Plot 101: Heads is a count, so 2.5 is not possible; …").
+func refusalText(err error) string {
+	var verr *trial.ValidationError
+	if errors.As(err, &verr) {
+		return upperFirst(verr.Msg) + "."
+	}
+	return explain("The value was not stored", err).What
 }
 
 // excludeDialog leaves the selected plot out of the analysis, for one

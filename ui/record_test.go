@@ -3,6 +3,7 @@ package ui
 import (
 	"math"
 	"path/filepath"
+	"strings"
 	"testing"
 	"time"
 
@@ -11,7 +12,7 @@ import (
 	"furlong/trial"
 )
 
-// The entry flow follows the brief of the Record step (common practice for
+// The entry flow follows the Record step of issue 5 (common practice for
 // plot data entry): Enter stores the value and moves to the next plot in
 // walking order; text that is not a number is refused and nothing moves;
 // a value outside the valid range is kept and flagged.
@@ -52,8 +53,9 @@ func TestRecordEntryFlow(t *testing.T) {
 	if r.msg.Importance != widget.WarningImportance {
 		t.Fatalf("out-of-range value not flagged: %q", r.msg.Text)
 	}
-	if !outOfRange(12, &tr.Traits[0]) {
-		t.Fatal("12 is not reported out of range")
+	// The flag is the trial package's note for the value.
+	if want := tr.Traits[0].RangeNote(12); want == "" || !strings.Contains(r.msg.Text, want) {
+		t.Fatalf("flag %q does not carry the trait's range note %q", r.msg.Text, want)
 	}
 
 	// Counts refuse fractions (trial.Count is a whole number, 0 or more).
@@ -61,6 +63,13 @@ func TestRecordEntryFlow(t *testing.T) {
 	enter(r, "2.5")
 	if !math.IsNaN(tr.Traits[1].Values[0]) || r.sel.Row != 0 {
 		t.Fatal("a fractional count was accepted")
+	}
+	if r.msg.Importance != widget.DangerImportance || !strings.Contains(r.msg.Text, "count") {
+		t.Fatalf("fractional count: message %q (%v)", r.msg.Text, r.msg.Importance)
+	}
+	enter(r, "-4") // a negative count is impossible too
+	if !math.IsNaN(tr.Traits[1].Values[0]) || r.sel.Row != 0 {
+		t.Fatal("a negative count was accepted")
 	}
 	enter(r, "310")
 	if tr.Traits[1].Values[0] != 310 {
@@ -121,7 +130,7 @@ func TestRecordEntryFlow(t *testing.T) {
 	}
 }
 
-// Every edit reaches the disk within two seconds (the brief's autosave
+// Every edit reaches the disk within two seconds (issue 5's autosave
 // bound), written by the background saver to the recovery file.
 func TestAutosaveWithinTwoSeconds(t *testing.T) {
 	u, _ := newTestApp(t, 300*time.Millisecond)

@@ -30,13 +30,17 @@ type reportStep struct {
 	alpha    *widget.Select
 	paperSel *widget.RadioGroup
 	state    *widget.Label
+
+	keys    []string        // trait key of each option of traits
+	off     map[string]bool // traits left out of the report, by key
+	loading bool
 }
 
 var paperLabels = []string{"A4", "US Letter"}
 
 func newReportStep(u *App) *reportStep {
-	r := &reportStep{u: u}
-	r.traits = widget.NewCheckGroup(nil, nil)
+	r := &reportStep{u: u, off: map[string]bool{}}
+	r.traits = widget.NewCheckGroup(nil, r.traitsChanged)
 	r.charts = widget.NewCheck("A chart of the means on each trait sheet", nil)
 	r.charts.SetChecked(true)
 	r.method = widget.NewRadioGroup([]string{methodLabel(analysis.LSD), methodLabel(analysis.Tukey)}, nil)
@@ -86,16 +90,33 @@ func (r *reportStep) refresh(c change) {
 	}
 	t := r.u.doc.t
 	var opts, sel []string
+	r.keys = r.keys[:0]
 	for _, tr := range t.Traits {
 		l := traitLabel(&tr)
 		opts = append(opts, l)
-		if len(r.traits.Options) == 0 || r.traits.Selected == nil || contains(r.traits.Selected, l) {
+		r.keys = append(r.keys, tr.Key)
+		if !r.off[tr.Key] {
 			sel = append(sel, l)
 		}
 	}
+	r.loading = true
 	r.traits.Options = opts
 	r.traits.SetSelected(sel)
 	r.traits.Refresh()
+	r.loading = false
+}
+
+// traitsChanged remembers the traits left out by key, so that renaming a
+// trait in Setup keeps its choice.
+func (r *reportStep) traitsChanged(sel []string) {
+	if r.loading {
+		return
+	}
+	for i, l := range r.traits.Options {
+		if i < len(r.keys) {
+			r.off[r.keys[i]] = !contains(sel, l)
+		}
+	}
 }
 
 func contains(list []string, s string) bool {

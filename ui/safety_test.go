@@ -7,11 +7,12 @@ import (
 	"testing"
 	"time"
 
+	"fyne.io/fyne/v2/test"
 	"fyne.io/fyne/v2/widget"
 )
 
 // After a crash the most recent state is offered back: the recovery copy
-// written by the autosave is newer than the trial file (the brief's crash
+// written by the autosave is newer than the trial file (issue 5's crash
 // rule).
 func TestRecoveryAfterCrash(t *testing.T) {
 	u, _ := newTestApp(t, 0)
@@ -71,6 +72,12 @@ func TestCloseAsks(t *testing.T) {
 	}
 	if u.doc == nil || !u.doc.dirty {
 		t.Fatal("the unsaved trial was dropped")
+	}
+	// File > Close trial asks the same way.
+	w.Canvas().Overlays().Top().Hide()
+	u.closeTrial()
+	if w.Canvas().Overlays().Top() == nil || u.doc == nil {
+		t.Fatal("closing the trial with unsaved changes did not ask")
 	}
 }
 
@@ -149,5 +156,40 @@ func TestUntitledRecovery(t *testing.T) {
 	u2.showStart()
 	if w2.Canvas().Overlays().Top() == nil {
 		t.Fatal("the start screen does not offer the unsaved trial")
+	}
+}
+
+// The window takes its remembered size; the first-run size fits a
+// 1366 × 768 laptop screen (the smallest screen issue 5 names).
+func TestWindowSize(t *testing.T) {
+	a := test.NewTempApp(t)
+	w := test.NewTempWindow(t, widget.NewLabel(""))
+	u := New(a, w, Options{autosaveDelay: time.Hour})
+	t.Cleanup(u.saver.stop)
+	if s := w.Canvas().Size(); s.Width > 1366 || s.Height > 768-48 || s.Width < 1000 {
+		t.Errorf("first-run size %v does not fit 1366×768 with a title bar", s)
+	}
+	a.Preferences().SetFloat(keyWindowWidth, 1500)
+	a.Preferences().SetFloat(keyWindowHeight, 900)
+	w2 := test.NewTempWindow(t, widget.NewLabel(""))
+	u2 := New(a, w2, Options{autosaveDelay: time.Hour})
+	t.Cleanup(u2.saver.stop)
+	if s := w2.Canvas().Size(); s.Width != 1500 || s.Height != 900 {
+		t.Errorf("remembered size not applied: %v", s)
+	}
+}
+
+// A recent file that was moved away is explained and leaves the list.
+func TestRecentMissing(t *testing.T) {
+	u, w := newTestApp(t, 0)
+	gone := filepath.Join(t.TempDir(), "moved.furlong")
+	u.prefs.onFileOpened(gone)
+	u.showStart()
+	u.openPath(gone)
+	if w.Canvas().Overlays().Top() == nil {
+		t.Error("no dialog for a missing recent file")
+	}
+	if len(u.prefs.recent) != 0 {
+		t.Errorf("recent list still holds %v", u.prefs.recent)
 	}
 }

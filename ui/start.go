@@ -1,7 +1,6 @@
 package ui
 
 import (
-	"os"
 	"path/filepath"
 
 	"fyne.io/fyne/v2"
@@ -41,11 +40,7 @@ func (s *startScreen) refresh() {
 	for _, p := range s.u.prefs.recent {
 		path := p
 		b := widget.NewButtonWithIcon(filepath.Base(path)+"   ("+filepath.Dir(path)+")", theme.DocumentIcon(), func() {
-			if _, err := os.Stat(path); err != nil {
-				s.u.prefs.onRecentRemoved(path)
-				s.refresh()
-			}
-			s.u.openPath(path)
+			s.u.openPath(path) // a missing file is explained and leaves the list
 		})
 		b.Alignment = widget.ButtonAlignLeading
 		b.Importance = widget.LowImportance

@@ -39,6 +39,12 @@ func (t furlongTheme) Color(n fyne.ThemeColorName, v fyne.ThemeVariant) color.Co
 		return color.NRGBA{R: 0xb0, G: 0x7a, B: 0x40, A: 0x70}
 	case theme.ColorNameSelection:
 		return color.NRGBA{R: 0xb0, G: 0x7a, B: 0x40, A: 0x50}
+	case theme.ColorNameWarning:
+		if !dark {
+			// The default orange is hard to read as text on white (about
+			// 2:1); a deeper amber keeps warnings readable (about 5:1).
+			return color.NRGBA{R: 0xa8, G: 0x5a, B: 0x00, A: 0xff}
+		}
 	case colorNameFlag:
 		if dark {
 			return color.NRGBA{R: 0x8c, G: 0x5e, B: 0x00, A: 0xff}

@@ -6,19 +6,15 @@ import (
 	"math"
 	"strconv"
 	"strings"
+	"unicode"
 
 	"furlong/trial"
 )
 
-// errNotNumber and friends are the reasons typed text is refused.
-var (
-	errNotNumber = errors.New("not a number")
-	errNotCount  = errors.New("not a count")
-	errNotPct    = errors.New("not a percentage")
-)
+// errNotNumber is the reason typed text that is not a number is refused.
+var errNotNumber = errors.New("not a number")
 
-// valueError is a refused value: a plain message that wraps one of the
-// sentinels above.
+// valueError is refused text: a plain message that wraps errNotNumber.
 type valueError struct {
 	kind error
 	msg  string
@@ -27,16 +23,13 @@ type valueError struct {
 func (e *valueError) Error() string { return e.msg }
 func (e *valueError) Unwrap() error { return e.kind }
 
-func refuse(kind error, format string, args ...any) error {
-	return &valueError{kind: kind, msg: fmt.Sprintf(format, args...)}
-}
-
-// parseValue reads the text typed for one plot and trait. Empty text is a
-// missing value. A comma is accepted as the decimal mark when the text has
-// no point. Text that is not a value of the trait's kind is refused with a
-// plain message; a value outside the trait's valid range is accepted (the
-// caller flags it, see rangeNote).
-func parseValue(text string, tr *trial.Trait) (float64, error) {
+// parseValue reads the text typed for one plot. Empty text is a missing
+// value. A comma is accepted as the decimal mark when the text has no
+// point. Text that is not a finite number is refused with a plain message.
+// Whether the number is possible for the trait (a whole count, a
+// percentage of 0 to 100) is decided by trial.SetValue, and whether it is
+// plausible by Trait.RangeNote: the window keeps no rules of its own.
+func parseValue(text string) (float64, error) {
 	s := strings.TrimSpace(text)
 	if s == "" {
 		return trial.Missing, nil
@@ -46,51 +39,22 @@ func parseValue(text string, tr *trial.Trait) (float64, error) {
 	}
 	v, err := strconv.ParseFloat(s, 64)
 	if err != nil || math.IsNaN(v) || math.IsInf(v, 0) || strings.ContainsAny(s, "xXpP_") {
-		return 0, refuse(errNotNumber, "“%s” is not a number. Type a number such as 12.5, or clear the cell for a missing value", text)
-	}
-	switch tr.Kind {
-	case trial.Count:
-		if v < 0 || v != math.Trunc(v) {
-			return 0, refuse(errNotCount, "%s counts %s, so the value must be a whole number, 0 or more", tr.Name, unitOr(tr.Unit, "items"))
-		}
-	case trial.Percent:
-		if v < 0 || v > 100 {
-			return 0, refuse(errNotPct, "%s is a percentage, so the value must lie between 0 and 100", tr.Name)
-		}
+		return 0, &valueError{kind: errNotNumber, msg: fmt.Sprintf("“%s” is not a number. Type a number such as 12.5, or clear the cell for a missing value", text)}
 	}
 	return v, nil
 }
 
-func unitOr(u, alt string) string {
-	if u == "" {
-		return alt
+// upperFirst starts a message with a capital letter.
+func upperFirst(s string) string {
+	if s == "" {
+		return s
 	}
-	return u
+	r := []rune(s)
+	r[0] = unicode.ToUpper(r[0])
+	return string(r)
 }
 
-// rangeNote returns a warning when v lies outside the trait's valid range,
-// or "" when it does not (or is missing).
-func rangeNote(v float64, tr *trial.Trait) string {
-	if trial.IsMissing(v) {
-		return ""
-	}
-	if tr.Min != nil && v < *tr.Min {
-		return fmt.Sprintf("%s is below the expected range of %s (%s). The value is kept; check it.", formatValue(v, tr.Decimals), tr.Name, rangeText(tr))
-	}
-	if tr.Max != nil && v > *tr.Max {
-		return fmt.Sprintf("%s is above the expected range of %s (%s). The value is kept; check it.", formatValue(v, tr.Decimals), tr.Name, rangeText(tr))
-	}
-	return ""
-}
-
-// outOfRange reports whether v is outside the trait's valid range.
-func outOfRange(v float64, tr *trial.Trait) bool {
-	if trial.IsMissing(v) {
-		return false
-	}
-	return (tr.Min != nil && v < *tr.Min) || (tr.Max != nil && v > *tr.Max)
-}
-
+// rangeText describes a trait's valid range, for the Setup step's list.
 func rangeText(tr *trial.Trait) string {
 	switch {
 	case tr.Min != nil && tr.Max != nil:

@@ -1,0 +1,137 @@
+package ui
+
+import (
+	"math"
+	"strings"
+	"testing"
+
+	"fyne.io/fyne/v2/test"
+	"fyne.io/fyne/v2/widget"
+
+	"furlong/trial"
+)
+
+// The Traits tab edits an existing trait through trial.UpdateTrait: a new
+// name, range and key (the plots' exclusions follow the key), refused
+// entries are explained under the form, and every change is undoable.
+func TestEditTrait(t *testing.T) {
+	u, _ := newTestApp(t, 0)
+	tr := smallTrial(t)
+	tr.Traits[0].Values[0] = 5.5
+	tr.Traits[1].Values[0] = 310
+	if err := tr.Exclude(0, "yld", "hail"); err != nil {
+		t.Fatal(err)
+	}
+	u.OpenTrial(tr, "")
+	u.showStep(stepSetup)
+	s := u.steps[stepSetup].(*setupStep)
+	f := s.tf
+
+	s.traitList.Select(0)
+	if f.editing != "yld" || f.key.Text != "yld" || f.maxE.Text != "10" || f.apply.Disabled() {
+		t.Fatalf("form not loaded from the trait: editing %q key %q max %q", f.editing, f.key.Text, f.maxE.Text)
+	}
+	f.key.SetText("gy")
+	f.name.SetText("Grain yield")
+	f.maxE.SetText("12")
+	test.Tap(f.apply)
+	got := u.doc.t.Trait("gy")
+	if got == nil || got.Name != "Grain yield" || got.Max == nil || *got.Max != 12 || got.Values[0] != 5.5 {
+		t.Fatalf("trait after the change: %+v", got)
+	}
+	if ex, why := u.doc.t.Excluded(0, "gy"); !ex || why != "hail" {
+		t.Fatal("the exclusion did not follow the renamed key")
+	}
+	if f.editing != "gy" || f.msg.Importance != widget.SuccessImportance {
+		t.Fatalf("form after the change: editing %q, message %q", f.editing, f.msg.Text)
+	}
+
+	// Text that is not a number is refused, nothing changes.
+	f.dec.SetText("two")
+	test.Tap(f.apply)
+	if f.msg.Importance != widget.DangerImportance || !strings.Contains(f.msg.Text, "two") {
+		t.Fatalf("bad decimals: message %q", f.msg.Text)
+	}
+	if u.doc.t.Trait("gy").Decimals != 2 {
+		t.Fatal("refused form changed the trait")
+	}
+	// A range upside down is refused by the trial's own check.
+	f.dec.SetText("2")
+	f.minE.SetText("20")
+	test.Tap(f.apply)
+	if f.msg.Importance != widget.DangerImportance || u.doc.t.Trait("gy").Min == nil || *u.doc.t.Trait("gy").Min != 0 {
+		t.Fatalf("inverted range: message %q, min %v", f.msg.Text, u.doc.t.Trait("gy").Min)
+	}
+	// A measurement holding 5.5 cannot become a count (a count is a whole
+	// number, trial.Count).
+	f.minE.SetText("0")
+	f.kind.SetSelectedIndex(1)
+	test.Tap(f.apply)
+	if f.msg.Importance != widget.DangerImportance || u.doc.t.Trait("gy").Kind != trial.Continuous {
+		t.Fatalf("kind change over a fractional value: message %q", f.msg.Text)
+	}
+
+	// Undo takes the rename back; the form follows.
+	u.undo()
+	if u.doc.t.Trait("yld") == nil || u.doc.t.Trait("gy") != nil {
+		t.Fatal("undo did not take back the trait change")
+	}
+	if f.editing != "" {
+		t.Fatalf("form still edits %q after undo", f.editing)
+	}
+}
+
+// A derived adjusted yield keeps its formula and lets its standard moisture
+// and unit change; the computed values follow (MoistureAdjustedYield:
+// Y = W·(100−M)/(100−Ms)·10/A, so going from a 13.5 % to a 15 % basis
+// multiplies every yield by 86.5/85 — arithmetic from that formula).
+func TestEditDerivedYield(t *testing.T) {
+	u, _ := newTestApp(t, 0)
+	if err := u.OpenDemo(); err != nil {
+		t.Fatal(err)
+	}
+	u.showStep(stepSetup)
+	s := u.steps[stepSetup].(*setupStep)
+	f := s.tf
+	tr := u.doc.t
+	j := tr.TraitIndex("yield")
+	before, err := tr.TraitValues("yield")
+	if err != nil {
+		t.Fatal(err)
+	}
+	ms0 := tr.Traits[j].Derived.StandardMoisture
+	s.traitList.Select(j)
+	if !f.derivedBox.Visible() || !f.unit.Disabled() || !f.add.Disabled() {
+		t.Fatal("derived settings not shown for the adjusted yield")
+	}
+	f.stdMoist.SetText("15")
+	test.Tap(f.apply)
+	y := u.doc.t.Trait("yield")
+	if y.Derived == nil || y.Derived.StandardMoisture != 15 || y.Name != "Yield at 15 % moisture" {
+		t.Fatalf("after the change: %+v %+v (%s)", y, y.Derived, f.msg.Text)
+	}
+	after, _ := u.doc.t.TraitValues("yield")
+	// Moisture adjustment Y = W·(100−M)/(100−Ms)·10/A (common practice):
+	// moving the basis from Ms0 to 15 % multiplies Y by (100−Ms0)/(100−15).
+	ratio := (100 - ms0) / 85
+	for i := range before {
+		if trial.IsMissing(before[i]) {
+			continue
+		}
+		if math.Abs(after[i]-before[i]*ratio) > 1e-9*before[i] {
+			t.Fatalf("plot %d: yield %v, want %v", i, after[i], before[i]*ratio)
+		}
+	}
+	// Bushels per acre use the crop's bushel weight (wheat in the demo).
+	f.outUnit.SetSelected(trial.UnitBuAc)
+	test.Tap(f.apply)
+	y = u.doc.t.Trait("yield")
+	if y.Unit != trial.UnitBuAc || y.Derived.OutputUnit != trial.UnitBuAc || y.Derived.BushelWeightLb <= 0 {
+		t.Fatalf("bu/ac: %+v %+v (%s)", y, y.Derived, f.msg.Text)
+	}
+	u.undo()
+	u.undo()
+	if u.doc.t.Trait("yield").Derived.StandardMoisture != ms0 {
+		t.Fatal("undo did not restore the standard moisture")
+	}
+}
