@@ -39,7 +39,7 @@ type styleKey struct {
 	font      string // RGB hex, "" for automatic
 	halign    string
 	valign    string
-	border    [4]int // left, top, right, bottom border style (0 none, 1 thin, 2 medium)
+	border    [4]int // left, top, right, bottom border style (excelize styles: 0 none, 1 thin, 2 medium, 5 thick)
 	size      float64
 	underline bool
 }

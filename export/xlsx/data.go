@@ -211,11 +211,13 @@ func (r *report) writeFieldMap(name string) error {
 			if hex, ok := colour[g.trt]; ok {
 				k.fill, k.font = hex, fontFor(hex)
 			}
+			// Thin lines between plots, thick ones (excelize style 5)
+			// around each block, so blocks stand out on paper too.
 			edge := func(same bool) int {
 				if same {
 					return 1
 				}
-				return 2
+				return 5
 			}
 			k.border = [4]int{
 				edge(sameBlock(fr, fc, fr, fc-1)), edge(sameBlock(fr, fc, fr+1, fc)),
