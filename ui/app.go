@@ -182,7 +182,8 @@ func (u *App) closeDocument() {
 func (u *App) OpenFile(path string) error {
 	t, err := loadFile(path)
 	if err != nil {
-		showError(u.win, "Could not open the trial", "The trial file "+filepath.Base(path)+" could not be opened", err)
+		showMessage(u.win, "Could not open the trial",
+			explain("The trial file "+filepath.Base(path)+" could not be opened", err).forFile(path))
 		return err
 	}
 	u.OpenTrial(t, path)
@@ -190,9 +191,14 @@ func (u *App) OpenFile(path string) error {
 	return nil
 }
 
-// openPath opens a file from the recent list or a dialog; OpenFile shows
-// any error. A file that no longer exists leaves the recent list.
+// openPath opens a file from the recent list or a dialog, first asking
+// what to do with unsaved changes of the open trial; OpenFile shows any
+// error. A file that no longer exists leaves the recent list.
 func (u *App) openPath(path string) {
+	u.leaveOpen(func() { u.openNow(path) })
+}
+
+func (u *App) openNow(path string) {
 	if err := u.OpenFile(path); errors.Is(err, fs.ErrNotExist) {
 		u.prefs.onRecentRemoved(path)
 		u.updateMenus()
@@ -274,8 +280,22 @@ func (u *App) OpenDemo() error {
 	return nil
 }
 
-// newTrial starts an empty trial with the usual defaults.
-func (u *App) newTrial() {
+// newTrial starts an empty trial with the usual defaults, first asking
+// what to do with unsaved changes of the open one.
+func (u *App) newTrial() { u.leaveOpen(u.startNewTrial) }
+
+// leaveOpen runs then, which replaces the open trial, once the user chose
+// what to do with its unsaved changes (at once when there are none).
+func (u *App) leaveOpen(then func()) {
+	if u.doc == nil || !u.doc.dirty {
+		then()
+		return
+	}
+	u.askUnsaved(then)
+}
+
+// startNewTrial replaces the open trial with an empty one.
+func (u *App) startNewTrial() {
 	now := time.Now()
 	t := &trial.Trial{
 		Title:   "New trial",

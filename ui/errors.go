@@ -3,6 +3,8 @@ package ui
 import (
 	"errors"
 	"io/fs"
+	"os"
+	"path/filepath"
 	"strings"
 
 	"fyne.io/fyne/v2"
@@ -11,6 +13,7 @@ import (
 	"fyne.io/fyne/v2/widget"
 
 	"furlong/trial"
+	"furlong/trial/trialfile"
 )
 
 // message is an error told in plain words: what happened and what to do.
@@ -77,7 +80,31 @@ func lowerFirst(s string) string {
 
 // showError shows err as a dialog in plain words on w.
 func showError(w fyne.Window, title, action string, err error) {
-	m := explain(action, err)
+	showMessage(w, title, explain(action, err))
+}
+
+// backupHint stands for the backup copy in the advice of explain; forFile
+// names the real one.
+const backupHint = "NAME.furlong.bak"
+
+// forFile fits m to the trial file at path: the advice names the file's
+// backup copy, or says there is none.
+func (m message) forFile(path string) message {
+	if !strings.Contains(m.Do, backupHint) {
+		return m
+	}
+	bak := path + trialfile.BackupSuffix
+	if fi, err := os.Stat(bak); err == nil && fi.Mode().IsRegular() {
+		m.Do = strings.ReplaceAll(m.Do, backupHint, filepath.Base(bak))
+		return m
+	}
+	m.Do = "There is no backup copy (" + filepath.Base(bak) + ") next to it. Open an earlier copy of the trial if you keep one, " +
+		"or start again from its field book."
+	return m
+}
+
+// showMessage shows m as a dialog on w.
+func showMessage(w fyne.Window, title string, m message) {
 	what := widget.NewLabel(m.What)
 	what.Wrapping = fyne.TextWrapWord
 	todo := widget.NewLabel(m.Do)

@@ -21,7 +21,7 @@ func explainPackages(action string, err error) (message, bool) {
 	}
 	switch {
 	case errors.Is(err, trialfile.ErrNotTrialFile):
-		return message{action + ": the file is not a Furlong trial file.", "Choose a file ending in .furlong. Field books (CSV or xlsx) are imported in the Record step."}, true
+		return message{action + ": the file is not a Furlong trial file.", "Check that you chose the right file: Furlong trial files end in .furlong and are written by Furlong. Field books (CSV or xlsx) are imported in the Record step."}, true
 	case errors.Is(err, trialfile.ErrNewerVersion):
 		return message{action + ": the file was written by a newer version of Furlong.", "Update Furlong to open it."}, true
 	case errors.Is(err, trialfile.ErrTruncated):

@@ -7,6 +7,7 @@ import (
 	"net/url"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 
 	"fyne.io/fyne/v2"
@@ -28,13 +29,17 @@ type exportJob func(ctx context.Context, w io.Writer, ext string, progress func(
 func (u *App) exportDialog(what, fileName string, exts []string, long bool, job exportJob) {
 	d := dialog.NewFileSave(func(wc fyne.URIWriteCloser, err error) {
 		if err != nil {
-			showError(u.win, "Could not export", "The "+what+" could not be written", err)
+			// The dialog joins what was typed to the folder it shows, so
+			// a typed folder path ends up in a folder that does not exist.
+			showMessage(u.win, "Could not export", message{
+				"The " + what + " could not be written there: Furlong could not create a file of that name in that folder.",
+				"Type only the file name (without / or \\), choose the folder in the dialog, and export again."})
 			return
 		}
 		if wc == nil {
 			return // cancelled
 		}
-		u.runExport(what, wc, long, job)
+		u.withEnding(wc, exts, func(wc fyne.URIWriteCloser) { u.runExport(what, wc, long, job) })
 	}, u.win)
 	d.SetFileName(fileName)
 	if len(exts) > 0 {
@@ -45,6 +50,43 @@ func (u *App) exportDialog(what, fileName string, exts []string, long bool, job 
 	}
 	d.Resize(dialogSize(u.win))
 	d.Show()
+}
+
+// withEnding passes wc to then when its name ends in one of exts (or exts
+// is empty). A name typed without an ending gets the first of exts: the
+// empty file the dialog made goes, and an existing file of the new name is
+// only replaced once the user agrees (the dialog asked about the bare name).
+func (u *App) withEnding(wc fyne.URIWriteCloser, exts []string, then func(fyne.URIWriteCloser)) {
+	uri := wc.URI()
+	ext := strings.ToLower(uri.Extension())
+	if len(exts) == 0 || uri.Scheme() != "file" || slices.Contains(exts, ext) {
+		then(wc)
+		return
+	}
+	wc.Close()
+	bare := uri.Path()
+	if fi, err := os.Stat(bare); err == nil && fi.Mode().IsRegular() && fi.Size() == 0 {
+		os.Remove(bare)
+	}
+	path := bare + exts[0]
+	open := func() {
+		w, err := storage.Writer(storage.NewFileURI(path))
+		if err != nil {
+			showError(u.win, "Could not export", "The file "+filepath.Base(path)+" could not be created", err)
+			return
+		}
+		then(w)
+	}
+	if _, err := os.Stat(path); err != nil {
+		open()
+		return
+	}
+	dialog.ShowConfirm("Replace the file?", "A file "+filepath.Base(path)+" already exists in "+
+		filepath.Dir(path)+".\n\nReplace it?", func(ok bool) {
+		if ok {
+			open()
+		}
+	}, u.win)
 }
 
 // runExport writes job into wc in the background and reports the outcome.

@@ -1,6 +1,7 @@
 package ui
 
 import (
+	"os"
 	"path/filepath"
 	"strings"
 
@@ -98,20 +99,21 @@ func (u *App) saveTo(path string, then func()) {
 func (u *App) saveAsDialog(then func()) {
 	d := dialog.NewFileSave(func(wc fyne.URIWriteCloser, err error) {
 		if err != nil {
-			showError(u.win, "Could not save", "The trial could not be saved", err)
+			// The dialog joins what was typed to the folder it shows, so
+			// a typed folder path ends up in a folder that does not exist.
+			showMessage(u.win, "Could not save", message{
+				"The trial could not be saved there: Furlong could not create a file of that name in that folder.",
+				"Type only the file name (for example trial.furlong, without / or \\), choose the folder in the dialog, and save again."})
 			return
 		}
 		if wc == nil {
 			return
 		}
-		path := wc.URI().Path()
-		// The saver writes atomically next to the chosen name; the
-		// empty file the dialog created is replaced.
+		chosen := wc.URI().Path()
+		// The dialog has created (or emptied) the file; the saver writes
+		// atomically over it.
 		wc.Close()
-		if !strings.HasSuffix(strings.ToLower(path), trialExt) {
-			path += trialExt
-		}
-		u.saveTo(path, then)
+		u.saveChosen(chosen, then)
 	}, u.win)
 	d.SetFilter(storage.NewExtensionFileFilter([]string{trialExt}))
 	d.SetFileName(safeFileName(u.doc.t.Title) + trialExt)
@@ -120,6 +122,34 @@ func (u *App) saveAsDialog(then func()) {
 	}
 	d.Resize(dialogSize(u.win))
 	d.Show()
+}
+
+// saveChosen saves the trial under the name chosen in the save dialog,
+// adding the .furlong ending when it was left off.
+func (u *App) saveChosen(chosen string, then func()) {
+	path := chosen
+	if strings.HasSuffix(strings.ToLower(path), trialExt) {
+		u.saveTo(path, then)
+		return
+	}
+	// A name typed without the ending: the trial goes to NAME.furlong,
+	// and the empty file the dialog made under the bare name goes.
+	path += trialExt
+	if fi, err := os.Stat(chosen); err == nil && fi.Mode().IsRegular() && fi.Size() == 0 {
+		os.Remove(chosen)
+	}
+	if _, err := os.Stat(path); err != nil || path == u.doc.path {
+		u.saveTo(path, then)
+		return
+	}
+	// The dialog asked about the bare name only; ask about the file
+	// that will really be replaced.
+	dialog.ShowConfirm("Replace the file?", "A trial file "+filepath.Base(path)+" already exists in "+
+		filepath.Dir(path)+".\n\nReplace it with this trial?", func(ok bool) {
+		if ok {
+			u.saveTo(path, then)
+		}
+	}, u.win)
 }
 
 // safeFileName turns a title into a file name.

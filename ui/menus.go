@@ -14,14 +14,16 @@ import (
 )
 
 // Shortcuts use the platform's usual modifier: Ctrl on Linux and Windows,
-// Cmd on macOS.
+// Cmd on macOS. Undo and redo are Fyne's own shortcuts: the desktop driver
+// turns Ctrl+Z and Ctrl+Y into fyne.ShortcutUndo and fyne.ShortcutRedo,
+// never into a custom shortcut, so a custom one would never fire.
 var (
 	scNew    = &desktop.CustomShortcut{KeyName: fyne.KeyN, Modifier: fyne.KeyModifierShortcutDefault}
 	scOpen   = &desktop.CustomShortcut{KeyName: fyne.KeyO, Modifier: fyne.KeyModifierShortcutDefault}
 	scSave   = &desktop.CustomShortcut{KeyName: fyne.KeyS, Modifier: fyne.KeyModifierShortcutDefault}
 	scSaveAs = &desktop.CustomShortcut{KeyName: fyne.KeyS, Modifier: fyne.KeyModifierShortcutDefault | fyne.KeyModifierShift}
-	scUndo   = &desktop.CustomShortcut{KeyName: fyne.KeyZ, Modifier: fyne.KeyModifierShortcutDefault}
-	scRedo   = &desktop.CustomShortcut{KeyName: fyne.KeyY, Modifier: fyne.KeyModifierShortcutDefault}
+	scUndo   = &fyne.ShortcutUndo{}
+	scRedo   = &fyne.ShortcutRedo{}
 	scExport = &desktop.CustomShortcut{KeyName: fyne.KeyE, Modifier: fyne.KeyModifierShortcutDefault}
 	scQuit   = &desktop.CustomShortcut{KeyName: fyne.KeyQ, Modifier: fyne.KeyModifierShortcutDefault}
 )
