@@ -154,6 +154,7 @@ func (a *analyser) run() {
 	opts := a.analysisOptions()
 	focus := a.focusKey()
 	method := a.u.prefs.method
+	order := chartOrder(a.u.prefs.meansOrder)
 	if cs, ok := a.u.steps[stepCompare].(*compareStep); ok && cs != nil {
 		method = cs.method
 	}
@@ -178,7 +179,7 @@ func (a *analyser) run() {
 			tables := *set
 			tables.traits = append([]traitResult(nil), set.traits...)
 			a.post(func() { a.deliver(&tables) })
-			set.charts = drawCharts(snap, tr, method)
+			set.charts = drawCharts(snap, tr, method, order)
 			if ctx.Err() != nil {
 				return
 			}

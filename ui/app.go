@@ -54,6 +54,10 @@ type App struct {
 	compute *analyser
 	menu    menuItems
 
+	// unsavedAsk is the overlay of the save-changes question while it is
+	// open.
+	unsavedAsk fyne.CanvasObject
+
 	// saved, when set, receives every finished save (tests wait on it).
 	saved func(j saveJob, err error)
 	// exported, when set, receives every finished export (tests).
@@ -195,7 +199,7 @@ func (u *App) OpenFile(path string) error {
 // what to do with unsaved changes of the open trial; OpenFile shows any
 // error. A file that no longer exists leaves the recent list.
 func (u *App) openPath(path string) {
-	u.leaveOpen(func() { u.openNow(path) })
+	u.leaveOpen("Open another", func() { u.openNow(path) })
 }
 
 func (u *App) openNow(path string) {
@@ -282,16 +286,18 @@ func (u *App) OpenDemo() error {
 
 // newTrial starts an empty trial with the usual defaults, first asking
 // what to do with unsaved changes of the open one.
-func (u *App) newTrial() { u.leaveOpen(u.startNewTrial) }
+func (u *App) newTrial() { u.leaveOpen("Start new", u.startNewTrial) }
 
 // leaveOpen runs then, which replaces the open trial, once the user chose
 // what to do with its unsaved changes (at once when there are none).
-func (u *App) leaveOpen(then func()) {
+// The discard button is worded for the action ("Start new without
+// saving").
+func (u *App) leaveOpen(action string, then func()) {
 	if u.doc == nil || !u.doc.dirty {
 		then()
 		return
 	}
-	u.askUnsaved(then)
+	u.askUnsaved(action, then)
 }
 
 // startNewTrial replaces the open trial with an empty one.
@@ -475,20 +481,25 @@ func (u *App) onClose() {
 		u.quit()
 		return
 	}
-	u.askUnsaved(u.quit)
+	u.askUnsaved("Quit", u.quit)
 }
 
 // askUnsaved asks what to do with unsaved changes before then runs (quit,
 // or close the trial): save first, drop them on an explicit choice, or
-// cancel. Nothing is discarded without that choice.
-func (u *App) askUnsaved(then func()) {
+// cancel. Nothing is discarded without that choice. action words the
+// discard button ("Quit" gives "Quit without saving"). While the question
+// is open a second request (Ctrl+Q again) is ignored rather than stacked.
+func (u *App) askUnsaved(action string, then func()) {
+	if u.unsavedAsk != nil && slices.Contains(u.win.Canvas().Overlays().List(), u.unsavedAsk) {
+		return
+	}
 	var d dialog.Dialog
 	save := widget.NewButton("Save", func() {
 		d.Hide()
 		u.save(false, then)
 	})
 	save.Importance = widget.HighImportance
-	discard := widget.NewButton("Close without saving", func() {
+	discard := widget.NewButton(action+" without saving", func() {
 		d.Hide()
 		u.saver.sync()
 		os.Remove(u.doc.recovery)
@@ -501,7 +512,10 @@ func (u *App) askUnsaved(then func()) {
 	d = dialog.NewCustomWithoutButtons("Save changes?", container.NewVBox(text,
 		container.NewHBox(cancel, discard, save)), u.win)
 	d.Resize(fyne.NewSize(460, 180))
+	d.SetOnClosed(func() { u.unsavedAsk = nil })
 	d.Show()
+	u.unsavedAsk = u.win.Canvas().Overlays().Top()
+	closeOnEscape(u.win, d)
 }
 
 // quit writes what is pending, remembers the window size and closes.

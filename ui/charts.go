@@ -12,9 +12,10 @@ import (
 // them to fit (FillMode contain).
 const chartW, chartH = 760, 500
 
-// drawCharts draws the screen charts of one analysed trait. It runs on the
-// analyser's goroutine and touches only the snapshot.
-func drawCharts(t *trial.Trial, tr traitResult, m analysis.Method) []chartImage {
+// drawCharts draws the screen charts of one analysed trait, treatments in
+// order (the Order of means preference). It runs on the analyser's
+// goroutine and touches only the snapshot.
+func drawCharts(t *trial.Trial, tr traitResult, m analysis.Method, order chart.Order) []chartImage {
 	if tr.res == nil {
 		return nil
 	}
@@ -24,13 +25,13 @@ func drawCharts(t *trial.Trial, tr traitResult, m analysis.Method) []chartImage 
 	}
 	makers := []maker{
 		{"Means", func() (*plot.Plot, error) {
-			return chart.Means(t, tr.res, chart.MeansOptions{Letters: m, Order: chart.ByMean})
+			return chart.Means(t, tr.res, chart.MeansOptions{Letters: m, Order: order})
 		}},
 		{"Field heat map", func() (*plot.Plot, error) {
 			return chart.HeatMap(t, tr.key, chart.HeatMapOptions{PlotNumbers: true})
 		}},
 		{"Spread", func() (*plot.Plot, error) {
-			return chart.Spread(t, tr.key, chart.SpreadOptions{Order: chart.ByMean, ShowExcluded: true, Seed: 1})
+			return chart.Spread(t, tr.key, chart.SpreadOptions{Order: order, ShowExcluded: true, Seed: 1})
 		}},
 		{"Residuals", func() (*plot.Plot, error) { return chart.Residuals(t, tr.res) }},
 		{"Normal Q-Q", func() (*plot.Plot, error) { return chart.QQ(t, tr.res) }},
@@ -45,6 +46,14 @@ func drawCharts(t *trial.Trial, tr traitResult, m analysis.Method) []chartImage 
 		out = append(out, ci)
 	}
 	return out
+}
+
+// chartOrder is the chart order for a means-order preference.
+func chartOrder(pref string) chart.Order {
+	if pref == orderTrial {
+		return chart.AsListed
+	}
+	return chart.ByMean
 }
 
 // safePlot runs a chart constructor, turning a panic into an error.

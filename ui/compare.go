@@ -244,6 +244,7 @@ func (c *compareStep) show(s *resultSet) {
 	}
 	c.anova.Refresh()
 	c.statsBox.Refresh()
+	c.fitTreatmentColumn()
 	c.means.Refresh()
 	if s.focus == c.traitKey && s.charts != nil {
 		c.showCharts(s.charts)
@@ -320,7 +321,35 @@ func (c *compareStep) showResult(r *analysis.Result) {
 	c.shownDecimals = r.Decimals
 }
 
+// Widths of the means table's treatment column: at least the heading's
+// room, at most what leaves the numbers in view.
+const (
+	treatColMin = 170
+	treatColMax = 300
+)
+
+// fitTreatmentColumn widens the treatment column to its longest name (up
+// to treatColMax); cell text never runs into the next column, since
+// updateMean shortens what still does not fit (fitText).
+func (c *compareStep) fitTreatmentColumn() {
+	w := float32(treatColMin)
+	for i := range c.meanRows {
+		w = max(w, cellTextWidth(c.meanText(i, 0)))
+	}
+	c.means.SetColumnWidth(0, min(w, treatColMax))
+}
+
+// cellTextWidth is the width a compactCell needs for s.
+func cellTextWidth(s string) float32 {
+	return fyne.MeasureText(s, theme.TextSize(), fyne.TextStyle{}).Width + 3*theme.Padding()
+}
+
 func (c *compareStep) updateMean(id widget.TableCellID, o fyne.CanvasObject) {
+	if id.Col == 0 {
+		// A compactCell pads by three paddings, fitText allows for two.
+		setCompact(o, fitText(c.meanText(id.Row, 0), treatColMax-theme.Padding(), theme.TextSize()))
+		return
+	}
 	setCompact(o, c.meanText(id.Row, id.Col))
 }
 

@@ -114,4 +114,5 @@ func showMessage(w fyne.Window, title string, m message) {
 	d := dialog.NewCustom(title, "OK", box, w)
 	d.Resize(fyne.NewSize(500, 240))
 	d.Show()
+	closeOnEscape(w, d)
 }

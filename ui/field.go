@@ -88,10 +88,13 @@ func newFieldStep(u *App) *fieldStep {
 		widget.NewFormItem("Harvested width ("+f.unit+")", f.harvWid),
 		widget.NewFormItem("Alley ("+f.unit+")", f.alley),
 		widget.NewFormItem("Plots per row", f.perRow),
-		widget.NewFormItem("Blocks", f.blocks),
-		widget.NewFormItem("Numbering", f.numbering),
-		widget.NewFormItem("Walking order", f.walk),
 	)
+	// The choices sit under their labels, the panel's full width, so that
+	// their long wording is never cut off in the narrow panel.
+	stacked := func(label string, sel *widget.Select) fyne.CanvasObject {
+		return container.NewVBox(widget.NewLabelWithStyle(label, fyne.TextAlignLeading, fyne.TextStyle{Bold: true}), sel)
+	}
+	choices := container.NewVBox(stacked("Blocks", f.blocks), stacked("Numbering", f.numbering), stacked("Walking order", f.walk))
 	f.seed = widget.NewEntry()
 	newSeed := widget.NewButtonWithIcon("New seed", theme.ViewRefreshIcon(), func() {
 		f.seed.SetText(strconv.FormatUint(trial.NewSeed(), 10))
@@ -110,7 +113,7 @@ func newFieldStep(u *App) *fieldStep {
 	xlsxBtn := widget.NewButtonWithIcon("Field book (xlsx)…", theme.DocumentSaveIcon(), func() { u.exportFieldBookXLSX() })
 	exports := container.NewVBox(heading("Take to the field"), mapBtn, csvBtn, xlsxBtn)
 
-	left := container.NewVScroll(container.NewVBox(heading("Plots and arrangement"), geom, applyLayout,
+	left := container.NewVScroll(container.NewVBox(heading("Plots and arrangement"), geom, choices, applyLayout,
 		widget.NewSeparator(), randomBox, widget.NewSeparator(), exports))
 
 	f.fmap = fieldmap.New()
@@ -179,7 +182,11 @@ func (f *fieldStep) refresh(c change) {
 	}
 	switch {
 	case len(t.Plots) == 0:
-		f.randomState.SetText("The trial is not laid out yet: add treatments in Setup, then press Randomise.")
+		if len(t.Treatments) < 2 {
+			f.randomState.SetText("The trial is not laid out yet: add treatments in Setup, then press Randomise.")
+		} else {
+			f.randomState.SetText("The trial is not laid out yet: press Randomise to lay out the plots.")
+		}
 	case !t.Randomized():
 		f.randomState.SetText("The plots are in treatment order, not randomised. Press Randomise before sowing.")
 	default:

@@ -129,6 +129,7 @@ func (u *App) showImportPlan(name string, plan *fieldbook.ImportPlan) {
 	d = dialog.NewCustomWithoutButtons("Import "+name, body, u.win)
 	d.Resize(fyne.NewSize(min(760, u.win.Canvas().Size().Width*0.9), min(560, u.win.Canvas().Size().Height*0.9)))
 	d.Show()
+	closeOnEscape(u.win, d)
 }
 
 // applyImport carries out a plan as one undoable edit.

@@ -86,6 +86,9 @@ func (u *App) addShortcuts() {
 
 // updateMenus follows the document state.
 func (u *App) updateMenus() {
+	if r, ok := u.steps[stepRecord].(*recordStep); ok && r != nil {
+		r.updateUndo()
+	}
 	m := &u.menu
 	if m.save == nil {
 		return
@@ -140,7 +143,7 @@ func (u *App) closeTrial() {
 		back()
 		return
 	}
-	u.askUnsaved(back)
+	u.askUnsaved("Close", back)
 }
 
 // cautionText is shown in the About and Cautions dialogs and, shortened,
@@ -165,6 +168,7 @@ func (u *App) showAbout() {
 	d := dialog.NewCustom("About Furlong", "Close", text, u.win)
 	d.Resize(fyne.NewSize(520, 340))
 	d.Show()
+	closeOnEscape(u.win, d)
 }
 
 func (u *App) showCautions() {
@@ -173,6 +177,7 @@ func (u *App) showCautions() {
 	d := dialog.NewCustom("Cautions", "Close", text, u.win)
 	d.Resize(fyne.NewSize(480, 240))
 	d.Show()
+	closeOnEscape(u.win, d)
 }
 
 // showPreferences edits the user's defaults; each control writes one key.
@@ -221,6 +226,7 @@ func (u *App) showPreferences() {
 		if c, ok := u.steps[stepCompare].(*compareStep); ok && c != nil {
 			c.show(c.shown) // the means table follows at once
 		}
+		u.compute.dataChanged() // and the charts, redrawn in the new order
 	}
 	form := widget.NewForm(
 		widget.NewFormItem("Units", units),
@@ -231,6 +237,7 @@ func (u *App) showPreferences() {
 	d := dialog.NewCustom("Preferences", "Close", container.NewPadded(form), u.win)
 	d.Resize(fyne.NewSize(460, 360))
 	d.Show()
+	closeOnEscape(u.win, d)
 }
 
 // alphaChoices are the significance levels offered.

@@ -2,6 +2,7 @@ package ui
 
 import (
 	"fmt"
+	"furlong/export/chart"
 	"path/filepath"
 	"testing"
 	"time"
@@ -81,7 +82,7 @@ func BenchmarkCharts1200(b *testing.B) {
 	t := bigTrial(b, 1200)
 	tr := analyzeTrait(t, "yield", analysis.Options{Alpha: 0.05})
 	for b.Loop() {
-		drawCharts(t, tr, analysis.LSD)
+		drawCharts(t, tr, analysis.LSD, chart.ByMean)
 	}
 }
 
@@ -92,7 +93,7 @@ func BenchmarkChartsDemo(b *testing.B) {
 	}
 	tr := analyzeTrait(t, "yield", analysis.Options{Alpha: 0.05})
 	for b.Loop() {
-		drawCharts(t, tr, analysis.LSD)
+		drawCharts(t, tr, analysis.LSD, chart.ByMean)
 	}
 }
 

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"slices"
 	"strconv"
+	"strings"
 
 	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/canvas"
@@ -35,7 +36,10 @@ type recordStep struct {
 	entry   *cellEntry
 	msg     *widget.Label
 	exclude *widget.Button
-	root    fyne.CanvasObject
+	// undoBtn and redoBtn are on only while there is something to undo
+	// or redo (updateUndo).
+	undoBtn, redoBtn *widget.Button
+	root             fyne.CanvasObject
 
 	empty   *widget.Label // shown while the trial has no plots
 	sel     widget.TableCellID
@@ -72,6 +76,8 @@ func newRecordStep(u *App) *recordStep {
 	importBtn := widget.NewButtonWithIcon("Import field book…", theme.DownloadIcon(), u.importFieldBookDialog)
 	undo := widget.NewButtonWithIcon("", theme.ContentUndoIcon(), u.undo)
 	redo := widget.NewButtonWithIcon("", theme.ContentRedoIcon(), u.redo)
+	r.undoBtn, r.redoBtn = undo, redo
+	r.updateUndo()
 	entryBox := container.NewGridWrap(fyne.NewSize(220, r.entry.MinSize().Height), r.entry)
 	r.where.Truncation = fyne.TextTruncateEllipsis
 	bar := container.NewBorder(nil, nil, entryBox,
@@ -88,6 +94,21 @@ func newRecordStep(u *App) *recordStep {
 }
 
 func (r *recordStep) object() fyne.CanvasObject { return r.root }
+
+// updateUndo enables the toolbar's undo and redo buttons only when the
+// history holds something to undo or redo.
+func (r *recordStep) updateUndo() {
+	d := r.u.doc
+	set := func(b *widget.Button, on bool) {
+		if on {
+			b.Enable()
+		} else {
+			b.Disable()
+		}
+	}
+	set(r.undoBtn, d != nil && d.hist.canUndo())
+	set(r.redoBtn, d != nil && d.hist.canRedo())
+}
 
 func (r *recordStep) trial() *trial.Trial { return r.u.doc.t }
 
@@ -480,6 +501,10 @@ func (r *recordStep) excludeDialog() {
 	if len(p.Exclusions) > 0 {
 		items = append(items, widget.NewFormItem("Now excluded", current))
 	}
+	problem := widget.NewLabel("")
+	problem.Wrapping = fyne.TextWrapWord
+	problem.Importance = widget.DangerImportance
+	problem.Hide()
 	var d dialog.Dialog
 	apply := func(include bool) {
 		key := keys[max(which.SelectedIndex(), 0)]
@@ -490,8 +515,9 @@ func (r *recordStep) excludeDialog() {
 		d.Hide()
 	}
 	excludeBtn := widget.NewButtonWithIcon("Exclude", theme.VisibilityOffIcon(), func() {
-		if reason.Text == "" {
-			current.SetText("Give a reason, so that the report can say why the plot was left out.")
+		if strings.TrimSpace(reason.Text) == "" {
+			problem.SetText("Give a reason, so that the report can say why the plot was left out.")
+			problem.Show()
 			return
 		}
 		apply(false)
@@ -504,9 +530,10 @@ func (r *recordStep) excludeDialog() {
 	cancel := widget.NewButton("Cancel", func() { d.Hide() })
 	form := widget.NewForm(items...)
 	d = dialog.NewCustomWithoutButtons(fmt.Sprintf("Plot %d", p.Number),
-		container.NewVBox(form, container.NewHBox(cancel, includeBtn, excludeBtn)), r.u.win)
+		container.NewVBox(form, problem, container.NewHBox(cancel, includeBtn, excludeBtn)), r.u.win)
 	d.Resize(fyne.NewSize(480, 320))
 	d.Show()
+	closeOnEscape(r.u.win, d)
 }
 
 // setExclusion excludes (or includes) plot row for the trait key ("" for

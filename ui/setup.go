@@ -33,6 +33,7 @@ type setupStep struct {
 	// treatments
 	trtList *widget.List
 	trtSel  int
+	trtForm treatmentForm
 
 	// design
 	designSel *widget.RadioGroup
@@ -196,6 +197,7 @@ func (s *setupStep) refresh(c change) {
 	}
 	if c&changeStructure != 0 {
 		s.trtList.Refresh()
+		s.trtButtons()
 		s.traitList.Refresh()
 		s.loadDesign()
 		// The form follows the trait it edits (undo, redo, a rename).
@@ -258,13 +260,15 @@ func (s *setupStep) treatmentsTab() fyne.CanvasObject {
 			}
 			row.Objects[2].(*widget.Label).SetText(role)
 		})
-	code := widget.NewEntry()
-	code.SetPlaceHolder("short code, e.g. T01")
-	name := widget.NewEntry()
-	name.SetPlaceHolder("name")
-	desc := widget.NewEntry()
-	desc.SetPlaceHolder("description (optional)")
-	check := widget.NewCheck("Check (the standard the others are compared with)", nil)
+	f := &s.trtForm
+	f.code = widget.NewEntry()
+	f.code.SetPlaceHolder("short code, e.g. T01")
+	f.name = widget.NewEntry()
+	f.name.SetPlaceHolder("name")
+	f.desc = widget.NewEntry()
+	f.desc.SetPlaceHolder("description (optional)")
+	f.check = widget.NewCheck("Check (the standard the others are compared with)", nil)
+	code, name, desc, check := f.code, f.name, f.desc, f.check
 	s.trtList.OnSelected = func(i widget.ListItemID) {
 		s.trtSel = i
 		tr := s.t().Treatments[i]
@@ -272,6 +276,11 @@ func (s *setupStep) treatmentsTab() fyne.CanvasObject {
 		name.SetText(tr.Name)
 		desc.SetText(tr.Description)
 		check.SetChecked(tr.Role == trial.RoleCheck)
+		s.trtButtons()
+	}
+	s.trtList.OnUnselected = func(widget.ListItemID) {
+		s.trtSel = -1
+		s.trtButtons()
 	}
 	form := widget.NewForm(
 		widget.NewFormItem("Code", code),
@@ -289,28 +298,44 @@ func (s *setupStep) treatmentsTab() fyne.CanvasObject {
 		}
 		return base
 	}
-	add := widget.NewButtonWithIcon("Add", theme.ContentAddIcon(), func() {
+	addTreatment := func() {
 		tr := fromForm(trial.Treatment{})
 		if tr.Code == "" {
 			tr.Code = s.nextCode()
 		}
-		s.structural("The treatment could not be added", func(t *trial.Trial) error { return t.AddTreatment(tr) })
-	})
-	update := widget.NewButtonWithIcon("Apply changes", theme.ConfirmIcon(), func() {
+		if s.structural("The treatment could not be added", func(t *trial.Trial) error { return t.AddTreatment(tr) }) {
+			// An empty form for the next one, so that names typed one
+			// after another never run together.
+			s.clearTreatmentForm()
+			s.u.win.Canvas().Focus(name)
+		}
+	}
+	f.add = widget.NewButtonWithIcon("Add", theme.ContentAddIcon(), addTreatment)
+	// Enter in the name adds a new treatment; with one selected it
+	// applies the changes instead.
+	name.OnSubmitted = func(string) {
+		if s.trtSel >= 0 {
+			f.apply.OnTapped()
+			return
+		}
+		addTreatment()
+	}
+	f.apply = widget.NewButtonWithIcon("Apply changes", theme.ConfirmIcon(), func() {
 		if s.trtSel < 0 || s.trtSel >= len(s.t().Treatments) {
 			return
 		}
 		old := s.t().Treatments[s.trtSel]
 		s.structural("The treatment could not be changed", func(t *trial.Trial) error { return t.UpdateTreatment(old.Code, fromForm(old)) })
 	})
-	remove := widget.NewButtonWithIcon("Remove", theme.ContentRemoveIcon(), func() {
+	f.remove = widget.NewButtonWithIcon("Remove", theme.ContentRemoveIcon(), func() {
 		if s.trtSel < 0 || s.trtSel >= len(s.t().Treatments) {
 			return
 		}
 		c := s.t().Treatments[s.trtSel].Code
-		s.structural("The treatment could not be removed", func(t *trial.Trial) error { return t.RemoveTreatment(c) })
-		s.trtSel = -1
-		s.trtList.UnselectAll()
+		if s.structural("The treatment could not be removed", func(t *trial.Trial) error { return t.RemoveTreatment(c) }) {
+			s.trtList.UnselectAll()
+			s.clearTreatmentForm()
+		}
 	})
 	move := func(d int) func() {
 		return func() {
@@ -324,11 +349,13 @@ func (s *setupStep) treatmentsTab() fyne.CanvasObject {
 			}
 		}
 	}
-	up := widget.NewButtonWithIcon("Up", theme.MoveUpIcon(), move(-1))
-	down := widget.NewButtonWithIcon("Down", theme.MoveDownIcon(), move(1))
+	f.up = widget.NewButtonWithIcon("Up", theme.MoveUpIcon(), move(-1))
+	f.down = widget.NewButtonWithIcon("Down", theme.MoveDownIcon(), move(1))
+	up, down, add, update, remove := f.up, f.down, f.add, f.apply, f.remove
 	paste := widget.NewButtonWithIcon("Paste list", theme.ContentPasteIcon(), func() {
 		s.pasteTreatments(s.u.app.Clipboard().Content())
 	})
+	s.trtButtons()
 	help := widget.NewLabel("Paste list adds the names on the clipboard: one per line, or code and name separated by a tab (two columns copied from a spreadsheet).")
 	help.Wrapping = fyne.TextWrapWord
 	help.Importance = widget.LowImportance
@@ -336,6 +363,47 @@ func (s *setupStep) treatmentsTab() fyne.CanvasObject {
 	split := container.NewHSplit(s.trtList, container.NewVScroll(right))
 	split.Offset = 0.4
 	return split
+}
+
+// treatmentForm holds the Treatments tab's form and buttons.
+type treatmentForm struct {
+	code, name, desc             *widget.Entry
+	check                        *widget.Check
+	add, apply, remove, up, down *widget.Button
+}
+
+// clearTreatmentForm empties the form, ready for a new treatment.
+func (s *setupStep) clearTreatmentForm() {
+	f := &s.trtForm
+	f.code.SetText("")
+	f.name.SetText("")
+	f.desc.SetText("")
+	f.check.SetChecked(false)
+}
+
+// trtButtons enables the buttons that act on a selected treatment only
+// while one is selected, and Up and Down only where the move is possible.
+func (s *setupStep) trtButtons() {
+	f := &s.trtForm
+	if f.apply == nil {
+		return
+	}
+	n := len(s.t().Treatments)
+	if s.trtSel >= n {
+		s.trtSel = -1
+	}
+	sel := s.trtSel >= 0
+	enable := func(b *widget.Button, on bool) {
+		if on {
+			b.Enable()
+		} else {
+			b.Disable()
+		}
+	}
+	enable(f.apply, sel)
+	enable(f.remove, sel)
+	enable(f.up, sel && s.trtSel > 0)
+	enable(f.down, sel && s.trtSel < n-1)
 }
 
 // nextCode proposes an unused code T01, T02, ...
@@ -435,7 +503,10 @@ func (u *App) tryStructural(label string, f func(t *trial.Trial) error) error {
 func (s *setupStep) designTab() fyne.CanvasObject {
 	s.designMsg = widget.NewLabel("")
 	s.designMsg.Wrapping = fyne.TextWrapWord
-	s.designSel = widget.NewRadioGroup(designLabels, func(l string) {
+	s.designSel = widget.NewRadioGroup(designLabels, nil)
+	// A second click on the chosen design must not unset it.
+	s.designSel.Required = true
+	s.designSel.OnChanged = func(l string) {
 		if i := slices.Index(designLabels, l); i >= 0 {
 			s.designMsg.SetText(designExplain[designKinds[i]])
 			s.reps.Enable()
@@ -444,7 +515,7 @@ func (s *setupStep) designTab() fyne.CanvasObject {
 				s.reps.Disable()
 			}
 		}
-	})
+	}
 	s.reps = widget.NewEntry()
 	s.reps.Validator = func(v string) error {
 		n, err := strconv.Atoi(strings.TrimSpace(v))
@@ -822,7 +893,10 @@ func (s *setupStep) yieldDialog() {
 		unit.SetSelected(trial.UnitBuAc)
 	}
 	std := widget.NewEntry()
-	cropNote := "No defaults known for the crop “" + t.Crop + "”; type the moisture basis your market uses."
+	cropNote := "No defaults known for the crop “" + t.Crop + "”; type the moisture basis your market uses (for bu/ac, also give the bushel weight in the trait's form afterwards)."
+	if strings.TrimSpace(t.Crop) == "" {
+		cropNote = "No crop is chosen under Details, so there is no default: type the moisture basis your market uses (for bu/ac, also give the bushel weight in the trait's form afterwards)."
+	}
 	if d, ok := trial.LookupCrop(t.Crop); ok {
 		std.SetText(strconv.FormatFloat(d.StandardMoisture, 'f', -1, 64))
 		cropNote = fmt.Sprintf("Default for %s: %g %% (common practice; change it if your market uses another basis).", t.Crop, d.StandardMoisture)
@@ -849,8 +923,10 @@ func (s *setupStep) yieldDialog() {
 		}
 		tr := trial.AdjustedYieldTrait(strings.TrimSpace(key.Text), keys[weight.SelectedIndex()], keys[moist.SelectedIndex()], t.Crop, unit.Selected)
 		tr.Derived.StandardMoisture = m
+		tr.Name = fmt.Sprintf("Yield at %g %% moisture", m) // the basis typed, not the crop's default
 		s.structural("The adjusted yield could not be added", func(t *trial.Trial) error { return t.AddTrait(tr) })
 	}, s.u.win)
 	d.Resize(fyne.NewSize(520, 400))
 	d.Show()
+	closeOnEscape(s.u.win, d)
 }

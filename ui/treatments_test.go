@@ -1,0 +1,92 @@
+package ui
+
+import (
+	"strings"
+	"testing"
+
+	"fyne.io/fyne/v2"
+	"fyne.io/fyne/v2/test"
+
+	"furlong/trial"
+)
+
+// The Treatments tab of a new trial: names typed one after another become
+// separate treatments (the form empties after Add, Enter adds too), the
+// buttons that act on a selection are off without one, and Up, Down,
+// Remove and the check mark act on the selected treatment. Expected
+// behaviour is common practice for list editors.
+func TestTreatmentsTabNewTrial(t *testing.T) {
+	u, _ := newTestApp(t, 0)
+	u.startNewTrial()
+	s := u.steps[stepSetup].(*setupStep)
+	f := &s.trtForm
+
+	if !f.apply.Disabled() || !f.remove.Disabled() || !f.up.Disabled() || !f.down.Disabled() {
+		t.Fatal("Apply changes, Remove, Up and Down look usable with nothing selected")
+	}
+	for _, n := range []string{"Aurel", "Brisk"} {
+		test.Type(f.name, n)
+		test.Tap(f.add)
+	}
+	test.Type(f.name, "Corvo")
+	f.name.TypedKey(&fyne.KeyEvent{Name: fyne.KeyReturn})
+	tr := u.doc.t.Treatments
+	if len(tr) != 3 || tr[0].Name != "Aurel" || tr[1].Name != "Brisk" || tr[2].Name != "Corvo" || tr[2].Code != "T03" {
+		t.Fatalf("treatments after three adds: %+v", tr)
+	}
+	if f.name.Text != "" || f.code.Text != "" {
+		t.Fatalf("form not emptied after Add: code %q name %q", f.code.Text, f.name.Text)
+	}
+
+	s.trtList.Select(1)
+	if f.apply.Disabled() || f.remove.Disabled() || f.up.Disabled() || f.down.Disabled() || f.name.Text != "Brisk" {
+		t.Fatalf("selection of the middle treatment: form %q, buttons not all on", f.name.Text)
+	}
+	test.Tap(f.check)
+	test.Tap(f.apply)
+	test.Tap(f.up)
+	tr = u.doc.t.Treatments
+	if tr[0].Code != "T02" || tr[0].Role != trial.RoleCheck || s.trtSel != 0 {
+		t.Fatalf("after check and Up: %+v, selected %d", tr, s.trtSel)
+	}
+	if !f.up.Disabled() || f.down.Disabled() {
+		t.Fatal("Up should be off for the first treatment, Down on")
+	}
+	test.Tap(f.remove)
+	tr = u.doc.t.Treatments
+	if len(tr) != 2 || tr[0].Code != "T01" || s.trtSel != -1 || !f.remove.Disabled() || f.name.Text != "" {
+		t.Fatalf("after Remove: %+v, selected %d, form %q", tr, s.trtSel, f.name.Text)
+	}
+	// Undo brings it back as it was.
+	u.undo()
+	if tr = u.doc.t.Treatments; len(tr) != 3 || tr[0].Code != "T02" {
+		t.Fatalf("after undo: %+v", tr)
+	}
+}
+
+// A new trial with its treatments but no plots yet is told to press
+// Randomise, not to add treatments it already has; Randomise then lays
+// out every treatment once per block (RCBD, common practice).
+func TestFieldNotLaidOut(t *testing.T) {
+	u, _ := newTestApp(t, 0)
+	u.startNewTrial()
+	f := u.steps[stepField]
+	if f == nil {
+		u.showStep(stepField)
+		f = u.steps[stepField]
+	}
+	fs := f.(*fieldStep)
+	if !strings.Contains(fs.randomState.Text, "add treatments") {
+		t.Fatalf("empty trial: %q", fs.randomState.Text)
+	}
+	s := u.steps[stepSetup].(*setupStep)
+	s.pasteTreatments("Aurel\nBrisk\nCorvo")
+	if len(u.doc.t.Plots) == 0 && !strings.Contains(fs.randomState.Text, "press Randomise") {
+		t.Fatalf("treatments but no plots: %q", fs.randomState.Text)
+	}
+	u.showStep(stepField)
+	fs.randomise()
+	if n := len(u.doc.t.Plots); n != 3*u.doc.t.Design.Reps {
+		t.Fatalf("%d plots after Randomise, want %d", n, 3*u.doc.t.Design.Reps)
+	}
+}
