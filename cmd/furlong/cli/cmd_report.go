@@ -63,11 +63,10 @@ and the field map. Numbers are stored at full precision and shown with each trai
 				if err != nil {
 					return err
 				}
-				outcomes, err := analysis.AnalyzeAll(ctx, t, keys, analysis.Options{Alpha: *alpha})
+				results, err := analysis.AnalyzeAll(ctx, t, keys, analysis.Options{Alpha: *alpha})
 				if err != nil {
 					return err
 				}
-				results := outcomes
 				var buf bytes.Buffer
 				err = xlsx.WriteReport(&buf, t, results, xlsx.ReportOptions{
 					Method: m, Alpha: *alpha, Traits: keys, Version: env.Version,
@@ -115,6 +114,9 @@ The format follows the file name's ending. Charts are sized for an A4 landscape 
 				}
 				if *key == "" {
 					return usagef("chart: say which trait with --trait KEY")
+				}
+				if !(*alpha > 0 && *alpha < 1) {
+					return usagef("chart: --alpha must be between 0 and 1, for example 0.05")
 				}
 				format, err := imageFormat(*out)
 				if err != nil {
