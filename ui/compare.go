@@ -2,7 +2,6 @@ package ui
 
 import (
 	"fmt"
-	"math"
 	"slices"
 	"strconv"
 	"strings"
@@ -281,11 +280,11 @@ func (c *compareStep) showResult(r *analysis.Result) {
 		add := func(k, v string) { c.statsBox.Add(cell(k, false)); c.statsBox.Add(cell(v, true)) }
 		add("Grand mean", fixed(a.GrandMean, r.Decimals+1)+" "+r.Unit)
 		add("CV %", fixed(a.CVPercent, 1))
-		sep, v := "LSD", r.LSD
+		v := r.LSD
 		if c.method == analysis.Tukey {
-			sep, v = "HSD", r.HSD
+			v = r.HSD
 		}
-		level := fmt.Sprintf("%s (%g %%)", sep, math.Round(1000*r.Alpha)/10)
+		level := export.MSDLabel(c.method, r.Alpha) // the report's words too
 		if v != nil {
 			add(level, fixed(*v, r.Decimals+1))
 		} else {
