@@ -298,25 +298,44 @@ func (p *problems) checkTrait(t *Trial, i int, seen map[string]int) {
 	}
 }
 
-// valueProblem says what is wrong with a recorded value of tr, or "".
-func valueProblem(tr *Trait, v float64) string {
-	if IsMissing(v) {
-		return ""
-	}
+// Problem says why v cannot be a value of a trait of kind k, as a phrase
+// to follow the value ("2.5 is not a count (a whole number, 0 or more)"),
+// or returns "" when it can. This is the one rule of what a value may be:
+// a finite number; for a count a whole number of 0 or more, for a
+// percentage 0 to 100. A value outside a trait's valid range is not a
+// problem of its kind: such values are kept as data (see RangeNote).
+// Missing values (NaN) are not checked.
+func (k TraitKind) Problem(v float64) string {
 	if math.IsInf(v, 0) {
-		return fmt.Sprintf("the %s value is infinite", tr.label())
+		return "is not a finite number"
 	}
-	switch tr.Kind {
+	switch k {
 	case Count:
 		if v < 0 || v != math.Trunc(v) {
-			return fmt.Sprintf("%s is a count, so %g is not possible; enter a whole number of 0 or more", tr.label(), v)
+			return "is not a count (a whole number, 0 or more)"
 		}
 	case Percent:
 		if v < 0 || v > 100 {
-			return fmt.Sprintf("%s is a percentage, so %g is not possible; enter 0 to 100", tr.label(), v)
+			return "is not a percentage (between 0 and 100)"
 		}
 	}
 	return ""
+}
+
+// valueProblem says what is wrong with a recorded value of tr, or "", in
+// a sentence for the person entering it.
+func valueProblem(tr *Trait, v float64) string {
+	if IsMissing(v) || tr.Kind.Problem(v) == "" {
+		return ""
+	}
+	switch {
+	case math.IsInf(v, 0):
+		return fmt.Sprintf("the %s value is infinite", tr.label())
+	case tr.Kind == Count:
+		return fmt.Sprintf("%s is a count, so %g is not possible; enter a whole number of 0 or more", tr.label(), v)
+	default: // Percent
+		return fmt.Sprintf("%s is a percentage, so %g is not possible; enter 0 to 100", tr.label(), v)
+	}
 }
 
 // RangeNote says, for a value outside the trait's valid range, that it is:

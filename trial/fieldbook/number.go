@@ -4,8 +4,6 @@ import (
 	"math"
 	"strconv"
 	"strings"
-
-	"furlong/trial"
 )
 
 // parseNumber reads a cell as a number. It accepts a decimal point or a
@@ -55,23 +53,4 @@ func parseNumber(s string) (float64, bool) {
 		return 0, false
 	}
 	return v, true
-}
-
-// kindProblem says why v cannot be a value of a trait of the given kind
-// ("" when it can). The rules are those of the trial file (package
-// trialfile), so that whatever is imported can be saved: a count is a whole
-// number of 0 or more, a percentage lies between 0 and 100. A value outside
-// the trait's valid range is not a kind problem.
-func kindProblem(kind trial.TraitKind, v float64) string {
-	switch kind {
-	case trial.Count:
-		if v < 0 || v != math.Trunc(v) {
-			return "is not a count (a whole number, 0 or more)"
-		}
-	case trial.Percent:
-		if v < 0 || v > 100 {
-			return "is not a percentage (between 0 and 100)"
-		}
-	}
-	return ""
 }

@@ -342,7 +342,7 @@ func (p *ImportPlan) cell(t *trial.Trial, col column, line, pi int, text string,
 		p.issues = append(p.issues, with(Error, math.NaN(), fmt.Sprintf("%q is not a number (leave the cell empty for a missing value)", text)))
 		return
 	}
-	if why := kindProblem(tr.Kind, v); why != "" {
+	if why := tr.Kind.Problem(v); why != "" {
 		p.issues = append(p.issues, with(Error, v, fmt.Sprintf("%s %s", show(v), why)))
 		return
 	}

@@ -15,26 +15,6 @@ type problem struct {
 	err  error
 }
 
-// kindProblem says why v cannot be a value of a trait of the given kind, or
-// returns "" when it can. Being outside the trait's valid range (Min, Max)
-// is not a kind problem: such values are kept as data.
-func kindProblem(kind trial.TraitKind, v float64) string {
-	if math.IsInf(v, 0) {
-		return "is not a finite number"
-	}
-	switch kind {
-	case trial.Count:
-		if v < 0 || v != math.Trunc(v) {
-			return "is not a count (a count is a whole number, 0 or more)"
-		}
-	case trial.Percent:
-		if v < 0 || v > 100 {
-			return "is not a percentage (a percentage lies between 0 and 100)"
-		}
-	}
-	return ""
-}
-
 func fmtNum(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
 
 // check finds the first semantic error of t: duplicate plot numbers,
@@ -99,7 +79,7 @@ func check(t *trial.Trial) *problem {
 			if trial.IsMissing(v) {
 				continue
 			}
-			if why := kindProblem(tr.Kind, v); why != "" {
+			if why := tr.Kind.Problem(v); why != "" {
 				return &problem{fmt.Sprintf("trial.traits[%d].values[%d]", j, i),
 					errorf(ErrValueKind, "the %s value %s of plot %d %s", tr.Key, fmtNum(v), t.Plots[i].Number, why)}
 			}
