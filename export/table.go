@@ -119,20 +119,6 @@ func MSD(r *analysis.Result, method analysis.Method) *float64 {
 	return r.LSD
 }
 
-// TreatmentSource returns the treatment line of an ANOVA table, false when
-// there is none.
-func TreatmentSource(a *stats.ANOVA) (stats.Source, bool) {
-	if a == nil {
-		return stats.Source{}, false
-	}
-	for _, s := range a.Sources {
-		if s.Name == "treatment" {
-			return s, true
-		}
-	}
-	return stats.Source{}, false
-}
-
 // YieldTrait returns the index in traits of the trait whose means are shown
 // as a percentage of the check: the first derived adjusted-yield trait, else
 // the first trait keyed or named "yield" (case-insensitively), else -1.
@@ -220,7 +206,7 @@ func NewSummary(t *trial.Trial, results []analysis.Outcome, keys []string, metho
 				st.CVPercent = a.CVPercent
 			}
 			st.MSD = MSD(r.Result, method)
-			if src, ok := TreatmentSource(r.Result.ANOVA); ok && src.HasTest {
+			if src, ok := r.Result.ANOVA.Treatment(); ok && src.HasTest {
 				st.P, st.HasP = src.P, true
 			}
 		}
@@ -364,23 +350,26 @@ func PlotExclusions(p trial.Plot) string {
 	return strings.Join(reasons, "; ")
 }
 
-// SourceName is the label of an ANOVA line for people, from the stats
-// source name: "Treatments", "Blocks", "Rows", "Columns", "Error", "Total".
-func SourceName(n string) string {
-	switch n {
-	case "treatment":
+// SourceName is the label of an ANOVA line for people, from its role:
+// "Treatments", "Blocks", "Rows", "Columns", "Error", "Total"; lines of
+// other roles (factors, interactions, strata) show their own name with a
+// capital.
+func SourceName(s stats.Source) string {
+	switch s.Role {
+	case stats.RoleTreatment:
 		return "Treatments"
-	case "block":
+	case stats.RoleBlock:
 		return "Blocks"
-	case "row":
+	case stats.RoleRow:
 		return "Rows"
-	case "column":
+	case stats.RoleColumn:
 		return "Columns"
-	case "error":
+	case stats.RoleError:
 		return "Error"
-	case "total":
+	case stats.RoleTotal:
 		return "Total"
 	}
+	n := s.Name
 	if n == "" {
 		return "—"
 	}

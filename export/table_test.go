@@ -43,7 +43,7 @@ func TestSummaryPercentOfCheck(t *testing.T) {
 		Traits: []trial.Trait{{Key: "yield", Name: "Yield", Decimals: 1}, {Key: "ht", Name: "Height"}},
 	}
 	res := &analysis.Result{TraitKey: "yield", LSD: fp(0.7), HSD: nil,
-		ANOVA: &stats.ANOVA{GrandMean: 4.25, CVPercent: 9.5, Sources: []stats.Source{{Name: "treatment", HasTest: true, P: 0.012}, {Name: "error"}}},
+		ANOVA: &stats.ANOVA{GrandMean: 4.25, CVPercent: 9.5, Sources: stats.Table{{Name: "treatment", Role: stats.RoleTreatment, HasTest: true, P: 0.012}, {Name: "error", Role: stats.RoleError}}},
 		Means: []analysis.Mean{
 			{Treatment: "A", BackMean: 3.5, LettersLSD: "b", LettersTukey: "a"},
 			{Treatment: "B", BackMean: 4.5, LettersLSD: "ab", LettersTukey: "a"},
@@ -119,5 +119,29 @@ func TestPTextAndExclusions(t *testing.T) {
 	}
 	if got := PlotExclusions(p); got != "hail; ht: lodged; yield: excluded" {
 		t.Errorf("PlotExclusions = %q", got)
+	}
+}
+
+// TestSourceName: ANOVA lines are labelled by their role, whatever the
+// factor is called; other roles show their own name (common practice for
+// the labels of an ANOVA table).
+func TestSourceName(t *testing.T) {
+	t.Parallel()
+	for _, c := range []struct {
+		src  stats.Source
+		want string
+	}{
+		{stats.Source{Name: "variety", Role: stats.RoleTreatment}, "Treatments"},
+		{stats.Source{Name: "site", Role: stats.RoleBlock}, "Blocks"},
+		{stats.Source{Name: "r", Role: stats.RoleRow}, "Rows"},
+		{stats.Source{Name: "c", Role: stats.RoleColumn}, "Columns"},
+		{stats.Source{Name: "error", Role: stats.RoleError}, "Error"},
+		{stats.Source{Name: "total", Role: stats.RoleTotal}, "Total"},
+		{stats.Source{Name: "nitrogen", Role: stats.RoleFactor}, "Nitrogen"},
+		{stats.Source{}, "—"},
+	} {
+		if got := SourceName(c.src); got != c.want {
+			t.Errorf("SourceName(%+v) = %q, want %q", c.src, got, c.want)
+		}
 	}
 }

@@ -63,8 +63,8 @@ func TestDemoTrial(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if p := r.ANOVA.Sources[0].P; p >= 0.01 {
-		t.Errorf("yield treatment p = %g: the demo should show clear differences", p)
+	if trt, _ := r.ANOVA.Treatment(); trt.P >= 0.01 {
+		t.Errorf("yield treatment p = %g: the demo should show clear differences", trt.P)
 	}
 	sig := 0
 	for _, p := range r.Pairs {

@@ -3,10 +3,11 @@ package stats
 // ANOVA is the fitted model and its analysis of variance.
 type ANOVA struct {
 	// Sources lists treatment, then the nuisance factors in Model order,
-	// then "error" and "total". With unbalanced data (missing plots) each
+	// then error and total; find a line by its Role (Treatment, Error,
+	// Total, Line). With unbalanced data (missing plots) each
 	// factor's SS is adjusted for all the others (type II, equal to type III
 	// for these additive models) and the lines no longer add up to the total.
-	Sources []Source
+	Sources Table
 	N       int // observations fitted
 
 	GrandMean float64 // arithmetic mean of all observations

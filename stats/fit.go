@@ -38,6 +38,7 @@ func Fit(m Model) (*ANOVA, error) { return fit(m, false) }
 // factorInfo is a validated factor with its level counts.
 type factorInfo struct {
 	name   string
+	role   Role
 	levels int
 	idx    []int
 	counts []int
@@ -64,9 +65,14 @@ func fit(m Model, forceQR bool) (*ANOVA, error) {
 	y := m.Response
 	n := len(y)
 	trt := prepFactor(m.Treatment, n, "treatment")
+	trt.role = RoleTreatment
 	nuis := make([]factorInfo, len(m.Nuisance))
-	for f := range m.Nuisance {
-		nuis[f] = prepFactor(m.Nuisance[f], n, defaultNuisanceName(f, len(m.Nuisance)))
+	for f, nf := range m.Nuisance {
+		nuis[f] = prepFactor(nf, n, defaultNuisanceName(f, len(m.Nuisance)))
+		nuis[f].role = nf.Role
+		if nf.Role == RoleNone {
+			nuis[f].role = nuisanceRole(f, len(m.Nuisance))
+		}
 	}
 	if n == 0 {
 		return nil, &InputError{Kind: NoData, Level: -1, Obs: -1, Reason: ErrNoData.Reason}
@@ -519,19 +525,19 @@ func fSurvival(f float64, d1, d2 int) float64 {
 func assemble(r *fitResult, trt factorInfo, nuis []factorInfo, n, dfe int, gm, sst float64, balanced bool) *ANOVA {
 	k := trt.levels
 	mse := r.sse / float64(dfe)
-	line := func(name string, df int, ss float64) Source {
+	line := func(name string, role Role, df int, ss float64) Source {
 		ms := ss / float64(df)
 		f := ms / mse
-		return Source{Name: name, DF: df, SS: ss, MS: ms, HasTest: true, F: f, P: fSurvival(f, df, dfe)}
+		return Source{Name: name, Role: role, DF: df, SS: ss, MS: ms, HasTest: true, F: f, P: fSurvival(f, df, dfe)}
 	}
-	src := make([]Source, 0, len(nuis)+3)
-	src = append(src, line(trt.name, k-1, r.ssTrt))
+	src := make(Table, 0, len(nuis)+3)
+	src = append(src, line(trt.name, RoleTreatment, k-1, r.ssTrt))
 	for f, nf := range nuis {
-		src = append(src, line(nf.name, nf.levels-1, r.ssNuis[f]))
+		src = append(src, line(nf.name, nf.role, nf.levels-1, r.ssNuis[f]))
 	}
 	src = append(src,
-		Source{Name: "error", DF: dfe, SS: r.sse, MS: mse},
-		Source{Name: "total", DF: n - 1, SS: sst})
+		Source{Name: "error", Role: RoleError, DF: dfe, SS: r.sse, MS: mse},
+		Source{Name: "total", Role: RoleTotal, DF: n - 1, SS: sst})
 
 	a := &ANOVA{
 		Sources:   src,
@@ -565,8 +571,8 @@ func assemble(r *fitResult, trt factorInfo, nuis []factorInfo, n, dfe int, gm, s
 		a.SEMean = math.Sqrt(mse / reps)
 		a.SED = math.Sqrt(2 * mse / reps)
 	}
-	if len(nuis) == 1 && mse > 0 {
-		a.RelativeEfficiency = relativeEfficiency(src[1].MS, mse, nuis[0].levels, k, a.DFError)
+	if blk, ok := src.Line(RoleBlock); ok && len(nuis) == 1 && mse > 0 {
+		a.RelativeEfficiency = relativeEfficiency(blk.MS, mse, nuis[0].levels, k, a.DFError)
 	}
 	counts := trt.counts
 	a.pairSE = func(i, j int) float64 {

@@ -10,6 +10,11 @@ type Factor struct {
 	Name   string // "treatment", "block", "row", "column"
 	Levels int    // number of levels; level indices are 0..Levels-1
 	Index  []int  // Index[i] is the level of observation i
+	// Role of a nuisance factor's ANOVA line (RoleBlock, RoleRow,
+	// RoleColumn or RoleNuisance). RoleNone lets Fit choose from the number
+	// of nuisance factors: one is a block, two are a row and a column. The
+	// treatment factor's line is always RoleTreatment.
+	Role Role
 }
 
 // Model is a linear model y = mean + treatment + nuisance factors + error.
@@ -24,6 +29,7 @@ type Model struct {
 // Source is one line of an analysis of variance table.
 type Source struct {
 	Name string // "treatment", a nuisance factor's name, "error" or "total"
+	Role Role   // what the line stands for; find lines with Table.Line
 	DF   int
 	SS   float64
 	MS   float64 // 0 for the total line

@@ -136,22 +136,24 @@ func TestNISTOneWay(t *testing.T) {
 				t.Fatalf("%s: %v", name, err)
 			}
 			checkFinite(t, a)
-			if a.Sources[0].DF != int(num("between_df")) || a.DFError != int(num("within_df")) {
-				t.Errorf("%s: df %d, %d; want %s, %s", name, a.Sources[0].DF, a.DFError, c["between_df"], c["within_df"])
+			between, _ := a.Treatment()
+			within, _ := a.Error()
+			if between.DF != int(num("between_df")) || a.DFError != int(num("within_df")) {
+				t.Errorf("%s: df %d, %d; want %s, %s", name, between.DF, a.DFError, c["between_df"], c["within_df"])
 			}
 			got := map[string]float64{
-				"between_ss": a.Sources[0].SS,
-				"within_ss":  a.Sources[1].SS,
-				"between_ms": a.Sources[0].MS,
+				"between_ss": between.SS,
+				"within_ss":  within.SS,
+				"between_ms": between.MS,
 				"within_ms":  a.MSE,
-				"f":          a.Sources[0].F,
+				"f":          between.F,
 				"r_squared":  a.RSquared,
 				"resid_sd":   math.Sqrt(a.MSE),
 			}
 			keys := []string{"between_ss", "within_ss", "between_ms", "within_ms", "f", "r_squared", "resid_sd"}
 			if !exact {
 				eb, ew := exactOneWay(nistSet(t, name, false))
-				lb, lw := lre(a.Sources[0].SS, eb), lre(a.Sources[1].SS, ew)
+				lb, lw := lre(between.SS, eb), lre(within.SS, ew)
 				t.Logf("%-8s digits against exact arithmetic on the same float64 inputs: between_ss=%.1f within_ss=%.1f", name, lb, lw)
 				if lb < 14 || lw < 14 {
 					t.Errorf("%s: SS agree with exact arithmetic on the same inputs to only %.1f, %.1f digits; want 14", name, lb, lw)

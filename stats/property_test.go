@@ -14,10 +14,11 @@ func compareFits(t *testing.T, what string, a, b *ANOVA, tol float64) {
 	if len(a.Sources) != len(b.Sources) {
 		t.Fatalf("%s: %d vs %d lines", what, len(a.Sources), len(b.Sources))
 	}
-	scale := a.Sources[len(a.Sources)-1].SS // total SS: SS near 0 compared on this scale
+	tot, _ := a.Total()
+	scale := tot.SS // total SS: SS near 0 compared on this scale
 	for i := range a.Sources {
 		sa, sb := a.Sources[i], b.Sources[i]
-		if sa.Name != sb.Name || sa.DF != sb.DF || sa.HasTest != sb.HasTest {
+		if sa.Name != sb.Name || sa.Role != sb.Role || sa.DF != sb.DF || sa.HasTest != sb.HasTest {
 			t.Errorf("%s: line %d: %+v vs %+v", what, i, sa, sb)
 		}
 		if math.Abs(sa.SS-sb.SS) > tol*scale {
@@ -183,7 +184,8 @@ func TestUnbalancedAgainstDenseLS(t *testing.T) {
 			t.Errorf("model %d: Balanced %v Adjusted %v", mi, a.Balanced, a.Adjusted)
 		}
 		sse, hat, ls, cov := denseRef(t, m)
-		checkRel(t, "SSE", a.Sources[len(a.Sources)-2].SS, sse, 1e-10)
+		errLine, _ := a.Error()
+		checkRel(t, "SSE", errLine.SS, sse, 1e-10)
 		for i, h := range hat {
 			if math.Abs(a.Leverage[i]-h) > 1e-10 {
 				t.Errorf("model %d: leverage %d = %.15g, want %.15g", mi, i, a.Leverage[i], h)

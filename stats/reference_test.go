@@ -51,10 +51,10 @@ func checkAgainstR(t *testing.T, a *ANOVA, e expected, levels []string) {
 	}
 	for _, line := range e.ANOVA {
 		name := line.Source
-		if name == "Residuals" {
-			name = "error"
-		}
 		s, ok := byName[name]
+		if name == "Residuals" {
+			s, ok = a.Error()
+		}
 		if !ok {
 			t.Errorf("no ANOVA line %q in %v", name, a.Sources)
 			continue
@@ -75,12 +75,13 @@ func checkAgainstR(t *testing.T, a *ANOVA, e expected, levels []string) {
 		}
 	}
 	if e.TotalSS != 0 {
-		tot := a.Sources[len(a.Sources)-1]
-		if tot.Name != "total" || tot.DF != a.N-1 || tot.HasTest {
+		tot, ok := a.Total()
+		if !ok || tot.Name != "total" || tot.DF != a.N-1 || tot.HasTest {
 			t.Errorf("total line %+v", tot)
 		}
 		checkRel(t, "total SS", tot.SS, e.TotalSS, refTol)
-		checkRel(t, "R²", a.RSquared, 1-byName["error"].SS/e.TotalSS, refTol)
+		errLine, _ := a.Error()
+		checkRel(t, "R²", a.RSquared, 1-errLine.SS/e.TotalSS, refTol)
 	}
 	if e.NObs != 0 && a.N != e.NObs {
 		t.Errorf("N = %d, want %d", a.N, e.NObs)
@@ -179,8 +180,15 @@ func TestBarleyRCBD(t *testing.T) {
 	if !a.Balanced || a.Adjusted {
 		t.Errorf("Balanced %v Adjusted %v, want true false", a.Balanced, a.Adjusted)
 	}
-	if a.Sources[0].Name != "variety" || a.Sources[1].Name != "site" || a.Sources[2].Name != "error" || a.Sources[3].Name != "total" {
-		t.Errorf("source order %v", a.Sources)
+	// Lines in table order, each with its role and the factor's own name.
+	wantLines := []struct {
+		name string
+		role Role
+	}{{"variety", RoleTreatment}, {"site", RoleBlock}, {"error", RoleError}, {"total", RoleTotal}}
+	for i, w := range wantLines {
+		if i >= len(a.Sources) || a.Sources[i].Name != w.name || a.Sources[i].Role != w.role {
+			t.Errorf("line %d: %+v, want %s (%v)", i, a.Sources, w.name, w.role)
+		}
 	}
 	checkRel(t, "SEMean", a.SEMean, e.Means[0].SE, refTol)
 	checkRel(t, "SED", a.SED, e.Pairs[0].SE, refTol)
@@ -229,6 +237,16 @@ func TestOrchardSpraysLatin(t *testing.T) {
 	checkAgainstR(t, a, readExpected(t, "orchard-sprays-latin"), lv)
 	if !a.Balanced {
 		t.Error("Latin square not recognised as balanced")
+	}
+	// Two nuisance factors without a role of their own are the rows and
+	// columns of the square, whatever they are called.
+	for _, r := range []Role{RoleTreatment, RoleRow, RoleColumn, RoleError, RoleTotal} {
+		if got := a.Sources.Lines(r); len(got) != 1 {
+			t.Errorf("%d lines of role %v, want 1: %+v", len(got), r, a.Sources)
+		}
+	}
+	if s, _ := a.Line(RoleColumn); s.Name != "col" {
+		t.Errorf("column line named %q, want the factor's name col", s.Name)
 	}
 	if a.RelativeEfficiency != 0 {
 		t.Errorf("RelativeEfficiency %g for a Latin square, want 0", a.RelativeEfficiency)

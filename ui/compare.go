@@ -14,6 +14,7 @@ import (
 	"fyne.io/fyne/v2/widget"
 
 	"furlong/export"
+	"furlong/stats"
 	"furlong/trial"
 	"furlong/trial/analysis"
 )
@@ -262,11 +263,11 @@ func (c *compareStep) showResult(r *analysis.Result) {
 	}
 	if r.ANOVA != nil {
 		for _, src := range r.ANOVA.Sources {
-			c.anova.Add(cell(export.SourceName(src.Name), false))
+			c.anova.Add(cell(export.SourceName(src), false))
 			c.anova.Add(cell(strconv.Itoa(src.DF), false))
 			c.anova.Add(cell(num(src.SS, 5), false))
 			ms, f, p := "", "", ""
-			if src.Name != "total" {
+			if src.Role != stats.RoleTotal {
 				ms = num(src.MS, 5)
 			}
 			if src.HasTest {

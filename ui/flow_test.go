@@ -17,6 +17,7 @@ import (
 	"fyne.io/fyne/v2/test"
 	"fyne.io/fyne/v2/widget"
 
+	"furlong/stats"
 	"furlong/trial"
 	"furlong/trial/analysis"
 )
@@ -98,11 +99,11 @@ func waitAnalysis(t testing.TB, u *App, show func()) *resultSet {
 // checkANOVA compares the treatment, block and error lines with R.
 func checkANOVA(t *testing.T, got *analysis.Result, want expectedANOVA) {
 	t.Helper()
-	names := map[string]string{"variety": "treatment", "site": "block", "Residuals": "error"}
+	roles := map[string]stats.Role{"variety": stats.RoleTreatment, "site": stats.RoleBlock, "Residuals": stats.RoleError}
 	for _, w := range want.Anova {
 		var found bool
 		for _, g := range got.ANOVA.Sources {
-			if g.Name != names[w.Source] {
+			if r, ok := roles[w.Source]; !ok || g.Role != r {
 				continue
 			}
 			found = true

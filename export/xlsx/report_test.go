@@ -25,6 +25,7 @@ func TestReportSummaryNumbers(t *testing.T) {
 	f, _ := writeReport(t, tr, res, ReportOptions{Method: analysis.LSD, Version: "test"})
 	sum := export.NewSummary(tr, res, nil, analysis.LSD, 0.05)
 	yield := res[0].Result
+	yieldTrt, _ := yield.ANOVA.Treatment()
 
 	head := findRow(t, f, SummarySheet, 1, "Treatment")
 	if head == 0 {
@@ -83,7 +84,7 @@ func TestReportSummaryNumbers(t *testing.T) {
 		{"Grand mean", yield.ANOVA.GrandMean, exp.GrandMean},
 		{"CV%", yield.ANOVA.CVPercent, exp.CV},
 		{"LSD (0.05)", *yield.LSD, exp.LSD},
-		{"p (treatments)", yield.ANOVA.Sources[0].P, *exp.ANOVA[1].P},
+		{"p (treatments)", yieldTrt.P, *exp.ANOVA[1].P},
 	} {
 		if got := textAt(t, f, SummarySheet, cell(1, stat+i)); got != want.label {
 			t.Errorf("statistics row %d: %q, want %q", i, got, want.label)
@@ -139,7 +140,7 @@ func TestReportTraitSheet(t *testing.T) {
 	}
 	for i, src := range r.ANOVA.Sources {
 		row := head + 1 + i
-		if got := textAt(t, f, sh, cell(1, row)); got != export.SourceName(src.Name) {
+		if got := textAt(t, f, sh, cell(1, row)); got != export.SourceName(src) {
 			t.Errorf("source %d = %q", i, got)
 		}
 		if got := numberAt(t, f, sh, cell(2, row)); got != float64(src.DF) {
@@ -148,7 +149,7 @@ func TestReportTraitSheet(t *testing.T) {
 		if got := numberAt(t, f, sh, cell(3, row)); got != src.SS {
 			t.Errorf("%s SS = %v, want %v", src.Name, got, src.SS)
 		}
-		if src.Name != "total" {
+		if src.Role != stats.RoleTotal {
 			if got := numberAt(t, f, sh, cell(4, row)); got != src.MS {
 				t.Errorf("%s MS = %v", src.Name, got)
 			}

@@ -65,10 +65,10 @@ func (r *report) writeTrait(name string, tr trial.Trait) error {
 	row++
 	if a.ANOVA != nil {
 		for _, src := range a.ANOVA.Sources {
-			s.text(1, row, export.SourceName(src.Name), styleKey{})
+			s.text(1, row, export.SourceName(src), styleKey{})
 			s.integer(2, row, src.DF, styleKey{})
 			s.numOrDash(3, row, src.SS, numStyle(3))
-			if src.Name != "total" {
+			if src.Role != stats.RoleTotal {
 				s.numOrDash(4, row, src.MS, numStyle(3))
 			}
 			if src.HasTest {

@@ -259,11 +259,11 @@ func AnalyzeData(d *Data, o Options) (*Result, error) {
 	m := stats.Model{Response: ty, Treatment: stats.Factor{Name: "treatment", Levels: k, Index: trt}}
 	switch d.Design {
 	case trial.RCBD:
-		m.Nuisance = []stats.Factor{{Name: "block", Levels: d.Blocks, Index: blk}}
+		m.Nuisance = []stats.Factor{{Name: "block", Role: stats.RoleBlock, Levels: d.Blocks, Index: blk}}
 	case trial.Latin:
 		m.Nuisance = []stats.Factor{
-			{Name: "row", Levels: d.Rows, Index: row},
-			{Name: "column", Levels: d.Cols, Index: col},
+			{Name: "row", Role: stats.RoleRow, Levels: d.Rows, Index: row},
+			{Name: "column", Role: stats.RoleColumn, Levels: d.Cols, Index: col},
 		}
 	}
 	a, err := stats.Fit(m)

@@ -24,7 +24,8 @@ func separate(r *Result, a *stats.ANOVA, lsm []float64, o Options) error {
 		}
 	}
 	lo := meansep.LetterOptions{LowerIsBetter: !r.HigherBetter}
-	fp := a.Sources[0].P
+	trtLine, _ := a.Treatment()
+	fp := trtLine.P
 	lsd, err := cmp.LSDLetters(fp, o.Unprotected, lo)
 	if err != nil {
 		return err

@@ -296,7 +296,7 @@ func toJSON(oc analysis.Outcome) jsonTrait {
 	jt.N, jt.Missing, jt.Excluded = r.N, r.Missing, len(r.Excluded)
 	for _, s := range a.Sources {
 		row := jsonANOVA{Source: s.Name, DF: s.DF, SS: s.SS}
-		if s.Name != "total" {
+		if s.Role != stats.RoleTotal {
 			row.MS = fp(s.MS)
 		}
 		if s.HasTest {
@@ -366,10 +366,11 @@ func writeAnalysisCSV(w io.Writer, outcomes []analysis.Outcome) error {
 		}
 		r := oc.Result
 		a := r.ANOVA
+		trt, _ := a.Treatment()
 		for _, m := range r.Means {
 			_ = cw.Write([]string{r.TraitKey, m.Treatment, strconv.Itoa(m.N), g(m.Mean), g(m.RawMean), g(m.SE),
 				m.LettersLSD, m.LettersTukey, g(a.GrandMean), g(a.CVPercent), strconv.Itoa(a.DFError), g(a.MSE),
-				g(a.Sources[0].P), gp(r.LSD), gp(r.HSD)})
+				g(trt.P), gp(r.LSD), gp(r.HSD)})
 		}
 	}
 	cw.Flush()
@@ -444,7 +445,7 @@ func writeResultTables(w io.Writer, r *analysis.Result) {
 	fmt.Fprintln(tw, "Source\tdf\tSS\tMS\tF\tp\t")
 	for _, s := range a.Sources {
 		ms, f, p := "", "", ""
-		if s.Name != "total" {
+		if s.Role != stats.RoleTotal {
 			ms = num(s.MS, 4)
 		}
 		if s.HasTest {
