@@ -43,8 +43,9 @@ func meansChartPNG(t *trial.Trial, a *analysis.Result, opts ReportOptions) ([]by
 
 // chartPNG is a drawn chart, or why it could not be drawn.
 type chartPNG struct {
-	png []byte
-	err error
+	png   []byte
+	err   error
+	panic *trial.WorkerPanic // the drawing panicked: raised again by the sheet that waits for it
 }
 
 // startCharts draws the means chart of every analysed trait of the report
@@ -78,8 +79,9 @@ func (r *report) startCharts(ctx context.Context) {
 					j.out <- chartPNG{err: ctx.Err()}
 					continue
 				}
-				png, err := meansChartPNG(r.t, j.res, r.opts)
-				j.out <- chartPNG{png, err}
+				var c chartPNG
+				c.panic = trial.Catch(func() { c.png, c.err = meansChartPNG(r.t, j.res, r.opts) })
+				j.out <- c
 			}
 		}()
 	}

@@ -185,6 +185,9 @@ func (r *report) writeTrait(name string, tr trial.Trait) error {
 		var c chartPNG
 		if ch, ok := r.charts[tr.Key]; ok {
 			c = <-ch
+			if c.panic != nil {
+				panic(c.panic)
+			}
 		} else {
 			c.png, c.err = meansChartPNG(r.t, a, r.opts)
 		}

@@ -8,7 +8,6 @@ import (
 	"runtime"
 	"sort"
 	"strings"
-	"sync"
 
 	"furlong/stats"
 	"furlong/stats/diag"
@@ -107,16 +106,21 @@ func AnalyzeAll(ctx context.Context, t *trial.Trial, keys []string, o Options) (
 	}
 	out := make([]Outcome, len(keys))
 	next := make(chan int)
-	var wg sync.WaitGroup
+	// A panic in a worker is raised again here, on the caller's goroutine,
+	// where the program's crash handler sees it.
+	var workers trial.Workers
 	for w := 0; w < min(runtime.GOMAXPROCS(0), len(keys)); w++ {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
+		workers.Go(func() {
+			defer func() {
+				// Keep the feeder from blocking on a worker that died.
+				for range next {
+				}
+			}()
 			for i := range next {
 				r, err := Analyze(t, keys[i], o)
 				out[i] = Outcome{Key: keys[i], Result: r, Err: err}
 			}
-		}()
+		})
 	}
 	var err error
 feed:
@@ -129,7 +133,7 @@ feed:
 		}
 	}
 	close(next)
-	wg.Wait()
+	workers.Wait()
 	if err != nil {
 		return nil, err
 	}

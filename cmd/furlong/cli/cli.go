@@ -1,6 +1,9 @@
 // Package cli holds Furlong's headless subcommands. Each command has a
-// runX(ctx, opts, ...) error function that tests call directly; Main maps
-// their errors to messages and exit codes. Nothing here opens a window.
+// runX(ctx context.Context, opts xOptions) error function that tests call
+// directly (runNew, runShow, runAnalyze, runFieldbook, runImport, runReport,
+// runChart, runMap); Main parses the flags into the options, runs it and maps
+// its error to a message and an exit code. Every command stops when ctx is
+// done (Ctrl+C, SIGTERM). Nothing here opens a window.
 package cli
 
 import (
@@ -12,6 +15,8 @@ import (
 	"sort"
 	"strings"
 	"time"
+
+	"furlong/trial"
 )
 
 // Exit codes.
@@ -105,7 +110,7 @@ func Exit(err error, env Env) int {
 		}
 		return ee.Code
 	case errors.Is(err, context.Canceled):
-		fmt.Fprintln(env.Stderr, "furlong: stopped before finishing")
+		fmt.Fprintln(env.Stderr, "furlong: stopped before finishing (interrupted); files are either left as they were or completely written")
 		return ExitFailure
 	default:
 		fmt.Fprintf(env.Stderr, "furlong: %s\n", Message(err))
@@ -155,12 +160,50 @@ func dispatch(ctx context.Context, args []string, env Env) error {
 		}
 		return &UsageError{Msg: c.name + ": " + flagMessage(fs, err), Command: c.name}
 	}
-	err := run(ctx, fs.Args())
+	err := runUntilDone(ctx, stopGrace, func(ctx context.Context) error { return run(ctx, fs.Args()) })
 	var ue *UsageError
 	if errors.As(err, &ue) && ue.Command == "" {
 		ue.Command = c.name
 	}
 	return err
+}
+
+// stopGrace is how long a command may take to return after ctx is done
+// (Ctrl+C or SIGTERM) before it is left behind: enough to finish writing a
+// file, short enough that a stop request is obeyed.
+const stopGrace = 2 * time.Second
+
+// runUntilDone runs f on its own goroutine and returns its error, or ctx's
+// error when ctx is done and f has not returned within grace: commands
+// check ctx in their long loops, and this bounds the ones that cannot (a
+// library call that takes long). Files are written atomically, so leaving a
+// command behind never leaves a half-written file. A panic in f is raised
+// again on the caller's goroutine, where the crash handler sees it.
+func runUntilDone(ctx context.Context, grace time.Duration, f func(context.Context) error) error {
+	type result struct {
+		err   error
+		panic *trial.WorkerPanic
+	}
+	done := make(chan result, 1)
+	go func() {
+		var r result
+		r.panic = trial.Catch(func() { r.err = f(ctx) })
+		done <- r
+	}()
+	var r result
+	select {
+	case r = <-done:
+	case <-ctx.Done():
+		select {
+		case r = <-done:
+		case <-time.After(grace):
+			return ctx.Err()
+		}
+	}
+	if r.panic != nil {
+		panic(r.panic)
+	}
+	return r.err
 }
 
 // flagMessage rewrites the flag package's parse errors, which name Go
@@ -262,7 +305,8 @@ Commands:
 	}
 	fmt.Fprint(w, `
 Run 'furlong help COMMAND' for a command's flags.
-Exit status: 0 done, 1 the command failed (the message says why), 2 the command line was wrong.
+Exit status: 0 done, 1 the command failed (the message says why) or was stopped (Ctrl+C),
+2 the command line was wrong, 3 a bug in Furlong (a crash report is saved).
 `)
 }
 

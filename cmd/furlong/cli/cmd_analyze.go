@@ -20,7 +20,10 @@ import (
 	"furlong/trial/trialfile"
 )
 
+// analyzeOptions are the choices of 'furlong analyze'.
 type analyzeOptions struct {
+	env                                                             Env
+	path                                                            string // the trial or CSV file
 	trait, treatment, block, row, column, format, method, transform string
 	responses                                                       stringList
 	alpha                                                           float64
@@ -50,7 +53,7 @@ Without --response every numeric column that is not a factor is analysed. Empty 
 Output: text (aligned tables for a terminal), json (every number at full precision; see the README
 for the fields) or csv (one row per treatment mean).`,
 		flags: func(env Env) (*flag.FlagSet, func(context.Context, []string) error) {
-			o := &analyzeOptions{}
+			o := &analyzeOptions{env: env}
 			fs := flag.NewFlagSet("analyze", flag.ContinueOnError)
 			fs.StringVar(&o.trait, "trait", "", "analyse only this trait `key` (trial files)")
 			fs.StringVar(&o.treatment, "treatment", "", "CSV: the treatment `column`")
@@ -66,13 +69,17 @@ for the fields) or csv (one row per treatment mean).`,
 				if len(args) != 1 {
 					return usagef("analyze: give one input file (a .furlong trial or a .csv table)")
 				}
-				return runAnalyze(ctx, o, args[0], env)
+				o.path = args[0]
+				return runAnalyze(ctx, *o)
 			}
 		},
 	})
 }
 
-func runAnalyze(ctx context.Context, o *analyzeOptions, path string, env Env) error {
+// runAnalyze analyses a trial file's traits or a CSV table's response columns
+// and prints the results in o.format.
+func runAnalyze(ctx context.Context, o analyzeOptions) error {
+	path, env := o.path, o.env
 	switch o.format {
 	case "text", "json", "csv":
 	default:
@@ -88,7 +95,7 @@ func runAnalyze(ctx context.Context, o *analyzeOptions, path string, env Env) er
 	opts := analysis.Options{Alpha: o.alpha, Unprotected: o.unprotected, Transform: tf}
 	var outcomes []analysis.Outcome
 	if isCSV(path) {
-		outcomes, err = analyzeCSV(o, path, opts)
+		outcomes, err = analyzeCSV(ctx, o, path, opts)
 	} else {
 		if o.treatment != "" || o.block != "" || o.row != "" || o.column != "" || len(o.responses) > 0 {
 			return usagef("analyze: --treatment, --block, --row, --column and --response are for CSV input; a trial file knows its design")
@@ -167,7 +174,7 @@ func traitKeys(t *trial.Trial) string {
 }
 
 // analyzeCSV reads a table and analyses each response column.
-func analyzeCSV(o *analyzeOptions, path string, opts analysis.Options) ([]analysis.Outcome, error) {
+func analyzeCSV(ctx context.Context, o analyzeOptions, path string, opts analysis.Options) ([]analysis.Outcome, error) {
 	if o.trait != "" {
 		return nil, usagef("analyze: --trait is for trial files; use --response for a CSV column")
 	}
@@ -197,6 +204,9 @@ func analyzeCSV(o *analyzeOptions, path string, opts analysis.Options) ([]analys
 	}
 	var out []analysis.Outcome
 	for _, d := range tab {
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
 		r, err := analysis.AnalyzeData(d, opts)
 		out = append(out, analysis.Outcome{Key: d.TraitKey, Result: r, Err: err})
 	}

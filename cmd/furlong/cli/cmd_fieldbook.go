@@ -27,57 +27,19 @@ and 'furlong import' reads it back. The xlsx form checks entries as they are typ
 valid range) and prints with the header on every page.
 For spreadsheets set to a European locale, --sep semicolon --decimal-comma writes what they expect.`,
 		flags: func(env Env) (*flag.FlagSet, func(context.Context, []string) error) {
+			o := fieldbookOptions{env: env}
 			fs := flag.NewFlagSet("fieldbook", flag.ContinueOnError)
-			out := fs.String("o", "", "write the field book to this `file` (.csv or .xlsx; required)")
-			sep := fs.String("sep", "comma", "CSV cell separator: comma, semicolon or tab")
-			dc := fs.Bool("decimal-comma", false, "CSV: write decimal commas (5,23)")
-			paper := fs.String("paper", "a4", "xlsx: paper size, a4 or letter")
-			force := fs.Bool("force", false, "replace the output file if it exists")
+			fs.StringVar(&o.out, "o", "", "write the field book to this `file` (.csv or .xlsx; required)")
+			fs.StringVar(&o.sep, "sep", "comma", "CSV cell separator: comma, semicolon or tab")
+			fs.BoolVar(&o.decimalComma, "decimal-comma", false, "CSV: write decimal commas (5,23)")
+			fs.StringVar(&o.paper, "paper", "a4", "xlsx: paper size, a4 or letter")
+			fs.BoolVar(&o.force, "force", false, "replace the output file if it exists")
 			return fs, func(ctx context.Context, args []string) error {
 				if len(args) != 1 {
 					return usagef("fieldbook: give one trial file")
 				}
-				if *out == "" {
-					return usagef("fieldbook: say where to write the field book with -o FILE")
-				}
-				t, err := trialfile.Load(args[0])
-				if err != nil {
-					return err
-				}
-				var buf bytes.Buffer
-				switch strings.ToLower(filepath.Ext(*out)) {
-				case ".xlsx":
-					p, err := parsePaper(*paper)
-					if err != nil {
-						return err
-					}
-					err = xlsx.WriteFieldBook(&buf, t, xlsx.FieldBookOptions{Paper: p})
-					if err != nil {
-						return err
-					}
-				case ".csv", ".txt", ".tsv":
-					o := fieldbook.Options{DecimalComma: *dc}
-					switch *sep {
-					case "comma", ",":
-						o.Comma = ','
-					case "semicolon", ";":
-						o.Comma = ';'
-					case "tab":
-						o.Comma = '\t'
-					default:
-						return usagef("fieldbook: --sep must be comma, semicolon or tab")
-					}
-					if err := fieldbook.WriteCSV(&buf, t, o); err != nil {
-						return err
-					}
-				default:
-					return usagef("fieldbook: the output must end in .csv (or .txt, .tsv) or .xlsx")
-				}
-				if err := writeFileNew(*out, buf.Bytes(), *force); err != nil {
-					return err
-				}
-				fmt.Fprintf(env.Stdout, "wrote the field book for %d plots to %s\n", len(t.Plots), *out)
-				return nil
+				o.trial = args[0]
+				return runFieldbook(ctx, o)
 			}
 		},
 	})
@@ -97,16 +59,73 @@ When the import goes ahead the trial is saved safely (the previous file is kept 
 Comma, semicolon and tab separated files and decimal commas are read.`,
 		flags: func(env Env) (*flag.FlagSet, func(context.Context, []string) error) {
 			fs := flag.NewFlagSet("import", flag.ContinueOnError)
-			over := fs.Bool("overwrite", false, "replace values already in the trial with different ones from the book")
-			dry := fs.Bool("dry-run", false, "only print the report; change nothing")
+			o := importOptions{env: env}
+			fs.BoolVar(&o.overwrite, "overwrite", false, "replace values already in the trial with different ones from the book")
+			fs.BoolVar(&o.dryRun, "dry-run", false, "only print the report; change nothing")
 			return fs, func(ctx context.Context, args []string) error {
 				if len(args) != 2 {
 					return usagef("import: give the trial file and the field book")
 				}
-				return runImport(env, args[0], args[1], *over, *dry)
+				o.trial, o.book = args[0], args[1]
+				return runImport(ctx, o)
 			}
 		},
 	})
+}
+
+// fieldbookOptions are the choices of 'furlong fieldbook'.
+type fieldbookOptions struct {
+	env                    Env
+	trial, out, sep, paper string
+	decimalComma, force    bool
+}
+
+// runFieldbook writes the field book of o.trial to o.out (CSV or xlsx).
+func runFieldbook(ctx context.Context, o fieldbookOptions) error {
+	if o.out == "" {
+		return usagef("fieldbook: say where to write the field book with -o FILE")
+	}
+	t, err := trialfile.Load(o.trial)
+	if err != nil {
+		return err
+	}
+	var buf bytes.Buffer
+	switch strings.ToLower(filepath.Ext(o.out)) {
+	case ".xlsx":
+		p, err := parsePaper(o.paper)
+		if err != nil {
+			return err
+		}
+		err = xlsx.WriteFieldBook(&buf, t, xlsx.FieldBookOptions{Paper: p})
+		if err != nil {
+			return err
+		}
+	case ".csv", ".txt", ".tsv":
+		fo := fieldbook.Options{DecimalComma: o.decimalComma}
+		switch o.sep {
+		case "comma", ",":
+			fo.Comma = ','
+		case "semicolon", ";":
+			fo.Comma = ';'
+		case "tab":
+			fo.Comma = '\t'
+		default:
+			return usagef("fieldbook: --sep must be comma, semicolon or tab")
+		}
+		if err := fieldbook.WriteCSV(&buf, t, fo); err != nil {
+			return err
+		}
+	default:
+		return usagef("fieldbook: the output must end in .csv (or .txt, .tsv) or .xlsx")
+	}
+	if err := ctx.Err(); err != nil {
+		return err
+	}
+	if err := writeFileNew(o.out, buf.Bytes(), o.force); err != nil {
+		return err
+	}
+	fmt.Fprintf(o.env.Stdout, "wrote the field book for %d plots to %s\n", len(t.Plots), o.out)
+	return nil
 }
 
 func parsePaper(s string) (xlsx.Paper, error) {
@@ -138,7 +157,16 @@ func readBook(path string) ([][]string, error) {
 	return rows, nil
 }
 
-func runImport(env Env, trialPath, bookPath string, overwrite, dry bool) error {
+// importOptions are the choices of 'furlong import'.
+type importOptions struct {
+	env               Env
+	trial, book       string
+	overwrite, dryRun bool
+}
+
+// runImport reads the values of the field book o.book into the trial o.trial.
+func runImport(ctx context.Context, o importOptions) error {
+	env, trialPath, bookPath, overwrite, dry := o.env, o.trial, o.book, o.overwrite, o.dryRun
 	t, err := trialfile.Load(trialPath)
 	if err != nil {
 		return err
@@ -164,6 +192,9 @@ func runImport(env Env, trialPath, bookPath string, overwrite, dry bool) error {
 	if dry {
 		fmt.Fprintln(env.Stdout, "dry run: the trial was not changed")
 		return nil
+	}
+	if err := ctx.Err(); err != nil {
+		return err
 	}
 	n, err := plan.Apply(t, overwrite)
 	if err != nil {

@@ -13,7 +13,9 @@ import (
 	"furlong/trial/trialfile"
 )
 
+// newOptions are the choices of 'furlong new'.
 type newOptions struct {
+	env                                                                   Env
 	out, design, treatments, traits, title, crop, season, site, yieldFrom string
 	reps                                                                  int
 	seed                                                                  string
@@ -39,7 +41,7 @@ The seed makes the randomisation reproducible; without --seed a fresh seed is dr
 from those two traits (plot weight in kg, moisture in %), at the crop's standard moisture.
 An existing FILE is not replaced unless --force is given.`,
 		flags: func(env Env) (*flag.FlagSet, func(context.Context, []string) error) {
-			o := &newOptions{}
+			o := &newOptions{env: env}
 			fs := flag.NewFlagSet("new", flag.ContinueOnError)
 			d := trial.DefaultLayout()
 			fs.StringVar(&o.out, "o", "", "write the trial to this `file` (required)")
@@ -68,13 +70,15 @@ An existing FILE is not replaced unless --force is given.`,
 				if len(args) > 0 {
 					return usagef("new: unexpected argument %q", args[0])
 				}
-				return runNew(o, env)
+				return runNew(ctx, *o)
 			}
 		},
 	})
 }
 
-func runNew(o *newOptions, env Env) error {
+// runNew creates, randomises and saves a new trial (or the demo trial).
+func runNew(ctx context.Context, o newOptions) error {
+	env := o.env
 	if o.out == "" {
 		return usagef("new: say where to write the trial with -o FILE")
 	}
@@ -94,8 +98,11 @@ func runNew(o *newOptions, env Env) error {
 		fmt.Fprintf(env.Stdout, "wrote the demo trial %q to %s\n", t.Title, o.out)
 		return nil
 	}
-	t, err := buildNew(o)
+	t, err := buildNew(&o)
 	if err != nil {
+		return err
+	}
+	if err := ctx.Err(); err != nil {
 		return err
 	}
 	if err := trialfile.Save(o.out, t); err != nil {

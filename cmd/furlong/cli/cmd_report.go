@@ -29,62 +29,21 @@ the treatment p-value, and yield as a percentage of the check), one sheet per tr
 means with letters, statistics, diagnostics in plain words, a chart of the means), the plot data,
 and the field map. Numbers are stored at full precision and shown with each trait's decimals.`,
 		flags: func(env Env) (*flag.FlagSet, func(context.Context, []string) error) {
+			o := reportOptions{env: env}
 			fs := flag.NewFlagSet("report", flag.ContinueOnError)
-			out := fs.String("o", "", "write the workbook to this `file` (.xlsx; required)")
-			alpha := fs.Float64("alpha", analysis.DefaultAlpha, "significance level of letters and LSD/HSD")
-			method := fs.String("method", "lsd", "letters shown: lsd or tukey")
-			traits := fs.String("traits", "", "report only these trait `keys`, comma-separated, in this order")
-			paper := fs.String("paper", "a4", "paper size, a4 or letter")
-			noCharts := fs.Bool("no-charts", false, "leave the charts out")
-			force := fs.Bool("force", false, "replace the output file if it exists")
+			fs.StringVar(&o.out, "o", "", "write the workbook to this `file` (.xlsx; required)")
+			fs.Float64Var(&o.alpha, "alpha", analysis.DefaultAlpha, "significance level of letters and LSD/HSD")
+			fs.StringVar(&o.method, "method", "lsd", "letters shown: lsd or tukey")
+			fs.StringVar(&o.traits, "traits", "", "report only these trait `keys`, comma-separated, in this order")
+			fs.StringVar(&o.paper, "paper", "a4", "paper size, a4 or letter")
+			fs.BoolVar(&o.noCharts, "no-charts", false, "leave the charts out")
+			fs.BoolVar(&o.force, "force", false, "replace the output file if it exists")
 			return fs, func(ctx context.Context, args []string) error {
 				if len(args) != 1 {
 					return usagef("report: give one trial file")
 				}
-				if *out == "" || !strings.EqualFold(filepath.Ext(*out), ".xlsx") {
-					return usagef("report: say where to write the workbook with -o REPORT.xlsx")
-				}
-				m, err := parseMethod(*method)
-				if err != nil {
-					return err
-				}
-				if !(*alpha > 0 && *alpha < 1) {
-					return usagef("report: --alpha must be between 0 and 1, for example 0.05")
-				}
-				p, err := parsePaper(*paper)
-				if err != nil {
-					return err
-				}
-				t, err := trialfile.Load(args[0])
-				if err != nil {
-					return err
-				}
-				keys, err := traitList(t, *traits)
-				if err != nil {
-					return err
-				}
-				results, err := analysis.AnalyzeAll(ctx, t, keys, analysis.Options{Alpha: *alpha})
-				if err != nil {
-					return err
-				}
-				var buf bytes.Buffer
-				err = xlsx.WriteReport(&buf, t, results, xlsx.ReportOptions{
-					Method: m, Alpha: *alpha, Traits: keys, Version: env.Version,
-					Charts: !*noCharts, Paper: p, Ctx: ctx,
-				})
-				if err != nil {
-					return err
-				}
-				if err := writeFileNew(*out, buf.Bytes(), *force); err != nil {
-					return err
-				}
-				fmt.Fprintf(env.Stdout, "wrote the report for %d traits to %s\n", len(results), *out)
-				for _, r := range results {
-					if r.Err != nil {
-						fmt.Fprintf(env.Stdout, "  %s was not analysed: %s\n", r.Key, export.Reason(r))
-					}
-				}
-				return nil
+				o.trial = args[0]
+				return runReport(ctx, o)
 			}
 		},
 	})
@@ -100,87 +59,21 @@ and the field map. Numbers are stored at full precision and shown with each trai
   qq         normal Q-Q plot of the residuals
 The format follows the file name's ending. Charts are sized for an A4 landscape page.`,
 		flags: func(env Env) (*flag.FlagSet, func(context.Context, []string) error) {
+			o := chartOptions{env: env}
 			fs := flag.NewFlagSet("chart", flag.ContinueOnError)
-			out := fs.String("o", "", "write the chart to this `file` (.png, .svg or .pdf; required)")
-			key := fs.String("trait", "", "the trait `key` (required)")
-			kind := fs.String("kind", "means", "chart kind: means, spread, fieldmap, residuals or qq")
-			method := fs.String("method", "lsd", "letters on a means chart: lsd, tukey or none")
-			alpha := fs.Float64("alpha", analysis.DefaultAlpha, "significance level of the letters")
-			order := fs.String("order", "mean", "treatment order: mean or code")
-			force := fs.Bool("force", false, "replace the output file if it exists")
+			fs.StringVar(&o.out, "o", "", "write the chart to this `file` (.png, .svg or .pdf; required)")
+			fs.StringVar(&o.trait, "trait", "", "the trait `key` (required)")
+			fs.StringVar(&o.kind, "kind", "means", "chart kind: means, spread, fieldmap, residuals or qq")
+			fs.StringVar(&o.method, "method", "lsd", "letters on a means chart: lsd, tukey or none")
+			fs.Float64Var(&o.alpha, "alpha", analysis.DefaultAlpha, "significance level of the letters")
+			fs.StringVar(&o.order, "order", "mean", "treatment order: mean or code")
+			fs.BoolVar(&o.force, "force", false, "replace the output file if it exists")
 			return fs, func(ctx context.Context, args []string) error {
 				if len(args) != 1 {
 					return usagef("chart: give one trial file")
 				}
-				if *key == "" {
-					return usagef("chart: say which trait with --trait KEY")
-				}
-				if !(*alpha > 0 && *alpha < 1) {
-					return usagef("chart: --alpha must be between 0 and 1, for example 0.05")
-				}
-				format, err := imageFormat(*out)
-				if err != nil {
-					return err
-				}
-				t, err := trialfile.Load(args[0])
-				if err != nil {
-					return err
-				}
-				if t.Trait(*key) == nil {
-					return fmt.Errorf("the trial has no trait %q (it has %s)", *key, traitKeys(t))
-				}
-				ord := chart.ByMean
-				switch *order {
-				case "mean":
-				case "code":
-					ord = chart.ByCode
-				default:
-					return usagef("chart: --order must be mean or code")
-				}
-				var p *plot.Plot
-				analyse := func() (*analysis.Result, error) {
-					return analysis.Analyze(t, *key, analysis.Options{Alpha: *alpha})
-				}
-				switch *kind {
-				case "means":
-					var letters analysis.Method
-					if *method != "none" {
-						if letters, err = parseMethod(*method); err != nil {
-							return err
-						}
-					}
-					r, err := analyse()
-					if err != nil {
-						return err
-					}
-					p, err = chart.Means(t, r, chart.MeansOptions{Letters: letters, Order: ord})
-					if err != nil {
-						return err
-					}
-				case "spread":
-					p, err = chart.Spread(t, *key, chart.SpreadOptions{Kind: chart.DotPlot, Order: ord, Seed: t.Random.Seed})
-				case "fieldmap":
-					p, err = chart.HeatMap(t, *key, chart.HeatMapOptions{PlotNumbers: true})
-				case "residuals", "qq":
-					r, err := analyse()
-					if err != nil {
-						return err
-					}
-					if *kind == "qq" {
-						p, err = chart.QQ(t, r)
-					} else {
-						p, err = chart.Residuals(t, r)
-					}
-					if err != nil {
-						return err
-					}
-				default:
-					return usagef("chart: --kind must be means, spread, fieldmap, residuals or qq")
-				}
-				if err != nil {
-					return err
-				}
-				return saveChart(env, p, *out, format, *force)
+				o.trial = args[0]
+				return runChart(ctx, o)
 			}
 		},
 	})
@@ -191,34 +84,195 @@ The format follows the file name's ending. Charts are sized for an A4 landscape 
 		details: `Draws the field map for the crew: every plot with its number and treatment code, a colour per
 treatment, block outlines, the grid's orientation and a key of treatments, on an A4 landscape page.`,
 		flags: func(env Env) (*flag.FlagSet, func(context.Context, []string) error) {
+			o := mapOptions{env: env}
 			fs := flag.NewFlagSet("map", flag.ContinueOnError)
-			out := fs.String("o", "", "write the map to this `file` (.png, .svg or .pdf; required)")
-			force := fs.Bool("force", false, "replace the output file if it exists")
+			fs.StringVar(&o.out, "o", "", "write the map to this `file` (.png, .svg or .pdf; required)")
+			fs.BoolVar(&o.force, "force", false, "replace the output file if it exists")
 			return fs, func(ctx context.Context, args []string) error {
 				if len(args) != 1 {
 					return usagef("map: give one trial file")
 				}
-				format, err := imageFormat(*out)
-				if err != nil {
-					return err
-				}
-				t, err := trialfile.Load(args[0])
-				if err != nil {
-					return err
-				}
-				p, err := chart.FieldMap(t, chart.FieldMapOptions{})
-				if err != nil {
-					return err
-				}
-				return saveChart(env, p, *out, format, *force)
+				o.trial = args[0]
+				return runMap(ctx, o)
 			}
 		},
 	})
 }
 
-func saveChart(env Env, p *plot.Plot, out, format string, force bool) error {
+// reportOptions are the choices of 'furlong report'.
+type reportOptions struct {
+	env                               Env
+	trial, out, method, traits, paper string
+	alpha                             float64
+	noCharts, force                   bool
+}
+
+// runReport writes the season report workbook of o.trial to o.out.
+func runReport(ctx context.Context, o reportOptions) error {
+	if o.out == "" || !strings.EqualFold(filepath.Ext(o.out), ".xlsx") {
+		return usagef("report: say where to write the workbook with -o REPORT.xlsx")
+	}
+	m, err := parseMethod(o.method)
+	if err != nil {
+		return err
+	}
+	if !(o.alpha > 0 && o.alpha < 1) {
+		return usagef("report: --alpha must be between 0 and 1, for example 0.05")
+	}
+	p, err := parsePaper(o.paper)
+	if err != nil {
+		return err
+	}
+	t, err := trialfile.Load(o.trial)
+	if err != nil {
+		return err
+	}
+	keys, err := traitList(t, o.traits)
+	if err != nil {
+		return err
+	}
+	results, err := analysis.AnalyzeAll(ctx, t, keys, analysis.Options{Alpha: o.alpha})
+	if err != nil {
+		return err
+	}
+	var buf bytes.Buffer
+	err = xlsx.WriteReport(&buf, t, results, xlsx.ReportOptions{
+		Method: m, Alpha: o.alpha, Traits: keys, Version: o.env.Version,
+		Charts: !o.noCharts, Paper: p, Ctx: ctx,
+	})
+	if err != nil {
+		return err
+	}
+	if err := ctx.Err(); err != nil {
+		return err
+	}
+	if err := writeFileNew(o.out, buf.Bytes(), o.force); err != nil {
+		return err
+	}
+	fmt.Fprintf(o.env.Stdout, "wrote the report for %d traits to %s\n", len(results), o.out)
+	for _, r := range results {
+		if r.Err != nil {
+			fmt.Fprintf(o.env.Stdout, "  %s was not analysed: %s\n", r.Key, export.Reason(r))
+		}
+	}
+	return nil
+}
+
+// chartOptions are the choices of 'furlong chart'.
+type chartOptions struct {
+	env                                    Env
+	trial, out, trait, kind, method, order string
+	alpha                                  float64
+	force                                  bool
+}
+
+// runChart draws one chart of one trait of o.trial to o.out.
+func runChart(ctx context.Context, o chartOptions) error {
+	if o.trait == "" {
+		return usagef("chart: say which trait with --trait KEY")
+	}
+	if !(o.alpha > 0 && o.alpha < 1) {
+		return usagef("chart: --alpha must be between 0 and 1, for example 0.05")
+	}
+	format, err := imageFormat(o.out)
+	if err != nil {
+		return err
+	}
+	ord := chart.ByMean
+	switch o.order {
+	case "mean":
+	case "code":
+		ord = chart.ByCode
+	default:
+		return usagef("chart: --order must be mean or code")
+	}
+	var letters analysis.Method
+	switch o.kind {
+	case "means":
+		if o.method != "none" {
+			if letters, err = parseMethod(o.method); err != nil {
+				return err
+			}
+		}
+	case "spread", "fieldmap", "residuals", "qq":
+	default:
+		return usagef("chart: --kind must be means, spread, fieldmap, residuals or qq")
+	}
+	t, err := trialfile.Load(o.trial)
+	if err != nil {
+		return err
+	}
+	if t.Trait(o.trait) == nil {
+		return fmt.Errorf("the trial has no trait %q (it has %s)", o.trait, traitKeys(t))
+	}
+	var p *plot.Plot
+	analyse := func() (*analysis.Result, error) {
+		return analysis.Analyze(t, o.trait, analysis.Options{Alpha: o.alpha})
+	}
+	switch o.kind {
+	case "means":
+		r, err := analyse()
+		if err != nil {
+			return err
+		}
+		p, err = chart.Means(t, r, chart.MeansOptions{Letters: letters, Order: ord})
+		if err != nil {
+			return err
+		}
+	case "spread":
+		p, err = chart.Spread(t, o.trait, chart.SpreadOptions{Kind: chart.DotPlot, Order: ord, Seed: t.Random.Seed})
+	case "fieldmap":
+		p, err = chart.HeatMap(t, o.trait, chart.HeatMapOptions{PlotNumbers: true})
+	case "residuals", "qq":
+		r, err := analyse()
+		if err != nil {
+			return err
+		}
+		if o.kind == "qq" {
+			p, err = chart.QQ(t, r)
+		} else {
+			p, err = chart.Residuals(t, r)
+		}
+		if err != nil {
+			return err
+		}
+	}
+	if err != nil {
+		return err
+	}
+	return saveChart(ctx, o.env, p, o.out, format, o.force)
+}
+
+// mapOptions are the choices of 'furlong map'.
+type mapOptions struct {
+	env        Env
+	trial, out string
+	force      bool
+}
+
+// runMap draws the printable field map of o.trial to o.out.
+func runMap(ctx context.Context, o mapOptions) error {
+	format, err := imageFormat(o.out)
+	if err != nil {
+		return err
+	}
+	t, err := trialfile.Load(o.trial)
+	if err != nil {
+		return err
+	}
+	p, err := chart.FieldMap(t, chart.FieldMapOptions{})
+	if err != nil {
+		return err
+	}
+	return saveChart(ctx, o.env, p, o.out, format, o.force)
+}
+
+func saveChart(ctx context.Context, env Env, p *plot.Plot, out, format string, force bool) error {
 	var buf bytes.Buffer
 	if err := chart.SaveA4(p, &buf, format); err != nil {
+		return err
+	}
+	if err := ctx.Err(); err != nil {
 		return err
 	}
 	if err := writeFileNew(out, buf.Bytes(), force); err != nil {

@@ -26,17 +26,28 @@ Field row 1 is printed at the bottom and column 1 at the left, as on the printed
 				if len(args) != 1 {
 					return usagef("show: give one trial file")
 				}
-				t, err := trialfile.Load(args[0])
-				if err != nil {
-					return err
-				}
-				return writeShow(env.Stdout, t)
+				return runShow(ctx, showOptions{env: env, trial: args[0]})
 			}
 		},
 	})
 }
 
-func writeShow(w io.Writer, t *trial.Trial) error {
+// showOptions are the choices of 'furlong show'.
+type showOptions struct {
+	env   Env
+	trial string
+}
+
+// runShow prints the summary and text field map of o.trial.
+func runShow(ctx context.Context, o showOptions) error {
+	t, err := trialfile.Load(o.trial)
+	if err != nil {
+		return err
+	}
+	return writeShow(ctx, o.env.Stdout, t)
+}
+
+func writeShow(ctx context.Context, w io.Writer, t *trial.Trial) error {
 	s := t.Summary()
 	fmt.Fprintln(w, t.Title)
 	fmt.Fprintln(w, strings.Repeat("=", len([]rune(t.Title))))
@@ -123,14 +134,15 @@ func writeShow(w io.Writer, t *trial.Trial) error {
 		fmt.Fprintln(w, strings.Join(excl, "\n"))
 	}
 	fmt.Fprintln(w)
-	writeTextMap(w, t)
-	return nil
+	return writeTextMap(ctx, w, t)
 }
 
 // writeTextMap prints each block's plots as a grid, field row 1 at the bottom.
 // Blocks are printed in the order they lie in the field, the top of the field
 // first and left before right, so that the whole map reads like the field.
-func writeTextMap(w io.Writer, t *trial.Trial) {
+//
+// It stops when ctx is done (a huge grid takes long) and returns ctx's error.
+func writeTextMap(ctx context.Context, w io.Writer, t *trial.Trial) error {
 	byBlock := map[int][]trial.Plot{}
 	width := 0
 	maxCol := 0
@@ -189,6 +201,9 @@ func writeTextMap(w io.Writer, t *trial.Trial) {
 			fmt.Fprintln(w)
 		}
 		for r := maxR; r >= minR; r-- {
+			if err := ctx.Err(); err != nil {
+				return err
+			}
 			fmt.Fprintf(w, "  row %3d |", r)
 			for c := minC; c <= maxC; c++ {
 				p, ok := cell[[2]int{r, c}]
@@ -207,4 +222,5 @@ func writeTextMap(w io.Writer, t *trial.Trial) {
 		}
 		fmt.Fprintln(w, strings.TrimRight(cols.String(), " "))
 	}
+	return nil
 }

@@ -1,0 +1,93 @@
+package cli
+
+import (
+	"bytes"
+	"context"
+	"errors"
+	"path/filepath"
+	"strings"
+	"testing"
+	"time"
+
+	"furlong/trial"
+)
+
+// Commands stop when their context is done (Ctrl+C or SIGTERM in main), and
+// a stopped command says so and exits 1, not 2 (2 is a wrong command line;
+// the exit-status convention is common practice for command-line tools).
+func TestCommandsStopWhenTheContextIsDone(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	path := filepath.Join(dir, "t.furlong")
+	if code, _, stderr := run(t, "new", "-o", path, "--treatments", "4", "--reps", "3", "--seed", "5", "--traits", "yield:t/ha"); code != 0 {
+		t.Fatalf("new: %s", stderr)
+	}
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel()
+	var out bytes.Buffer
+	env := Env{Stdout: &out, Stderr: &out}
+	cases := []struct {
+		name string
+		run  func() error
+	}{
+		{"show", func() error { return runShow(ctx, showOptions{env: env, trial: path}) }},
+		{"new", func() error {
+			return runNew(ctx, newOptions{env: env, out: filepath.Join(dir, "n.furlong"), design: "rcbd", treatments: "3", reps: 2, seed: "1"})
+		}},
+		{"analyze", func() error {
+			return runAnalyze(ctx, analyzeOptions{env: env, path: path, format: "text", alpha: 0.05})
+		}},
+		{"report", func() error {
+			return runReport(ctx, reportOptions{env: env, trial: path, out: filepath.Join(dir, "r.xlsx"), method: "lsd", paper: "a4", alpha: 0.05})
+		}},
+	}
+	for _, c := range cases {
+		if err := c.run(); !errors.Is(err, context.Canceled) {
+			t.Errorf("%s with a cancelled context returned %v, want context.Canceled", c.name, err)
+		}
+	}
+	var stderr bytes.Buffer
+	if code := Exit(context.Canceled, Env{Stdout: &out, Stderr: &stderr}); code != ExitFailure || !strings.Contains(stderr.String(), "stopped") {
+		t.Errorf("a stopped command exits %d with %q", code, stderr.String())
+	}
+}
+
+// A command that does not check its context is left behind after the grace
+// period, so that a stop request is always obeyed.
+func TestRunUntilDoneObeysAStopRequest(t *testing.T) {
+	t.Parallel()
+	ctx, cancel := context.WithCancel(context.Background())
+	block := make(chan struct{}, 1)
+	defer func() { block <- struct{}{} }()
+	go func() { time.Sleep(20 * time.Millisecond); cancel() }()
+	start := time.Now()
+	err := runUntilDone(ctx, 50*time.Millisecond, func(context.Context) error { <-block; return nil })
+	if !errors.Is(err, context.Canceled) {
+		t.Fatalf("got %v, want context.Canceled", err)
+	}
+	if d := time.Since(start); d > 5*time.Second {
+		t.Errorf("took %v to stop", d)
+	}
+	// A command that finishes in the grace period keeps its own result.
+	ctx2, cancel2 := context.WithCancel(context.Background())
+	cancel2()
+	want := errors.New("finished")
+	if err := runUntilDone(ctx2, time.Minute, func(context.Context) error { return want }); err != want {
+		t.Errorf("got %v, want the command's own error", err)
+	}
+}
+
+// A panic on the command's goroutine is raised again on the caller's, with
+// the stack of the goroutine that panicked, for main's crash handler.
+func TestRunUntilDoneForwardsAPanic(t *testing.T) {
+	t.Parallel()
+	p := trial.Catch(func() {
+		_ = runUntilDone(context.Background(), time.Second, func(context.Context) error { panic("inside a command") })
+	})
+	if p == nil || p.Value != "inside a command" {
+		t.Fatalf("got %+v, want the command's panic", p)
+	}
+	if !strings.Contains(string(p.Stack), "TestRunUntilDoneForwardsAPanic") {
+		t.Errorf("the stack is not the command goroutine's:\n%s", p.Stack)
+	}
+}
