@@ -39,7 +39,7 @@ func init() {
 	register(&command{
 		name:    "plan",
 		summary: "replicates needed, or the difference a design can detect",
-		usage: `furlong plan --design crd|rcbd|latin --treatments N (--reps N | --difference PERCENT) (--cv PERCENT | --cv-from TRIAL [--trait KEY]) [--alpha A] [--power P] [--spread M,M,...] [--format text|json]`,
+		usage:   `furlong plan --design crd|rcbd|latin --treatments N (--reps N | --difference PERCENT) (--cv PERCENT | --cv-from TRIAL [--trait KEY]) [--alpha A] [--power P] [--spread M,M,...] [--format text|json]`,
 		details: `Plans the size of a trial from the variability expected (the CV%: error standard deviation as a
 percent of the mean, typed with --cv or taken from the analysis of an existing trial with --cv-from).
 
