@@ -1,0 +1,110 @@
+package ui
+
+import (
+	"errors"
+	"slices"
+	"strconv"
+	"strings"
+
+	"fyne.io/fyne/v2"
+	"fyne.io/fyne/v2/container"
+	"fyne.io/fyne/v2/dialog"
+	"fyne.io/fyne/v2/theme"
+	"fyne.io/fyne/v2/widget"
+
+	"furlong/trial"
+)
+
+// designTab is the Setup step's Design tab: the kind of design and the
+// number of replicates.
+type designTab struct {
+	u       *App
+	content fyne.CanvasObject
+
+	designSel *widget.RadioGroup
+	reps      *widget.Entry
+	designMsg *widget.Label
+}
+
+// designExplain says in one line what each design is for.
+var designExplain = map[trial.DesignKind]string{
+	trial.CRD:   "Completely randomised: every plot gets a treatment at random. For uniform ground, pots or glasshouse benches.",
+	trial.RCBD:  "Randomised complete blocks: each block holds every treatment once, randomised within the block. For fields with a slope or gradient: lay blocks across it.",
+	trial.Latin: "Latin square: each treatment once in every field row and every column. For gradients in two directions; needs as many replicates as treatments (4 to 8).",
+}
+
+var designLabels = []string{"Completely randomised (CRD)", "Randomised complete blocks (RCBD)", "Latin square"}
+var designKinds = []trial.DesignKind{trial.CRD, trial.RCBD, trial.Latin}
+
+// newDesignTab builds the tab.
+func newDesignTab(u *App) *designTab {
+	s := &designTab{u: u}
+	s.content = s.build()
+	return s
+}
+
+func (s *designTab) build() fyne.CanvasObject {
+	s.designMsg = widget.NewLabel("")
+	s.designMsg.Wrapping = fyne.TextWrapWord
+	s.designSel = widget.NewRadioGroup(designLabels, nil)
+	// A second click on the chosen design must not unset it.
+	s.designSel.Required = true
+	s.designSel.OnChanged = func(l string) {
+		if i := slices.Index(designLabels, l); i >= 0 {
+			s.designMsg.SetText(designExplain[designKinds[i]])
+			s.reps.Enable()
+			if designKinds[i] == trial.Latin {
+				s.reps.SetText(strconv.Itoa(len(s.t().Treatments)))
+				s.reps.Disable()
+			}
+		}
+	}
+	s.reps = widget.NewEntry()
+	s.reps.Validator = func(v string) error {
+		n, err := strconv.Atoi(strings.TrimSpace(v))
+		if err != nil || n < 2 {
+			return errors.New("at least 2 replicates")
+		}
+		return nil
+	}
+	apply := widget.NewButtonWithIcon("Apply design", theme.ConfirmIcon(), s.applyDesign)
+	apply.Importance = widget.HighImportance
+	form := widget.NewForm(widget.NewFormItem("Design", s.designSel), widget.NewFormItem("Replicates", s.reps))
+	return container.NewVScroll(container.NewPadded(container.NewVBox(form, s.designMsg, container.NewHBox(apply))))
+}
+
+// applyDesign sets the design chosen in the Design tab.
+func (s *designTab) applyDesign() {
+	i := slices.Index(designLabels, s.designSel.Selected)
+	if i < 0 {
+		return
+	}
+	n, err := strconv.Atoi(strings.TrimSpace(s.reps.Text))
+	if err != nil {
+		dialog.ShowInformation("Replicates", "Type the number of replicates as a whole number, for example 4.", s.u.win)
+		return
+	}
+	d := trial.Design{Kind: designKinds[i], Reps: n}
+	if d.Kind == trial.Latin {
+		d.Reps = len(s.t().Treatments)
+	}
+	s.structural("The design could not be changed", func(t *trial.Trial) error { return t.SetDesign(d) })
+}
+
+func (s *designTab) loadDesign() {
+	d := s.t().Design
+	if i := slices.Index(designKinds, d.Kind); i >= 0 {
+		s.designSel.SetSelected(designLabels[i])
+	}
+	s.reps.SetText(strconv.Itoa(d.Reps))
+	if d.Kind == trial.Latin {
+		s.reps.Disable()
+	}
+}
+
+func (s *designTab) t() *trial.Trial { return s.u.doc.t }
+
+// structural applies a change as one undoable edit (see App.structuralEdit).
+func (s *designTab) structural(action string, f func(t *trial.Trial) error) bool {
+	return s.u.structuralEdit("setup change", action, f)
+}

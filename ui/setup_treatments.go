@@ -1,0 +1,265 @@
+package ui
+
+import (
+	"fmt"
+	"strings"
+
+	"fyne.io/fyne/v2"
+	"fyne.io/fyne/v2/container"
+	"fyne.io/fyne/v2/dialog"
+	"fyne.io/fyne/v2/theme"
+	"fyne.io/fyne/v2/widget"
+
+	"furlong/trial"
+)
+
+// treatmentsTab is the Setup step's Treatments tab: the list of
+// treatments and a form that adds, changes, moves and removes them.
+type treatmentsTab struct {
+	u       *App
+	content fyne.CanvasObject
+
+	trtList *widget.List
+	trtSel  int
+	trtForm treatmentForm
+}
+
+// newTreatmentsTab builds the tab.
+func newTreatmentsTab(u *App) *treatmentsTab {
+	s := &treatmentsTab{u: u, trtSel: -1}
+	s.content = s.build()
+	return s
+}
+
+func (s *treatmentsTab) build() fyne.CanvasObject {
+	s.trtList = widget.NewList(
+		func() int { return len(s.t().Treatments) },
+		func() fyne.CanvasObject {
+			return container.NewHBox(widget.NewLabelWithStyle("CODE", fyne.TextAlignLeading, fyne.TextStyle{Monospace: true}), widget.NewLabel("name"), widget.NewLabel(""))
+		},
+		func(i widget.ListItemID, o fyne.CanvasObject) {
+			tr := s.t().Treatments[i]
+			row := o.(*fyne.Container)
+			row.Objects[0].(*widget.Label).SetText(fmt.Sprintf("%-6s", tr.Code))
+			row.Objects[1].(*widget.Label).SetText(tr.Name)
+			role := ""
+			if tr.Role == trial.RoleCheck {
+				role = "check"
+			}
+			row.Objects[2].(*widget.Label).SetText(role)
+		})
+	f := &s.trtForm
+	f.code = widget.NewEntry()
+	f.code.SetPlaceHolder("short code, e.g. T01")
+	f.name = widget.NewEntry()
+	f.name.SetPlaceHolder("name")
+	f.desc = widget.NewEntry()
+	f.desc.SetPlaceHolder("description (optional)")
+	f.check = widget.NewCheck("Check (the standard the others are compared with)", nil)
+	code, name, desc, check := f.code, f.name, f.desc, f.check
+	s.trtList.OnSelected = func(i widget.ListItemID) {
+		s.trtSel = i
+		tr := s.t().Treatments[i]
+		code.SetText(tr.Code)
+		name.SetText(tr.Name)
+		desc.SetText(tr.Description)
+		check.SetChecked(tr.Role == trial.RoleCheck)
+		s.trtButtons()
+	}
+	s.trtList.OnUnselected = func(widget.ListItemID) {
+		s.trtSel = -1
+		s.trtButtons()
+	}
+	form := widget.NewForm(
+		widget.NewFormItem("Code", code),
+		widget.NewFormItem("Name", name),
+		widget.NewFormItem("Description", desc),
+		widget.NewFormItem("", check),
+	)
+	fromForm := func(base trial.Treatment) trial.Treatment {
+		base.Code = strings.TrimSpace(code.Text)
+		base.Name = strings.TrimSpace(name.Text)
+		base.Description = desc.Text
+		base.Role = trial.RoleEntry
+		if check.Checked {
+			base.Role = trial.RoleCheck
+		}
+		return base
+	}
+	addTreatment := func() {
+		tr := fromForm(trial.Treatment{})
+		if tr.Code == "" {
+			tr.Code = s.nextCode()
+		}
+		if s.structural("The treatment could not be added", func(t *trial.Trial) error { return t.AddTreatment(tr) }) {
+			// An empty form for the next one, so that names typed one
+			// after another never run together.
+			s.clearTreatmentForm()
+			s.u.win.Canvas().Focus(name)
+		}
+	}
+	f.add = widget.NewButtonWithIcon("Add", theme.ContentAddIcon(), addTreatment)
+	// Enter in the name adds a new treatment; with one selected it
+	// applies the changes instead.
+	name.OnSubmitted = func(string) {
+		if s.trtSel >= 0 {
+			f.apply.OnTapped()
+			return
+		}
+		addTreatment()
+	}
+	f.apply = widget.NewButtonWithIcon("Apply changes", theme.ConfirmIcon(), func() {
+		if s.trtSel < 0 || s.trtSel >= len(s.t().Treatments) {
+			return
+		}
+		old := s.t().Treatments[s.trtSel]
+		s.structural("The treatment could not be changed", func(t *trial.Trial) error { return t.UpdateTreatment(old.Code, fromForm(old)) })
+	})
+	f.remove = widget.NewButtonWithIcon("Remove", theme.ContentRemoveIcon(), func() {
+		if s.trtSel < 0 || s.trtSel >= len(s.t().Treatments) {
+			return
+		}
+		c := s.t().Treatments[s.trtSel].Code
+		if s.structural("The treatment could not be removed", func(t *trial.Trial) error { return t.RemoveTreatment(c) }) {
+			s.trtList.UnselectAll()
+			s.clearTreatmentForm()
+		}
+	})
+	move := func(d int) func() {
+		return func() {
+			i := s.trtSel
+			if i < 0 || i+d < 0 || i+d >= len(s.t().Treatments) {
+				return
+			}
+			c := s.t().Treatments[i].Code
+			if s.structural("The treatment could not be moved", func(t *trial.Trial) error { return t.MoveTreatment(c, i+d) }) {
+				s.trtList.Select(i + d)
+			}
+		}
+	}
+	f.up = widget.NewButtonWithIcon("Up", theme.MoveUpIcon(), move(-1))
+	f.down = widget.NewButtonWithIcon("Down", theme.MoveDownIcon(), move(1))
+	up, down, add, update, remove := f.up, f.down, f.add, f.apply, f.remove
+	paste := widget.NewButtonWithIcon("Paste list", theme.ContentPasteIcon(), func() {
+		s.pasteTreatments(s.u.app.Clipboard().Content())
+	})
+	s.trtButtons()
+	help := widget.NewLabel("Paste list adds the names on the clipboard: one per line, or code and name separated by a tab (two columns copied from a spreadsheet).")
+	help.Wrapping = fyne.TextWrapWord
+	help.Importance = widget.LowImportance
+	right := container.NewVBox(form, container.NewHBox(add, update, remove), container.NewHBox(up, down, paste), help)
+	split := container.NewHSplit(s.trtList, container.NewVScroll(right))
+	split.Offset = 0.4
+	return split
+}
+
+// treatmentForm holds the Treatments tab's form and buttons.
+type treatmentForm struct {
+	code, name, desc             *widget.Entry
+	check                        *widget.Check
+	add, apply, remove, up, down *widget.Button
+}
+
+// clearTreatmentForm empties the form, ready for a new treatment.
+func (s *treatmentsTab) clearTreatmentForm() {
+	f := &s.trtForm
+	f.code.SetText("")
+	f.name.SetText("")
+	f.desc.SetText("")
+	f.check.SetChecked(false)
+}
+
+// trtButtons enables the buttons that act on a selected treatment only
+// while one is selected, and Up and Down only where the move is possible.
+func (s *treatmentsTab) trtButtons() {
+	f := &s.trtForm
+	if f.apply == nil {
+		return
+	}
+	n := len(s.t().Treatments)
+	if s.trtSel >= n {
+		s.trtSel = -1
+	}
+	sel := s.trtSel >= 0
+	enable := func(b *widget.Button, on bool) {
+		if on {
+			b.Enable()
+		} else {
+			b.Disable()
+		}
+	}
+	enable(f.apply, sel)
+	enable(f.remove, sel)
+	enable(f.up, sel && s.trtSel > 0)
+	enable(f.down, sel && s.trtSel < n-1)
+}
+
+// nextCode proposes an unused code T01, T02, ...
+func (s *treatmentsTab) nextCode() string {
+	for i := len(s.t().Treatments) + 1; ; i++ {
+		c := fmt.Sprintf("T%02d", i)
+		if s.t().Treatment(c) == nil {
+			return c
+		}
+	}
+}
+
+// parseTreatmentList reads pasted text: one name per line, or code and
+// name separated by a tab. Empty lines are skipped; codes are proposed by
+// next for lines without one.
+func parseTreatmentList(text string, next func(i int) string) []trial.Treatment {
+	var out []trial.Treatment
+	for _, line := range strings.Split(strings.ReplaceAll(text, "\r\n", "\n"), "\n") {
+		line = strings.TrimSpace(line)
+		if line == "" {
+			continue
+		}
+		var tr trial.Treatment
+		tr.Role = trial.RoleEntry
+		if code, name, ok := strings.Cut(line, "\t"); ok {
+			tr.Code, tr.Name = strings.TrimSpace(code), strings.TrimSpace(name)
+			if i := strings.IndexByte(tr.Name, '\t'); i >= 0 {
+				tr.Name = strings.TrimSpace(tr.Name[:i])
+			}
+		} else {
+			tr.Name = line
+		}
+		if tr.Code == "" {
+			tr.Code = next(len(out))
+		}
+		out = append(out, tr)
+	}
+	return out
+}
+
+// pasteTreatments adds every treatment in text as one edit.
+func (s *treatmentsTab) pasteTreatments(text string) {
+	base := len(s.t().Treatments)
+	list := parseTreatmentList(text, func(i int) string {
+		for n := base + i + 1; ; n++ {
+			c := fmt.Sprintf("T%02d", n)
+			if s.t().Treatment(c) == nil {
+				return c
+			}
+		}
+	})
+	if len(list) == 0 {
+		dialog.ShowInformation("Nothing to paste", "The clipboard holds no names. Copy a column of names (or code and name columns) from a spreadsheet first.", s.u.win)
+		return
+	}
+	s.structural("The treatments could not be added", func(t *trial.Trial) error {
+		for _, tr := range list {
+			if err := t.AddTreatment(tr); err != nil {
+				return fmt.Errorf("%s: %w", tr.Code, err)
+			}
+		}
+		return nil
+	})
+}
+
+func (s *treatmentsTab) t() *trial.Trial { return s.u.doc.t }
+
+// structural applies a change as one undoable edit (see App.structuralEdit).
+func (s *treatmentsTab) structural(action string, f func(t *trial.Trial) error) bool {
+	return s.u.structuralEdit("setup change", action, f)
+}
