@@ -62,6 +62,9 @@ type App struct {
 	saved func(j saveJob, err error)
 	// exported, when set, receives every finished export (tests).
 	exported func(uri fyne.URI, err error)
+	// folderShown, when set, receives the outcome of "Show the folder"
+	// (tests).
+	folderShown func(err error)
 }
 
 // stepView is the screen of one step.

@@ -7,7 +7,6 @@ import (
 	"net/url"
 	"os"
 	"path/filepath"
-	"slices"
 	"strings"
 
 	"fyne.io/fyne/v2"
@@ -22,71 +21,21 @@ import (
 // progress may be called with the work done and the total.
 type exportJob func(ctx context.Context, w io.Writer, ext string, progress func(done, total int)) error
 
-// exportDialog asks where to save an export (dialog.NewFileSave), then
-// writes it in the background. A nil writer means the user cancelled. A
-// long job shows a progress bar with a Cancel button. When done, the user
-// is offered to open the folder.
+// exportDialog asks where to save an export (the file chooser, which adds
+// the first of exts to a name typed without an ending and asks before
+// replacing a file), then writes it in the background. A long job shows a
+// progress bar with a Cancel button. When done, the user is told where the
+// file is and offered to show the folder.
 func (u *App) exportDialog(what, fileName string, exts []string, long bool, job exportJob) {
-	d := dialog.NewFileSave(func(wc fyne.URIWriteCloser, err error) {
-		if err != nil {
-			// The dialog joins what was typed to the folder it shows, so
-			// a typed folder path ends up in a folder that does not exist.
-			showMessage(u.win, "Could not export", message{
-				"The " + what + " could not be written there: Furlong could not create a file of that name in that folder.",
-				"Type only the file name (without / or \\), choose the folder in the dialog, and export again."})
-			return
-		}
-		if wc == nil {
-			return // cancelled
-		}
-		u.withEnding(wc, exts, func(wc fyne.URIWriteCloser) { u.runExport(what, wc, long, job) })
-	}, u.win)
-	d.SetFileName(fileName)
-	if len(exts) > 0 {
-		d.SetFilter(storage.NewExtensionFileFilter(exts))
-	}
-	if l := u.lastFolder(); l != nil {
-		d.SetLocation(l)
-	}
-	d.Resize(dialogSize(u.win))
-	d.Show()
-}
-
-// withEnding passes wc to then when its name ends in one of exts (or exts
-// is empty). A name typed without an ending gets the first of exts: the
-// empty file the dialog made goes, and an existing file of the new name is
-// only replaced once the user agrees (the dialog asked about the bare name).
-func (u *App) withEnding(wc fyne.URIWriteCloser, exts []string, then func(fyne.URIWriteCloser)) {
-	uri := wc.URI()
-	ext := strings.ToLower(uri.Extension())
-	if len(exts) == 0 || uri.Scheme() != "file" || slices.Contains(exts, ext) {
-		then(wc)
-		return
-	}
-	wc.Close()
-	bare := uri.Path()
-	if fi, err := os.Stat(bare); err == nil && fi.Mode().IsRegular() && fi.Size() == 0 {
-		os.Remove(bare)
-	}
-	path := bare + exts[0]
-	open := func() {
-		w, err := storage.Writer(storage.NewFileURI(path))
+	u.chooseFile(chooseOptions{title: "Export the " + what, save: true, exts: exts, name: fileName,
+		confirm: "Export"}, func(path string) {
+		wc, err := storage.Writer(storage.NewFileURI(path))
 		if err != nil {
 			showError(u.win, "Could not export", "The file "+filepath.Base(path)+" could not be created", err)
 			return
 		}
-		then(w)
-	}
-	if _, err := os.Stat(path); err != nil {
-		open()
-		return
-	}
-	dialog.ShowConfirm("Replace the file?", "A file "+filepath.Base(path)+" already exists in "+
-		filepath.Dir(path)+".\n\nReplace it?", func(ok bool) {
-		if ok {
-			open()
-		}
-	}, u.win)
+		u.runExport(what, wc, long, job)
+	})
 }
 
 // runExport writes job into wc in the background and reports the outcome.
@@ -154,14 +103,7 @@ func (u *App) exportDone(what string, uri fyne.URI, err error) {
 	}
 	dir := filepath.Dir(uri.Path())
 	u.prefs.onLastFolderChanged(dir)
-	dialog.ShowConfirm("Export finished", "The "+what+" was written to "+uri.Name()+".\n\nOpen the folder?", func(ok bool) {
-		if !ok {
-			return
-		}
-		if err := u.app.OpenURL(folderURL(dir)); err != nil {
-			showError(u.win, "Could not open the folder", "The folder could not be opened", err)
-		}
-	}, u.win)
+	u.showWritten("Export finished", "The "+what+" was written to", uri.Path())
 }
 
 // folderURL is the file:// URL of a folder.

@@ -8,7 +8,6 @@ import (
 	"path/filepath"
 	"testing"
 
-	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/storage"
 	"fyne.io/fyne/v2/test"
 )
@@ -55,57 +54,5 @@ func TestWriteExport(t *testing.T) {
 	}
 	if u := folderURL("/home/field/trials"); u.String() != "file:///home/field/trials" {
 		t.Errorf("folder URL %s", u)
-	}
-}
-
-// An export name typed without an ending gets the first one offered, no
-// empty file stays under the bare name, and an existing file of the new
-// name is not replaced without asking (common practice for save dialogs).
-func TestExportEnding(t *testing.T) {
-	u, w := newTestApp(t, 0)
-	dir := t.TempDir()
-	bare := filepath.Join(dir, "report")
-	wc, err := storage.Writer(storage.NewFileURI(bare))
-	if err != nil {
-		t.Fatal(err)
-	}
-	var got string
-	u.withEnding(wc, []string{".xlsx"}, func(wc fyne.URIWriteCloser) {
-		got = wc.URI().Path()
-		wc.Close()
-	})
-	if got != bare+".xlsx" {
-		t.Fatalf("export goes to %q, want %q", got, bare+".xlsx")
-	}
-	if _, err := os.Stat(bare); err == nil {
-		t.Error("the empty file under the bare name is left behind")
-	}
-
-	// report.xlsx exists now: choosing "report" again must ask first.
-	if err := os.WriteFile(bare+".xlsx", []byte("keep"), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	wc, err = storage.Writer(storage.NewFileURI(bare))
-	if err != nil {
-		t.Fatal(err)
-	}
-	got = ""
-	u.withEnding(wc, []string{".xlsx"}, func(wc fyne.URIWriteCloser) { got = wc.URI().Path(); wc.Close() })
-	if got != "" || w.Canvas().Overlays().Top() == nil {
-		t.Fatal("an existing file is replaced without asking")
-	}
-	if data, _ := os.ReadFile(bare + ".xlsx"); string(data) != "keep" {
-		t.Fatalf("existing file changed to %q", data)
-	}
-
-	// A name with an offered ending goes through as chosen.
-	chosen := filepath.Join(dir, "map.png")
-	wc, err = storage.Writer(storage.NewFileURI(chosen))
-	if err != nil {
-		t.Fatal(err)
-	}
-	u.withEnding(wc, []string{".pdf", ".png"}, func(wc fyne.URIWriteCloser) { got = wc.URI().Path(); wc.Close() })
-	if got != chosen {
-		t.Fatalf("export goes to %q, want %q", got, chosen)
 	}
 }

@@ -3,13 +3,13 @@ package ui
 import (
 	"bytes"
 	"fmt"
-	"io"
+	"os"
+	"path/filepath"
 	"strings"
 
 	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/container"
 	"fyne.io/fyne/v2/dialog"
-	"fyne.io/fyne/v2/storage"
 	"fyne.io/fyne/v2/widget"
 
 	"furlong/export/xlsx"
@@ -23,28 +23,15 @@ func (u *App) importFieldBookDialog() {
 	if u.doc == nil {
 		return
 	}
-	d := dialog.NewFileOpen(func(r fyne.URIReadCloser, err error) {
-		if err != nil {
-			showError(u.win, "Could not import", "The field book could not be opened", err)
-			return
-		}
-		if r == nil {
-			return
-		}
-		defer r.Close()
-		data, err := io.ReadAll(r)
+	u.chooseFile(chooseOptions{title: "Import a field book", exts: []string{".csv", ".xlsx", ".txt"},
+		confirm: "Read"}, func(path string) {
+		data, err := os.ReadFile(path)
 		if err != nil {
 			showError(u.win, "Could not import", "The field book could not be read", err)
 			return
 		}
-		u.importFieldBook(r.URI().Name(), data)
-	}, u.win)
-	d.SetFilter(storage.NewExtensionFileFilter([]string{".csv", ".xlsx", ".txt"}))
-	if l := u.lastFolder(); l != nil {
-		d.SetLocation(l)
-	}
-	d.Resize(dialogSize(u.win))
-	d.Show()
+		u.importFieldBook(filepath.Base(path), data)
+	})
 }
 
 // readFieldBook turns a CSV or xlsx file into a table of strings.

@@ -1,13 +1,10 @@
 package ui
 
 import (
-	"os"
 	"path/filepath"
 	"strings"
 
 	"fyne.io/fyne/v2"
-	"fyne.io/fyne/v2/dialog"
-	"fyne.io/fyne/v2/storage"
 
 	"furlong/sampledata"
 	"furlong/trial"
@@ -23,38 +20,9 @@ func saveFile(path string, t *trial.Trial) error { return trialfile.Save(path, t
 
 func demoTrial() (*trial.Trial, error) { return sampledata.Trial() }
 
-// lastFolder returns the remembered folder as a listable URI, or nil.
-func (u *App) lastFolder() fyne.ListableURI {
-	if u.prefs.lastFolder == "" {
-		return nil
-	}
-	l, err := storage.ListerForURI(storage.NewFileURI(u.prefs.lastFolder))
-	if err != nil {
-		return nil
-	}
-	return l
-}
-
 // openDialog asks for a trial file to open.
 func (u *App) openDialog() {
-	d := dialog.NewFileOpen(func(r fyne.URIReadCloser, err error) {
-		if err != nil {
-			showError(u.win, "Could not open the trial", "The file could not be opened", err)
-			return
-		}
-		if r == nil {
-			return
-		}
-		path := r.URI().Path()
-		r.Close()
-		u.openPath(path)
-	}, u.win)
-	d.SetFilter(storage.NewExtensionFileFilter([]string{trialExt}))
-	if l := u.lastFolder(); l != nil {
-		d.SetLocation(l)
-	}
-	d.Resize(dialogSize(u.win))
-	d.Show()
+	u.chooseFile(chooseOptions{title: "Open a trial", exts: []string{trialExt}}, u.openPath)
 }
 
 // dialogSize is a file dialog size that fits the window.
@@ -97,59 +65,12 @@ func (u *App) saveTo(path string, then func()) {
 
 // saveAsDialog asks where to save the trial.
 func (u *App) saveAsDialog(then func()) {
-	d := dialog.NewFileSave(func(wc fyne.URIWriteCloser, err error) {
-		if err != nil {
-			// The dialog joins what was typed to the folder it shows, so
-			// a typed folder path ends up in a folder that does not exist.
-			showMessage(u.win, "Could not save", message{
-				"The trial could not be saved there: Furlong could not create a file of that name in that folder.",
-				"Type only the file name (for example trial.furlong, without / or \\), choose the folder in the dialog, and save again."})
-			return
-		}
-		if wc == nil {
-			return
-		}
-		chosen := wc.URI().Path()
-		// The dialog has created (or emptied) the file; the saver writes
-		// atomically over it.
-		wc.Close()
-		u.saveChosen(chosen, then)
-	}, u.win)
-	d.SetFilter(storage.NewExtensionFileFilter([]string{trialExt}))
-	d.SetFileName(safeFileName(u.doc.t.Title) + trialExt)
-	if l := u.lastFolder(); l != nil {
-		d.SetLocation(l)
-	}
-	d.Resize(dialogSize(u.win))
-	d.Show()
-}
-
-// saveChosen saves the trial under the name chosen in the save dialog,
-// adding the .furlong ending when it was left off.
-func (u *App) saveChosen(chosen string, then func()) {
-	path := chosen
-	if strings.HasSuffix(strings.ToLower(path), trialExt) {
-		u.saveTo(path, then)
-		return
-	}
-	// A name typed without the ending: the trial goes to NAME.furlong,
-	// and the empty file the dialog made under the bare name goes.
-	path += trialExt
-	if fi, err := os.Stat(chosen); err == nil && fi.Mode().IsRegular() && fi.Size() == 0 {
-		os.Remove(chosen)
-	}
-	if _, err := os.Stat(path); err != nil || path == u.doc.path {
-		u.saveTo(path, then)
-		return
-	}
-	// The dialog asked about the bare name only; ask about the file
-	// that will really be replaced.
-	dialog.ShowConfirm("Replace the file?", "A trial file "+filepath.Base(path)+" already exists in "+
-		filepath.Dir(path)+".\n\nReplace it with this trial?", func(ok bool) {
-		if ok {
+	u.chooseFile(chooseOptions{title: "Save the trial as", save: true, exts: []string{trialExt},
+		name: safeFileName(u.doc.t.Title) + trialExt}, func(path string) {
+		if u.doc != nil {
 			u.saveTo(path, then)
 		}
-	}, u.win)
+	})
 }
 
 // safeFileName turns a title into a file name.

@@ -93,45 +93,6 @@ func TestNewAsksFirst(t *testing.T) {
 	}
 }
 
-// A name typed without .furlong in the save dialog saves NAME.furlong,
-// leaves no empty file under the bare name, and asks before replacing an
-// existing NAME.furlong (the dialog only asked about the bare name).
-func TestSaveChosenWithoutEnding(t *testing.T) {
-	u, _ := newTestApp(t, 0)
-	u.OpenTrial(smallTrial(t), "")
-	dir := t.TempDir()
-	bare := filepath.Join(dir, "strip")
-	if err := os.WriteFile(bare, nil, 0o644); err != nil { // what the dialog leaves
-		t.Fatal(err)
-	}
-	u.saveChosen(bare, nil)
-	if _, err := os.Stat(bare); err == nil {
-		t.Error("the empty file under the bare name is left behind")
-	}
-	if _, err := loadFile(bare + trialExt); err != nil {
-		t.Fatalf("the trial is not in %s: %v", bare+trialExt, err)
-	}
-
-	// A second trial chosen under the same bare name must ask first.
-	u2, w2 := newTestApp(t, 0)
-	u2.OpenTrial(smallTrial(t), "")
-	u2.doc.t.Title = "Another strip"
-	if err := os.WriteFile(bare, nil, 0o644); err != nil {
-		t.Fatal(err)
-	}
-	u2.saveChosen(bare, nil)
-	if w2.Canvas().Overlays().Top() == nil {
-		t.Fatal("no question before replacing an existing trial file")
-	}
-	got, err := loadFile(bare + trialExt)
-	if err != nil {
-		t.Fatal(err)
-	}
-	if got.Title != "Test strip" {
-		t.Fatalf("existing file replaced without asking (title %q)", got.Title)
-	}
-}
-
 // The advice for a damaged file names its real backup copy, or says there
 // is none, never the placeholder.
 func TestDamagedFileAdvice(t *testing.T) {
