@@ -69,4 +69,12 @@
 // ErrWrongType, ErrDuplicatePlot, ...). Decode never panics.
 //
 // Save writes atomically and keeps the previous file as NAME.furlong.bak.
+//
+// Concurrent use: every save holds an exclusive lock of the file
+// (LockExclusive); Update is the read-modify-write under that lock, and
+// SaveChecked saves only over the version (Identity) the caller loaded, so
+// a window never overwrites changes made by another program without
+// knowing. MarkOpen leaves a presence marker beside a trial open in a
+// window, which ReadPresence reads (for example to warn in the CLI). The
+// names of these files are listed in lock.go and DEVELOPERS.md.
 package trialfile

@@ -75,7 +75,7 @@ func TestSaveDiskFullLeavesOldFile(t *testing.T) {
 		t.Fatal(err)
 	}
 	before, _ := os.ReadFile(path)
-	err := save(path, bigTrial("new", 2000, 3, 1), func(w io.Writer) io.Writer { return &failAfter{w: w, n: 100000} })
+	_, err := save(path, bigTrial("new", 2000, 3, 1), func(w io.Writer) io.Writer { return &failAfter{w: w, n: 100000} })
 	if !errors.Is(err, syscall.ENOSPC) {
 		t.Fatalf("got %v, want the disk-full error", err)
 	}
