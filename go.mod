@@ -3,6 +3,7 @@ module furlong
 go 1.26.8
 
 require (
+	codeberg.org/go-fonts/liberation v0.5.0
 	fyne.io/fyne/v2 v2.7.1
 	github.com/xuri/excelize/v2 v2.11.1
 	gonum.org/v1/gonum v0.17.0
@@ -10,7 +11,6 @@ require (
 )
 
 require (
-	codeberg.org/go-fonts/liberation v0.5.0 // indirect
 	codeberg.org/go-latex/latex v0.2.0 // indirect
 	codeberg.org/go-pdf/fpdf v0.11.1 // indirect
 	fyne.io/systray v1.11.1-0.20250603113521-ca66a66d8b58 // indirect

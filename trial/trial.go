@@ -123,7 +123,47 @@ type Layout struct {
 	Blocks      BlockArrangement
 	Numbering   Numbering
 	Walk        Walk
+
+	// Orientation says how the map sits on the ground; the zero value
+	// means it was never given.
+	Orientation Orientation
 }
+
+// Edge is one edge of the field map as printed: row 1 along the bottom,
+// column 1 at the left.
+type Edge string
+
+// The edges of the field map.
+const (
+	EdgeTop    Edge = "top"
+	EdgeBottom Edge = "bottom"
+	EdgeLeft   Edge = "left"
+	EdgeRight  Edge = "right"
+)
+
+// Edges lists the map edges in the order a form offers them.
+var Edges = []Edge{EdgeTop, EdgeRight, EdgeBottom, EdgeLeft}
+
+// Valid reports whether e is one of the four edges.
+func (e Edge) Valid() bool {
+	switch e {
+	case EdgeTop, EdgeBottom, EdgeLeft, EdgeRight:
+		return true
+	}
+	return false
+}
+
+// Orientation ties the field map to the ground, so that a crew holding
+// the printed map turns it the right way: the map edge that faces north,
+// and a landmark along the bottom edge (row 1), for example "farm track"
+// or "hedge". Either may be empty.
+type Orientation struct {
+	North    Edge   // "" when not known
+	Landmark string // what lies along the row-1 edge; free text
+}
+
+// IsZero reports whether no orientation was given.
+func (o Orientation) IsZero() bool { return o.North == "" && o.Landmark == "" }
 
 // Randomization records how the plots were randomised, so that a layout can
 // be reproduced from the file alone.

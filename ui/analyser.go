@@ -2,11 +2,11 @@ package ui
 
 import (
 	"context"
-	"image"
 	"sync"
 	"time"
 
 	"fyne.io/fyne/v2"
+	"gonum.org/v1/plot"
 
 	"furlong/trial"
 	"furlong/trial/analysis"
@@ -44,10 +44,10 @@ func (s *resultSet) result(key string) *traitResult {
 	return nil
 }
 
-// chartImage is a chart drawn to pixels, or the reason it could not be.
+// chartImage is a chart ready to draw, or the reason it could not be.
 type chartImage struct {
 	title string
-	img   image.Image
+	plot  *plot.Plot
 	err   error
 }
 

@@ -1,6 +1,14 @@
 package ui
 
 import (
+	"image"
+	"image/color"
+	"sync"
+
+	"fyne.io/fyne/v2"
+	"fyne.io/fyne/v2/canvas"
+	"fyne.io/fyne/v2/container"
+	"fyne.io/fyne/v2/widget"
 	"gonum.org/v1/plot"
 
 	"furlong/export/chart"
@@ -8,13 +16,15 @@ import (
 	"furlong/trial/analysis"
 )
 
-// Size of the chart images drawn for the screen; the canvas.Image scales
-// them to fit (FillMode contain).
-const chartW, chartH = 760, 500
+// chartMinSize is the smallest a chart is shown: its text stays at the
+// window's size (charts are drawn at their real pixel size), and below
+// about 500 × 380 the key and the axis labels crowd the data.
+var chartMinSize = fyne.NewSize(500, 380)
 
-// drawCharts draws the screen charts of one analysed trait, treatments in
+// drawCharts builds the screen charts of one analysed trait, treatments in
 // order (the Order of means preference). It runs on the analyser's
-// goroutine and touches only the snapshot.
+// goroutine and touches only the snapshot; the charts are drawn to pixels
+// by chartView at the size they are shown.
 func drawCharts(t *trial.Trial, tr traitResult, m analysis.Method, order chart.Order) []chartImage {
 	if tr.res == nil {
 		return nil
@@ -30,6 +40,9 @@ func drawCharts(t *trial.Trial, tr traitResult, m analysis.Method, order chart.O
 		{"Field heat map", func() (*plot.Plot, error) {
 			return chart.HeatMap(t, tr.key, chart.HeatMapOptions{PlotNumbers: true})
 		}},
+		{"Residual map", func() (*plot.Plot, error) {
+			return chart.ResidualMap(t, tr.res, chart.ResidualMapOptions{PlotNumbers: true})
+		}},
 		{"Spread", func() (*plot.Plot, error) {
 			return chart.Spread(t, tr.key, chart.SpreadOptions{Order: order, ShowExcluded: true, Seed: 1})
 		}},
@@ -39,11 +52,7 @@ func drawCharts(t *trial.Trial, tr traitResult, m analysis.Method, order chart.O
 	out := make([]chartImage, 0, len(makers))
 	for _, mk := range makers {
 		p, err := safePlot(mk.make)
-		ci := chartImage{title: mk.title, err: err}
-		if err == nil {
-			ci.img = chart.Image(p, chartW, chartH)
-		}
-		out = append(out, ci)
+		out = append(out, chartImage{title: mk.title, plot: p, err: err})
 	}
 	return out
 }
@@ -64,4 +73,75 @@ func safePlot(f func() (*plot.Plot, error)) (p *plot.Plot, err error) {
 		}
 	}()
 	return f()
+}
+
+// chartView shows a chart drawn at the widget's own pixel size and the
+// canvas scale, so that its text is as large as the window's and never
+// blurred by scaling; it redraws when resized (the last image is kept for
+// a repaint at the same size). Charts are paper: white in both themes,
+// framed so that they stand apart from a dark window.
+type chartView struct {
+	widget.BaseWidget
+	p *plot.Plot
+
+	mu     sync.Mutex
+	cached image.Image
+	w, h   int
+	raster *canvas.Raster
+}
+
+func newChartView(p *plot.Plot) *chartView {
+	v := &chartView{p: p}
+	v.raster = canvas.NewRaster(v.render)
+	v.ExtendBaseWidget(v)
+	return v
+}
+
+// render draws the chart at w × h pixels (the raster's size), reusing the
+// last image when the size has not changed.
+func (v *chartView) render(w, h int) image.Image {
+	v.mu.Lock()
+	defer v.mu.Unlock()
+	if w <= 0 || h <= 0 {
+		return image.NewRGBA(image.Rect(0, 0, 1, 1))
+	}
+	if v.cached != nil && v.w == w && v.h == h {
+		return v.cached
+	}
+	scale := 1.0
+	if size := v.Size(); size.Width > 0 {
+		scale = float64(w) / float64(size.Width)
+	}
+	img, err := safeImage(v.p, w, h, scale)
+	if err != nil {
+		blank := image.NewRGBA(image.Rect(0, 0, w, h))
+		for i := range blank.Pix {
+			blank.Pix[i] = 0xff
+		}
+		img = blank
+	}
+	v.cached, v.w, v.h = img, w, h
+	return img
+}
+
+// safeImage renders p, turning a panic in the plotting library into an
+// error.
+func safeImage(p *plot.Plot, w, h int, scale float64) (img image.Image, err error) {
+	defer func() {
+		if r := recover(); r != nil {
+			img, err = nil, errChartFailed
+		}
+	}()
+	return chart.ImageScaled(p, w, h, scale), nil
+}
+
+// MinSize keeps charts readable (chartMinSize).
+func (v *chartView) MinSize() fyne.Size { return chartMinSize }
+
+// CreateRenderer shows the raster inside a thin frame.
+func (v *chartView) CreateRenderer() fyne.WidgetRenderer {
+	frame := canvas.NewRectangle(color.Transparent)
+	frame.StrokeColor = color.NRGBA{R: 0x80, G: 0x80, B: 0x80, A: 0xff}
+	frame.StrokeWidth = 1
+	return widget.NewSimpleRenderer(container.NewStack(v.raster, frame))
 }

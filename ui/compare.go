@@ -38,7 +38,11 @@ type compareStep struct {
 	warnings *widget.Label
 	means    *widget.Table
 	meanRows []analysis.Mean
-	charts   *container.AppTabs
+	// treatWidth is the width of the means table's treatment column.
+	treatWidth float32
+	meansPane  *fyne.Container
+	detail     *container.Split
+	charts     *container.AppTabs
 
 	summary     *widget.Table
 	summaryHead []string
@@ -100,7 +104,7 @@ func newCompareStep(u *App) *compareStep {
 	c.means.UpdateHeader = func(id widget.TableCellID, o fyne.CanvasObject) {
 		setCompact(o, []string{"Treatment", "Plots", "Mean", "SE", "Letters"}[id.Col])
 	}
-	for i, w := range []float32{170, 55, 80, 75, 75} {
+	for i, w := range meansColumns {
 		c.means.SetColumnWidth(i, w)
 	}
 	c.charts = container.NewAppTabs()
@@ -129,11 +133,18 @@ func newCompareStep(u *App) *compareStep {
 	caution.Importance = widget.WarningImportance
 	caution.Truncation = fyne.TextTruncateEllipsis
 
-	upper := container.NewVScroll(container.NewVBox(heading("Analysis of variance"), c.anova, heading("Statistics"), c.statsBox, c.warnings))
-	left := container.NewVSplit(upper, container.NewBorder(heading("Means"), nil, nil, nil, c.means))
+	// Scrolls both ways, so that a long line in the statistics never
+	// widens the pane (and squeezes the charts).
+	upper := container.NewScroll(container.NewVBox(heading("Analysis of variance"), c.anova, heading("Statistics"), c.statsBox, c.warnings))
+	// The means pane is as wide as the table's columns, so that the
+	// letters never hide behind a horizontal scroll; the split gives the
+	// charts the rest (at least chartMinSize).
+	c.meansPane = container.New(&widthFloor{width: c.meansWidth}, container.NewBorder(heading("Means"), nil, nil, nil, c.means))
+	left := container.NewVSplit(upper, c.meansPane)
 	left.Offset = 0.6
 	detail := container.NewHSplit(left, c.charts)
 	detail.Offset = 0.42
+	c.detail = detail
 	tabs := container.NewAppTabs(
 		container.NewTabItem("This trait", detail),
 		container.NewTabItem("All traits", c.summary),
@@ -246,6 +257,10 @@ func (c *compareStep) show(s *resultSet) {
 	c.statsBox.Refresh()
 	c.fitTreatmentColumn()
 	c.means.Refresh()
+	if c.meansPane.MinSize().Width > c.meansPane.Size().Width {
+		// The columns grew: lay the split out again around the new width.
+		c.detail.Refresh()
+	}
 	if s.focus == c.traitKey && s.charts != nil {
 		c.showCharts(s.charts)
 	}
@@ -289,7 +304,7 @@ func (c *compareStep) showResult(r *analysis.Result) {
 		if v != nil {
 			add(level, fixed(*v, r.Decimals+1))
 		} else {
-			add(level, "differs between pairs (unequal plots per treatment)")
+			add(level, "differs by pair (unequal plots)")
 		}
 		add("R²", fixed(a.RSquared, 3))
 		if a.RelativeEfficiency > 0 {
@@ -322,11 +337,51 @@ func (c *compareStep) showResult(r *analysis.Result) {
 }
 
 // Widths of the means table's treatment column: at least the heading's
-// room, at most what leaves the numbers in view.
+// room, at most what leaves the numbers and the charts in view at 1366
+// pixels (longer names are shortened with an ellipsis).
 const (
-	treatColMin = 170
-	treatColMax = 300
+	treatColMin = 150
+	treatColMax = 200
 )
+
+// meansColumns are the starting widths of the means table's columns:
+// treatment, plots, mean, SE, letters.
+var meansColumns = []float32{treatColMin, 50, 80, 75, 80}
+
+// meansWidth is the width the means table needs to show every column:
+// its columns, the gaps between them and room for the vertical scroll bar.
+// At the window's default 1280 pixels this leaves the charts their
+// chartMinSize.
+func (c *compareStep) meansWidth() float32 {
+	w := c.treatWidth
+	if w == 0 {
+		w = treatColMin
+	}
+	for _, cw := range meansColumns[1:] {
+		w += cw
+	}
+	return w + float32(len(meansColumns))*theme.Padding() + theme.ScrollBarSize()
+}
+
+// widthFloor lays out one object filling the container, with a minimum
+// width of width() (and the object's own minimum height).
+type widthFloor struct{ width func() float32 }
+
+func (l *widthFloor) MinSize(objs []fyne.CanvasObject) fyne.Size {
+	s := fyne.NewSize(l.width(), 0)
+	for _, o := range objs {
+		m := o.MinSize()
+		s = s.Max(fyne.NewSize(0, m.Height))
+	}
+	return s
+}
+
+func (l *widthFloor) Layout(objs []fyne.CanvasObject, size fyne.Size) {
+	for _, o := range objs {
+		o.Move(fyne.NewPos(0, 0))
+		o.Resize(size)
+	}
+}
 
 // fitTreatmentColumn widens the treatment column to its longest name (up
 // to treatColMax); cell text never runs into the next column, since
@@ -336,7 +391,8 @@ func (c *compareStep) fitTreatmentColumn() {
 	for i := range c.meanRows {
 		w = max(w, cellTextWidth(c.meanText(i, 0)))
 	}
-	c.means.SetColumnWidth(0, min(w, treatColMax))
+	c.treatWidth = min(w, treatColMax)
+	c.means.SetColumnWidth(0, c.treatWidth)
 }
 
 // cellTextWidth is the width a compactCell needs for s.
@@ -398,11 +454,7 @@ func (c *compareStep) showCharts(cs []chartImage) {
 			l.Wrapping = fyne.TextWrapWord
 			obj = l
 		} else {
-			img := canvas.NewImageFromImage(ch.img)
-			img.FillMode = canvas.ImageFillContain
-			img.ScaleMode = canvas.ImageScaleSmooth
-			img.SetMinSize(fyne.NewSize(420, 280))
-			obj = img
+			obj = newChartView(ch.plot)
 		}
 		items = append(items, container.NewTabItem(ch.title, obj))
 	}

@@ -213,13 +213,15 @@ func (r *reportStep) exportChart() {
 		return
 	}
 	opts, _ := r.reportOptions()
+	order := chartOrder(r.u.prefs.meansOrder)
 	name := fmt.Sprintf("%s %s means.png", safeFileName(snap.Title), key)
 	r.u.exportDialog("chart", name, []string{".png", ".svg", ".pdf"}, false, func(ctx context.Context, w io.Writer, ext string, _ func(int, int)) error {
 		tr := analyzeTrait(snap, key, analysis.Options{Alpha: opts.Alpha})
 		if tr.err != nil {
 			return tr.err
 		}
-		p, err := chart.Means(snap, tr.res, chart.MeansOptions{Letters: opts.Method, Order: chart.ByMean})
+		// The order of means preference, as on screen.
+		p, err := chart.Means(snap, tr.res, chart.MeansOptions{Letters: opts.Method, Order: order})
 		if err != nil {
 			return err
 		}

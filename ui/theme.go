@@ -5,6 +5,11 @@ import (
 
 	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/theme"
+
+	"codeberg.org/go-fonts/liberation/liberationsansbold"
+	"codeberg.org/go-fonts/liberation/liberationsansbolditalic"
+	"codeberg.org/go-fonts/liberation/liberationsansitalic"
+	"codeberg.org/go-fonts/liberation/liberationsansregular"
 )
 
 // furlongTheme wraps the default theme with an earthy primary colour and a
@@ -67,4 +72,31 @@ func (t furlongTheme) Color(n fyne.ThemeColorName, v fyne.ThemeVariant) color.Co
 // themeColor looks up a colour in the current theme and variant.
 func themeColor(n fyne.ThemeColorName) color.Color {
 	return theme.Color(n)
+}
+
+// The window's text face is Liberation Sans, the face of the charts
+// (chart.Face) and the name the workbook gives its cells
+// (chart.FontFamily): one family on screen, in charts and in exports.
+var (
+	fontRegular    = fyne.NewStaticResource("LiberationSans-Regular.ttf", liberationsansregular.TTF)
+	fontBold       = fyne.NewStaticResource("LiberationSans-Bold.ttf", liberationsansbold.TTF)
+	fontItalic     = fyne.NewStaticResource("LiberationSans-Italic.ttf", liberationsansitalic.TTF)
+	fontBoldItalic = fyne.NewStaticResource("LiberationSans-BoldItalic.ttf", liberationsansbolditalic.TTF)
+)
+
+// Font returns Liberation Sans for text and the default theme's face for
+// monospace and symbols.
+func (t furlongTheme) Font(s fyne.TextStyle) fyne.Resource {
+	if s.Monospace || s.Symbol {
+		return t.Theme.Font(s)
+	}
+	switch {
+	case s.Bold && s.Italic:
+		return fontBoldItalic
+	case s.Bold:
+		return fontBold
+	case s.Italic:
+		return fontItalic
+	}
+	return fontRegular
 }

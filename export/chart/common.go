@@ -10,6 +10,7 @@ import (
 	"unicode"
 
 	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/font"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
 
@@ -176,16 +177,27 @@ func excludedFor(t *trial.Trial, i int, key string) bool {
 	return ex
 }
 
-// newPlot returns a plot with Furlong's defaults.
+// Font sizes of every chart, in points. At the window's scale (96 dots per
+// inch) 9 points are 12 pixels, close to the window's own text.
+const (
+	titleSize = 12
+	labelSize = 10.5
+	tickSize  = 9
+	keySize   = vg.Length(9) // side panel and outlier labels
+)
+
+// newPlot returns a plot with Furlong's defaults: the sans-serif Face for
+// every text, at the sizes above.
 func newPlot(title string) *plot.Plot {
 	p := plot.New()
 	p.Title.Text = title
 	p.Title.Padding = vg.Points(6)
-	p.Title.TextStyle.Font.Size = vg.Points(12)
-	p.X.Label.TextStyle.Font.Size = vg.Points(10)
-	p.Y.Label.TextStyle.Font.Size = vg.Points(10)
-	p.X.Tick.Label.Font.Size = vg.Points(8)
-	p.Y.Tick.Label.Font.Size = vg.Points(8)
+	p.Title.TextStyle.Font = font.From(Face, titleSize)
+	p.X.Label.TextStyle.Font = font.From(Face, labelSize)
+	p.Y.Label.TextStyle.Font = font.From(Face, labelSize)
+	p.X.Tick.Label.Font = font.From(Face, tickSize)
+	p.Y.Tick.Label.Font = font.From(Face, tickSize)
+	p.Legend.TextStyle.Font = font.From(Face, keySize)
 	return p
 }
 
@@ -195,7 +207,7 @@ func nominalAxis(p *plot.Plot, names []string) {
 	p.NominalX(names...)
 	n := len(names)
 	p.X.Min, p.X.Max = -0.6, float64(n)-0.4
-	size := vg.Points(8)
+	size := vg.Length(tickSize)
 	longest := 0
 	for _, s := range names {
 		longest = max(longest, len([]rune(s)))
@@ -211,7 +223,9 @@ func nominalAxis(p *plot.Plot, names []string) {
 		size = vg.Points(6.5)
 	}
 	p.X.Tick.Label.Font.Size = size
-	if n > 12 || n*longest > 60 {
+	// Upright labels need about a character's width each side to stay
+	// apart at the smallest chart the window shows (500 px).
+	if n > 12 || n*(longest+1) > 48 {
 		p.X.Tick.Label.Rotation = math.Pi / 2
 		p.X.Tick.Label.XAlign = draw.XRight
 		p.X.Tick.Label.YAlign = draw.YCenter

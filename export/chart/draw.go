@@ -3,12 +3,15 @@ package chart
 import (
 	"image/color"
 	"math"
+	"strings"
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/font"
 	"gonum.org/v1/plot/text"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
+
+	"furlong/trial"
 )
 
 // pattern is a line pattern drawn over a fill, so that fills stay apart
@@ -25,11 +28,23 @@ const (
 	nPatterns
 )
 
-// textStyle returns a plain text style of the default font at size points.
+// Face is the font of every chart: Liberation Sans, the sans-serif face of
+// the Liberation family that gonum/plot ships in its font cache. The window
+// (ui) embeds the same TrueType files, so screen, charts and exports share
+// one family; FontFamily is its name for documents that refer to fonts by
+// name (SVG, the workbook).
+var Face = font.Font{Typeface: "Liberation", Variant: "Sans"}
+
+// FontFamily is the name of Face as documents and office programs know it.
+// Liberation Sans has the metrics of Arial, so a machine without it lays
+// text out the same.
+const FontFamily = "Liberation Sans"
+
+// textStyle returns a plain text style of Face at size points.
 func textStyle(size vg.Length, clr color.Color) text.Style {
 	return text.Style{
 		Color:   clr,
-		Font:    font.From(plot.DefaultFont, size),
+		Font:    font.From(Face, size),
 		Handler: plot.DefaultTextHandler,
 	}
 }
@@ -165,6 +180,7 @@ type swatch struct {
 	Glyph   *draw.GlyphStyle
 	Line    *draw.LineStyle // a horizontal line (reference lines)
 	ErrBar  bool            // an error bar with caps
+	North   trial.Edge      // an arrow pointing to this edge of the map (north arrow)
 }
 
 // draw draws the swatch filling r.
@@ -200,11 +216,65 @@ func (s swatch) draw(c vg.Canvas, r vg.Rectangle, spacing vg.Length) {
 			{{X: mid.X - cw, Y: r.Max.Y}, {X: mid.X + cw, Y: r.Max.Y}},
 		})
 	}
+	if s.North.Valid() {
+		drawArrow(c, r, s.North)
+	}
 	if s.Glyph != nil {
 		dc := draw.NewCanvas(c, 0, 0)
 		dc.Rectangle = r
 		dc.DrawGlyphNoClip(*s.Glyph, mid)
 	}
+}
+
+// drawArrow draws a filled arrow inside r pointing to the given edge.
+func drawArrow(c vg.Canvas, r vg.Rectangle, to trial.Edge) {
+	mid := vg.Point{X: (r.Min.X + r.Max.X) / 2, Y: (r.Min.Y + r.Max.Y) / 2}
+	half := min(r.Max.X-r.Min.X, r.Max.Y-r.Min.Y) / 2
+	// Unit vector along the arrow and across it.
+	var ux, uy float64
+	switch to {
+	case trial.EdgeTop:
+		uy = 1
+	case trial.EdgeBottom:
+		uy = -1
+	case trial.EdgeRight:
+		ux = 1
+	case trial.EdgeLeft:
+		ux = -1
+	}
+	at := func(along, across vg.Length) vg.Point {
+		return vg.Point{
+			X: mid.X + along*vg.Length(ux) - across*vg.Length(uy),
+			Y: mid.Y + along*vg.Length(uy) + across*vg.Length(ux),
+		}
+	}
+	tip, head := at(half, 0), at(half*0.1, 0)
+	strokeSegments(c, draw.LineStyle{Color: color.Black, Width: max(vg.Points(1.2), half/5)}, [][2]vg.Point{{at(-half, 0), head}})
+	var p vg.Path
+	p.Move(tip)
+	p.Line(at(0, half*0.55))
+	p.Line(at(0, -half*0.55))
+	p.Close()
+	c.SetColor(color.Black)
+	c.Fill(p)
+}
+
+// orientationEntries are the key lines that tie the map to the ground:
+// the north arrow and the landmark along row 1, or a note that neither
+// was recorded.
+func orientationEntries(t *trial.Trial) []panelEntry {
+	o := t.Layout.Orientation
+	var out []panelEntry
+	if o.North.Valid() {
+		out = append(out, panelEntry{swatch: &swatch{North: o.North}, text: "North"})
+	}
+	if lm := strings.TrimSpace(o.Landmark); lm != "" {
+		out = append(out, panelEntry{text: "Along row 1 (bottom edge):\n" + lm})
+	}
+	if len(out) == 0 {
+		out = append(out, panelEntry{text: "North not recorded"})
+	}
+	return out
 }
 
 // panelEntry is one line of a side panel: an optional swatch and its text
@@ -219,6 +289,7 @@ type colourScale struct {
 	min, max float64
 	title    string // for example "Yield (t/ha)"
 	format   func(float64) string
+	ramp     func(float64) color.NRGBA // nil: Viridis
 }
 
 // sidePanel is a plotter that draws a key to the right of the data area. It
@@ -231,7 +302,10 @@ type sidePanel struct {
 	columns int       // entries are laid out in this many columns (≥ 1)
 }
 
-const panelGap = 10 // points between the data area and the panel
+const (
+	panelGap    = 10 // points between the data area and the panel
+	panelMargin = 4  // points between the panel and the right edge
+)
 
 func (sp *sidePanel) style() text.Style { return textStyle(sp.size, color.Black) }
 
@@ -271,7 +345,7 @@ func (sp *sidePanel) width() vg.Length {
 func (sp *sidePanel) GlyphBoxes(*plot.Plot) []plot.GlyphBox {
 	return []plot.GlyphBox{{
 		X: 1, Y: 1,
-		Rectangle: vg.Rectangle{Min: vg.Point{X: 0}, Max: vg.Point{X: panelGap + sp.width()}},
+		Rectangle: vg.Rectangle{Min: vg.Point{X: 0}, Max: vg.Point{X: panelGap + sp.width() + panelMargin}},
 	}}
 }
 
@@ -330,7 +404,11 @@ func (sp *sidePanel) drawScale(c draw.Canvas, x0, y vg.Length) vg.Length {
 			Min: vg.Point{X: x0, Y: y - barH + barH*vg.Length(i)/steps},
 			Max: vg.Point{X: x0 + barW, Y: min(y, y-barH+barH*vg.Length(i+1)/steps+vg.Points(0.6))},
 		}
-		fillRect(c, r, Viridis((float64(i)+0.5)/steps))
+		ramp := s.ramp
+		if ramp == nil {
+			ramp = Viridis
+		}
+		fillRect(c, r, ramp((float64(i)+0.5)/steps))
 	}
 	strokeRect(c, vg.Rectangle{Min: vg.Point{X: x0, Y: y - barH}, Max: vg.Point{X: x0 + barW, Y: y}},
 		draw.LineStyle{Color: color.Black, Width: vg.Points(0.5)})

@@ -5,12 +5,14 @@ import (
 	"image/color"
 	"math"
 	"strconv"
+	"strings"
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
 
 	"furlong/trial"
+	"furlong/trial/analysis"
 )
 
 // orientationNote says where the field grid starts. Trials store no compass
@@ -24,6 +26,133 @@ type HeatMapOptions struct {
 	// PlotNumbers writes the plot number in each cell when the cells are
 	// large enough to hold it legibly.
 	PlotNumbers bool
+}
+
+// ResidualMapOptions control a residual heat map.
+type ResidualMapOptions struct {
+	// Title replaces the trial title on the first line.
+	Title string
+	// PlotNumbers writes the plot number in each cell when the cells are
+	// large enough to hold it legibly.
+	PlotNumbers bool
+}
+
+// ResidualMap draws the residuals of the analysis r over the field grid:
+// each analysed plot's recorded value minus the value the model expects
+// for its treatment (and block), on a diverging scale centred on zero
+// (purple below, orange above what the model expects). With the
+// treatment effects taken out, what is left shows the field: fertility
+// gradients, wet corners, an edge effect, a mistake in recording. Plots
+// the analysis did not use (missing or excluded) are grey and hatched.
+func ResidualMap(t *trial.Trial, r *analysis.Result, opt ResidualMapOptions) (*plot.Plot, error) {
+	if t == nil || r == nil {
+		panic("chart: ResidualMap of a nil trial or result")
+	}
+	g, err := newFieldGrid(t.Plots)
+	if err != nil {
+		return nil, err
+	}
+	if r.ANOVA == nil || len(r.ANOVA.Residuals) == 0 || len(r.PlotIndex) != len(r.ANOVA.Residuals) {
+		return nil, fmt.Errorf("the analysis of %q has no residuals: %w", r.TraitKey, ErrNoData)
+	}
+	res := make([]float64, len(t.Plots))
+	used := make([]bool, len(t.Plots))
+	span := 0.0
+	for i, e := range r.ANOVA.Residuals {
+		k := r.PlotIndex[i]
+		if k < 0 || k >= len(t.Plots) || math.IsNaN(e) || math.IsInf(e, 0) {
+			continue
+		}
+		res[k], used[k] = e, true
+		span = math.Max(span, math.Abs(e))
+	}
+	// The colours run to ±2.5 residual standard deviations (beyond that,
+	// full colour), so that one outlier does not wash out the trend.
+	if a := r.ANOVA; a.MSE > 0 && !math.IsInf(a.MSE, 0) {
+		span = math.Min(span, 2.5*math.Sqrt(a.MSE))
+	}
+	g.minFont = vg.Points(5)
+	g.maxFont = vg.Points(9)
+	nUnused := 0
+	for i, pl := range t.Plots {
+		cell := gridCell{row: pl.Row, col: pl.Column, block: pl.Block}
+		if !used[i] {
+			cell.sw = swatch{Fill: missingFill, Pattern: patternBackDiagonal, Ink: gridGrey}
+			nUnused++
+		} else {
+			f := 0.5
+			if span > 0 {
+				f = 0.5 + 0.5*math.Max(-1, math.Min(1, res[i]/span))
+			}
+			cell.sw = swatch{Fill: Diverging(f)}
+		}
+		if opt.PlotNumbers {
+			cell.lines = []string{strconv.Itoa(pl.Number)}
+		}
+		g.cells = append(g.cells, cell)
+	}
+	title := opt.Title
+	if title == "" {
+		title = t.Title
+	}
+	p := newPlot(chartTitle(title, r.TraitName+": residuals across the field"))
+	g.setAxes(p)
+	p.Add(g)
+
+	dec := r.Decimals
+	if dec < 0 || dec > 6 {
+		dec = -1
+	}
+	if dec >= 0 {
+		dec++
+	}
+	if span == 0 {
+		span = 1
+	}
+	panel := &sidePanel{size: keySize}
+	panel.scale = &colourScale{
+		min: -span, max: span,
+		title:  "Residual" + unitSuffix(r.Unit),
+		format: func(v float64) string { return signed(formatValue(v, dec)) },
+		ramp:   Diverging,
+	}
+	panel.entries = append(panel.entries,
+		panelEntry{text: "Recorded minus expected\n(treatment" + blockWords(t) + ").\nPatches of one colour:\na trend in the field."})
+	if nUnused > 0 {
+		panel.entries = append(panel.entries, panelEntry{
+			swatch: &swatch{Fill: missingFill, Pattern: patternBackDiagonal, Ink: gridGrey, Outline: draw.LineStyle{Color: gridGrey, Width: vg.Points(0.3)}},
+			text:   "Not analysed (" + strconv.Itoa(nUnused) + ")",
+		})
+	}
+	if g.blockCount() > 1 {
+		panel.entries = append(panel.entries, panelEntry{
+			swatch: &swatch{Outline: draw.LineStyle{Color: color.Black, Width: vg.Points(2)}},
+			text:   "Block outline",
+		})
+	}
+	panel.entries = append(panel.entries, panelEntry{text: orientationNote})
+	panel.entries = append(panel.entries, orientationEntries(t)...)
+	p.Add(panel)
+	return p, nil
+}
+
+// blockWords names the other terms of the model, for the key.
+func blockWords(t *trial.Trial) string {
+	switch t.Design.Kind {
+	case trial.RCBD:
+		return " and block"
+	case trial.Latin:
+		return ", row, column"
+	}
+	return ""
+}
+
+// signed puts a plus before a positive number's text.
+func signed(s string) string {
+	if s != "" && s[0] != '-' && strings.Trim(s, "0.") != "" {
+		return "+" + s
+	}
+	return s
 }
 
 // HeatMap draws one trait over the field grid: a cell per plot coloured on
@@ -89,7 +218,7 @@ func HeatMap(t *trial.Trial, traitKey string, opt HeatMapOptions) (*plot.Plot, e
 	if dec < 0 || dec > 6 {
 		dec = -1
 	}
-	panel := &sidePanel{size: vg.Points(8)}
+	panel := &sidePanel{size: keySize}
 	panel.scale = &colourScale{
 		min: lo, max: hi,
 		title:  traitTitle(tr.Name, tr.Unit, tr.Key),
@@ -117,6 +246,7 @@ func HeatMap(t *trial.Trial, traitKey string, opt HeatMapOptions) (*plot.Plot, e
 		})
 	}
 	panel.entries = append(panel.entries, panelEntry{text: orientationNote})
+	panel.entries = append(panel.entries, orientationEntries(t)...)
 	p.Add(panel)
 	return p, nil
 }
@@ -174,7 +304,7 @@ func FieldMap(t *trial.Trial, opt FieldMapOptions) (*plot.Plot, error) {
 	g.setAxes(p)
 	p.Add(g)
 
-	panel := &sidePanel{size: vg.Points(8)}
+	panel := &sidePanel{size: keySize}
 	n := len(t.Treatments)
 	switch {
 	case n > 120:
@@ -206,6 +336,7 @@ func FieldMap(t *trial.Trial, opt FieldMapOptions) (*plot.Plot, error) {
 		note = append(note, "Thick lines: block outlines")
 	}
 	p.X.Label.Text = "Field column    (" + joinNotes(note) + ")"
+	panel.entries = append(orientationEntries(t), panel.entries...)
 	p.Add(panel)
 	return p, nil
 }

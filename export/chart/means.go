@@ -224,7 +224,7 @@ func Means(t *trial.Trial, r *analysis.Result, opt MeansOptions) (*plot.Plot, er
 	p.X.Min, p.X.Max = -0.6, float64(n)-0.4
 
 	// Key.
-	panel := &sidePanel{size: vg.Points(8)}
+	panel := &sidePanel{size: keySize}
 	hasCheck := false
 	for _, b := range bars {
 		hasCheck = hasCheck || b.check

@@ -113,3 +113,34 @@ func inkOn(fill color.Color) color.Color {
 	}
 	return color.White
 }
+
+// purpleOrange is the 11-class diverging "PuOr" scheme of ColorBrewer
+// (Brewer, Harrower and the Pennsylvania State University, colorbrewer2.org;
+// values from memory), from dark orange through near-white to dark purple.
+// It stays apart for the common forms of colour blindness.
+var purpleOrange = [11]color.NRGBA{
+	{R: 0x7f, G: 0x3b, B: 0x08, A: 0xff}, {R: 0xb3, G: 0x58, B: 0x06, A: 0xff},
+	{R: 0xe0, G: 0x82, B: 0x14, A: 0xff}, {R: 0xfd, G: 0xb8, B: 0x63, A: 0xff},
+	{R: 0xfe, G: 0xe0, B: 0xb6, A: 0xff}, {R: 0xf7, G: 0xf7, B: 0xf7, A: 0xff},
+	{R: 0xd8, G: 0xda, B: 0xeb, A: 0xff}, {R: 0xb2, G: 0xab, B: 0xd2, A: 0xff},
+	{R: 0x80, G: 0x73, B: 0xac, A: 0xff}, {R: 0x54, G: 0x27, B: 0x88, A: 0xff},
+	{R: 0x2d, G: 0x00, B: 0x4b, A: 0xff},
+}
+
+// Diverging returns the colour of the diverging purple–orange scale at v in
+// [0, 1]: 0 dark purple (far below), 0.5 near-white (as expected), 1 dark
+// orange (far above), interpolated linearly between the eleven classes. v
+// outside [0, 1] is clamped; NaN panics.
+func Diverging(v float64) color.NRGBA {
+	if math.IsNaN(v) {
+		panic("chart: Diverging of NaN")
+	}
+	v = math.Max(0, math.Min(1, v))
+	// The table runs orange to purple; low values are purple.
+	x := (1 - v) * float64(len(purpleOrange)-1)
+	k := min(int(x), len(purpleOrange)-2)
+	f := x - float64(k)
+	a, b := purpleOrange[k], purpleOrange[k+1]
+	lerp := func(p, q uint8) uint8 { return uint8(math.Round(float64(p) + f*(float64(q)-float64(p)))) }
+	return color.NRGBA{R: lerp(a.R, b.R), G: lerp(a.G, b.G), B: lerp(a.B, b.B), A: 0xff}
+}

@@ -10,6 +10,7 @@ import (
 	"gonum.org/v1/gonum/stat/distuv"
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/plotter"
+	"gonum.org/v1/plot/text"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
 
@@ -122,7 +123,22 @@ func QQ(t *trial.Trial, r *analysis.Result) (*plot.Plot, error) {
 	p.Y.Label.Text = "Standardised residual (ordered)"
 	intercept, slope := quartileLine(sorted)
 	xlo, xhi := theo[0]-0.2, theo[len(theo)-1]+0.2
-	ref, err := plotter.NewLine(plotter.XYs{{X: xlo, Y: intercept + slope*xlo}, {X: xhi, Y: intercept + slope*xhi}})
+	// The axes hold the points with a margin; the reference line is cut
+	// at the data area's edges, so it never runs over the axes or the key.
+	ylo, yhi := sorted[0], sorted[len(sorted)-1]
+	ypad := 0.06 * (yhi - ylo)
+	if ypad == 0 {
+		ypad = 0.5
+	}
+	ylo, yhi = ylo-ypad, yhi+ypad
+	a, b, ok := clipLine(intercept, slope, xlo, xhi, ylo, yhi)
+	if !ok {
+		// A line that misses the data area entirely (all residuals tied
+		// but one, say): draw it across at the median.
+		m := sorted[len(sorted)/2]
+		a, b = plotter.XY{X: xlo, Y: m}, plotter.XY{X: xhi, Y: m}
+	}
+	ref, err := plotter.NewLine(plotter.XYs{a, b})
 	if err != nil {
 		return nil, err
 	}
@@ -139,13 +155,39 @@ func QQ(t *trial.Trial, r *analysis.Result) (*plot.Plot, error) {
 	}
 	rl := ref.LineStyle
 	g := pts.GlyphStyle
-	p.Add(&sidePanel{size: vg.Points(8), entries: []panelEntry{
+	p.Add(&sidePanel{size: keySize, entries: []panelEntry{
 		{swatch: &swatch{Glyph: &g}, text: "Residual"},
 		{swatch: &swatch{Line: &rl}, text: "Line through\nthe quartiles"},
 		{text: "Points near the line:\nresiduals close to normal"},
 	}})
 	p.X.Min, p.X.Max = xlo, xhi
+	p.Y.Min, p.Y.Max = ylo, yhi
 	return p, nil
+}
+
+// clipLine is the part of y = intercept + slope·x inside the rectangle
+// [xlo, xhi] × [ylo, yhi]; ok is false when the line misses it.
+func clipLine(intercept, slope, xlo, xhi, ylo, yhi float64) (a, b plotter.XY, ok bool) {
+	if math.IsNaN(slope) || math.IsInf(slope, 0) || math.IsNaN(intercept) || math.IsInf(intercept, 0) {
+		return a, b, false
+	}
+	y := func(x float64) float64 { return intercept + slope*x }
+	x0, x1 := xlo, xhi
+	if slope != 0 {
+		// The x where the line crosses ylo and yhi, in increasing order.
+		xa, xb := (ylo-intercept)/slope, (yhi-intercept)/slope
+		if xa > xb {
+			xa, xb = xb, xa
+		}
+		x0, x1 = math.Max(x0, xa), math.Min(x1, xb)
+	} else if intercept < ylo || intercept > yhi {
+		return a, b, false
+	}
+	if x0 >= x1 {
+		return a, b, false
+	}
+	clampY := func(v float64) float64 { return math.Min(yhi, math.Max(ylo, v)) }
+	return plotter.XY{X: x0, Y: clampY(y(x0))}, plotter.XY{X: x1, Y: clampY(y(x1))}, true
 }
 
 // addResidualLayers adds the zero line, the ±3 guides, the points and the
@@ -189,7 +231,7 @@ func addResidualLayers(p *plot.Plot, xys plotter.XYs, d residualData, xlo, xhi f
 		return ts
 	})
 	g := pts.GlyphStyle
-	p.Add(&sidePanel{size: vg.Points(8), entries: []panelEntry{
+	p.Add(&sidePanel{size: keySize, entries: []panelEntry{
 		{swatch: &swatch{Glyph: &g}, text: "Observation"},
 		{swatch: &swatch{Line: &guide}, text: "±3 standardised\nresiduals"},
 		{text: "Labelled: beyond ±3"},
@@ -209,17 +251,41 @@ func addOutlierLabels(p *plot.Plot, xys plotter.XYs, labels []string) error {
 	if len(lab.XYs) == 0 {
 		return nil
 	}
-	l, err := plotter.NewLabels(lab)
-	if err != nil {
-		return err
+	// Labels of points in the right half go to their left, so that no
+	// label runs past the data area into the key.
+	lo, hi := xys[0].X, xys[0].X
+	for _, xy := range xys {
+		lo, hi = math.Min(lo, xy.X), math.Max(hi, xy.X)
 	}
-	for i := range l.TextStyle {
-		st := textStyle(vg.Points(8), color.Black)
-		st.XAlign, st.YAlign = draw.XLeft, draw.YCenter
-		l.TextStyle[i] = st
+	mid := (lo + hi) / 2
+	var right, left plotter.XYLabels
+	for i, xy := range lab.XYs {
+		if xy.X > mid {
+			left.XYs, left.Labels = append(left.XYs, xy), append(left.Labels, lab.Labels[i])
+		} else {
+			right.XYs, right.Labels = append(right.XYs, xy), append(right.Labels, lab.Labels[i])
+		}
 	}
-	l.Offset = vg.Point{X: vg.Points(4)}
-	p.Add(l)
+	for _, set := range []struct {
+		lab   plotter.XYLabels
+		align text.XAlignment
+		dx    vg.Length
+	}{{right, draw.XLeft, vg.Points(5)}, {left, draw.XRight, -vg.Points(5)}} {
+		if len(set.lab.XYs) == 0 {
+			continue
+		}
+		l, err := plotter.NewLabels(set.lab)
+		if err != nil {
+			return err
+		}
+		for i := range l.TextStyle {
+			st := textStyle(keySize, color.Black)
+			st.XAlign, st.YAlign = set.align, draw.YCenter
+			l.TextStyle[i] = st
+		}
+		l.Offset = vg.Point{X: set.dx}
+		p.Add(l)
+	}
 	return nil
 }
 

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"image"
 	"io"
+	"math"
 	"strings"
 	"unicode/utf8"
 
@@ -67,11 +68,25 @@ func SaveA4(p *plot.Plot, w io.Writer, format string) error {
 // Image renders p as an image of widthPx × heightPx pixels at ScreenDPI,
 // for display in a window.
 func Image(p *plot.Plot, widthPx, heightPx int) image.Image {
+	return ImageScaled(p, widthPx, heightPx, 1)
+}
+
+// ImageScaled renders p as an image of widthPx × heightPx pixels for a
+// screen whose scale is the number of pixels per device-independent pixel
+// (a window's canvas scale): text and lines keep their size in
+// device-independent pixels, so a chart drawn at the size of the widget
+// showing it is neither blurred nor shrunk. A scale that is not positive
+// counts as 1.
+func ImageScaled(p *plot.Plot, widthPx, heightPx int, scale float64) image.Image {
 	if widthPx <= 0 || heightPx <= 0 {
 		panic("chart: Image with a non-positive size")
 	}
-	px := vg.Inch / ScreenDPI
-	c := vgimg.NewWith(vgimg.UseWH(vg.Length(widthPx)*px, vg.Length(heightPx)*px), vgimg.UseDPI(ScreenDPI))
+	if !(scale > 0) || math.IsInf(scale, 0) {
+		scale = 1
+	}
+	dpi := max(1, math.Round(ScreenDPI*scale))
+	px := vg.Inch / vg.Length(dpi)
+	c := vgimg.NewWith(vgimg.UseWH(vg.Length(widthPx)*px, vg.Length(heightPx)*px), vgimg.UseDPI(int(dpi)))
 	p.Draw(draw.New(c))
 	return c.Image()
 }

@@ -116,7 +116,7 @@ func Spread(t *trial.Trial, traitKey string, opt SpreadOptions) (*plot.Plot, err
 	p.X.Label.Text = "Treatment (" + orderNote(opt.Order, tr.HigherBetter) + ")"
 	nominalAxis(p, names)
 
-	panel := &sidePanel{size: vg.Points(8)}
+	panel := &sidePanel{size: keySize}
 	radius := vg.Points(2.5)
 	if n > 40 {
 		radius = vg.Points(1.5)
