@@ -119,22 +119,9 @@ func MSD(r *analysis.Result, method analysis.Method) *float64 {
 	return r.LSD
 }
 
-// YieldTrait returns the index in traits of the trait whose means are shown
-// as a percentage of the check: the first derived adjusted-yield trait, else
-// the first trait keyed or named "yield" (case-insensitively), else -1.
-func YieldTrait(traits []trial.Trait) int {
-	for i, tr := range traits {
-		if tr.Derived != nil && tr.Derived.Kind == trial.AdjustedYield {
-			return i
-		}
-	}
-	for i, tr := range traits {
-		if strings.EqualFold(strings.TrimSpace(tr.Key), "yield") || strings.EqualFold(strings.TrimSpace(tr.Name), "yield") {
-			return i
-		}
-	}
-	return -1
-}
+// YieldTrait returns the index in traits of the trial's yield trait, -1
+// when there is none (the rule is trial.YieldTrait).
+func YieldTrait(traits []trial.Trait) int { return trial.YieldTrait(traits) }
 
 // FindTrait returns the index of the trait with key in t, -1 when absent.
 func FindTrait(t *trial.Trial, key string) int {

@@ -32,7 +32,46 @@ type Trial struct {
 	// values for trait j are Traits[j].Values[i].
 	Plots  []Plot
 	Traits []Trait
+
+	// Analysis holds the analysis settings remembered with the trial.
+	Analysis Analysis
 }
+
+// Analysis holds the settings of a trial's analysis that every view of it
+// shares (the window's Compare and Report steps, `furlong report`), so that
+// one choice gives one set of results.
+type Analysis struct {
+	// Method is the mean-separation method, by its stats/meansep name:
+	// MethodLSD ("lsd") or MethodTukey ("tukey"); "" means MethodLSD.
+	Method string
+}
+
+// Mean-separation methods a trial can remember (the names stats/meansep
+// gives them, and the values of the CLI's --method flag).
+const (
+	MethodLSD   = "lsd"   // Fisher's protected least significant difference
+	MethodTukey = "tukey" // Tukey's honestly significant difference
+)
+
+// MeanSeparation returns the trial's mean-separation method, MethodLSD when
+// none was chosen.
+func (t *Trial) MeanSeparation() string {
+	if t.Analysis.Method == "" {
+		return MethodLSD
+	}
+	return t.Analysis.Method
+}
+
+// Transformations a trait can be analysed under (the names stats gives
+// them, and the values of the CLI's --transform flag). The values are
+// transformed before the ANOVA and the means are shown back on the original
+// scale.
+const (
+	TransformNone    = ""       // the values as recorded
+	TransformLog     = "log"    // natural logarithm, for spread growing with the mean
+	TransformSqrt    = "sqrt"   // square root, for counts
+	TransformArcsine = "arcsin" // arcsine square root, for percentages
+)
 
 // Site is where the trial is sown.
 type Site struct {
@@ -218,6 +257,14 @@ type Trait struct {
 	Values []float64
 	// Derived, when set, computes the trait from other traits.
 	Derived *Derivation
+
+	// Transform is the scale the trait is analysed on: TransformNone,
+	// TransformLog, TransformSqrt or TransformArcsine (percent traits only).
+	Transform string
+	// PercentOfCheck says whether reports show each entry's mean of this
+	// trait as a percentage of the check mean. nil leaves it to the default
+	// (the trial's yield trait only; see Trial.ShowsPercentOfCheck).
+	PercentOfCheck *bool
 }
 
 // Missing is the value stored for a missing observation.

@@ -34,6 +34,9 @@ func (t *Trial) Validate() error {
 	p.checkLayout(t.Layout)
 	p.checkTraits(t)
 	p.checkPlots(t)
+	if msg := MethodProblem(t.Analysis.Method); msg != "" {
+		p.add("Analysis.Method", "%s", msg)
+	}
 	return p.err()
 }
 
@@ -272,6 +275,9 @@ func (p *problems) checkTrait(t *Trial, i int, seen map[string]int) {
 		}
 		if tr.Decimals < 0 || tr.Decimals > MaxDecimals {
 			p.add(f+".Decimals", "trait %q is set to %d decimals; use 0 to %d", tr.Key, tr.Decimals, MaxDecimals)
+		}
+		if msg := TransformProblem(tr.Transform, tr.Kind); msg != "" {
+			p.add(f+".Transform", "trait %q: %s", tr.Key, msg)
 		}
 		if tr.Derived != nil {
 			p.checkDerived(t, i)

@@ -61,6 +61,9 @@ func check(t *trial.Trial) *problem {
 				return &problem{fmt.Sprintf("trial.traits[%d].%s", j, b.name), errorf(ErrValueKind, "the %s of trait %q is not a finite number", b.name, tr.Key)}
 			}
 		}
+		if msg := trial.TransformProblem(tr.Transform, tr.Kind); msg != "" {
+			return &problem{fmt.Sprintf("trial.traits[%d].transform", j), errorf(ErrWrongType, "trait %q: %s", tr.Key, msg)}
+		}
 		if tr.Derived != nil {
 			if len(tr.Values) > 0 {
 				return &problem{fmt.Sprintf("trial.traits[%d].values", j),
@@ -84,6 +87,9 @@ func check(t *trial.Trial) *problem {
 					errorf(ErrValueKind, "the %s value %s of plot %d %s", tr.Key, fmtNum(v), t.Plots[i].Number, why)}
 			}
 		}
+	}
+	if msg := trial.MethodProblem(t.Analysis.Method); msg != "" {
+		return &problem{"trial.analysis.mean_separation", errorf(ErrWrongType, "%s", msg)}
 	}
 	l := t.Layout
 	for _, f := range []struct {

@@ -69,7 +69,7 @@ func decode(data []byte) (*trial.Trial, error) {
 	case v == 0:
 		return decodeV0(data)
 	default:
-		return decodeV1(data)
+		return decodeV1(data, int(v))
 	}
 }
 
@@ -103,13 +103,24 @@ type fieldError struct {
 	err  error
 }
 
-func decodeV1(data []byte) (*trial.Trial, error) {
+// decodeV1 reads a file of version 1 or 2. Version 1 had no analysis
+// settings: members of that name in a version 1 file are ignored, as
+// unknown members are, and the trial gets the defaults (the values as
+// recorded, LSD, percent of check for the yield trait).
+func decodeV1(data []byte, version int) (*trial.Trial, error) {
 	var f fileV1
 	if err := unmarshal(data, &f); err != nil {
 		return nil, err
 	}
 	if f.Trial == nil {
 		return nil, at(data, "trial", errorf(ErrWrongType, "the file holds no trial"))
+	}
+	if version < 2 {
+		f.Trial.Analysis = nil
+		for i := range f.Trial.Traits {
+			f.Trial.Traits[i].Transform = ""
+			f.Trial.Traits[i].PercentOfCheck = nil
+		}
 	}
 	t, fe := fromV1(f.Trial)
 	if fe != nil {
@@ -168,6 +179,11 @@ func fromV1(ft *trialV1) (*trial.Trial, *fieldError) {
 		fe = &fieldError{"trial.randomization.seed", err}
 	}
 	t.Random.Seed = seed
+	// Absent settings (a version 1 file) take the defaults, written out.
+	t.Analysis.Method = trial.MethodLSD
+	if ft.Analysis != nil && ft.Analysis.MeanSeparation != "" {
+		t.Analysis.Method = ft.Analysis.MeanSeparation
+	}
 	if len(ft.Treatments) > 0 {
 		t.Treatments = make([]trial.Treatment, len(ft.Treatments))
 	}
@@ -195,8 +211,13 @@ func fromV1(ft *trialV1) (*trial.Trial, *fieldError) {
 		tt := trial.Trait{
 			Key: tr.Key, Name: tr.Name, Unit: tr.Unit, Kind: trial.TraitKind(tr.Kind),
 			Min: tr.Min, Max: tr.Max, Decimals: tr.Decimals,
-			Assessed:     tm(path+".assessed", tr.Assessed),
-			HigherBetter: tr.HigherBetter,
+			Assessed:       tm(path+".assessed", tr.Assessed),
+			HigherBetter:   tr.HigherBetter,
+			Transform:      tr.Transform,
+			PercentOfCheck: tr.PercentOfCheck,
+		}
+		if tt.Transform == transformNone {
+			tt.Transform = trial.TransformNone
 		}
 		if d := tr.Derived; d != nil {
 			tt.Derived = &trial.Derivation{Kind: trial.DerivationKind(d.Kind), WeightTrait: d.WeightTrait, MoistureTrait: d.MoistureTrait,
@@ -356,7 +377,8 @@ func decodeV0(data []byte) (*trial.Trial, error) {
 			PlotsPerRow: ft.PlotsPerRow,
 			Walk:        trial.WalkStraight,
 		},
-		Random: trial.Randomization{Done: tm("trial.randomized", ft.Randomized)},
+		Random:   trial.Randomization{Done: tm("trial.randomized", ft.Randomized)},
+		Analysis: trial.Analysis{Method: trial.MethodLSD},
 	}
 	if ft.Serpentine {
 		t.Layout.Walk = trial.WalkSerpentine

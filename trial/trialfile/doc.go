@@ -4,7 +4,7 @@
 //
 //	{
 //	  "format": "furlong-trial",
-//	  "version": 1,
+//	  "version": 2,
 //	  "trial": {
 //	    "title": "Maize hybrid strip, Hollow Creek farm",
 //	    "crop": "maize", "season": "2026",
@@ -21,11 +21,14 @@
 //	               "blocks": "side-by-side"|"stacked", "numbering": "by-block"|"sequential",
 //	               "walk": "serpentine"|"straight"},
 //	    "randomization": {"seed": "18446744073709551615", "method": "...", "done": "..." or null},
+//	    "analysis": {"mean_separation": "lsd"|"tukey"},
 //	    "plots": [{"number": 101, "block": 1, "row": 1, "column": 1, "treatment": "T01",
 //	               "note": "...", "exclusions": [{"trait": "yield", "reason": "hail"}]}],
 //	    "traits": [{"key": "yield", "name": "...", "unit": "t/ha", "kind": "continuous",
 //	                "min": 0, "max": null, "decimals": 2, "assessed": null,
 //	                "higher_better": true,
+//	                "transform": "none"|"log"|"sqrt"|"arcsin",
+//	                "percent_of_check": true|false|null,
 //	                "values": [5.1, null, 4.87, ...],
 //	                "derived": {"kind": "adjusted-yield", "weight_trait": "wt",
 //	                            "moisture_trait": "mst", "standard_moisture": 15.5,
@@ -52,14 +55,25 @@
 // they are kept, and flagged elsewhere. Scores may be fractional (half
 // points are common practice in visual scoring).
 //
-// Versions: version 1 is the format above. Version 0, the first format,
+// Analysis settings: "analysis" holds the trial's mean-separation method,
+// used by every view of the results; a trait's "transform" is the scale it
+// is analysed on ("arcsin" only for percent traits) and its
+// "percent_of_check" says whether its means are shown as percentages of the
+// check mean (null: only for the trial's yield trait).
+//
+// Versions: version 2 is the format above. Version 1 was the same without
+// "analysis", "transform" and "percent_of_check": Decode gives a version 1
+// file the defaults (LSD, no transformation, percent of check for the yield
+// trait only), so it opens and analyses as before; those members, should a
+// version 1 file hold them, are ignored. Version 0, the first format,
 // stored values per plot as an object keyed by trait
 // ({"plot": 101, ..., "values": {"yield": 5.1}}), held the seed as a bare
 // JSON number ("seed": 12345 at trial level, with "randomized" for the
 // date), kept site, design and layout in flat members ("site": "North
 // field", "design": "rcbd", "reps": 4, "plot_length", "plot_width",
 // "plots_per_row", "serpentine": true) and marked checks with
-// "check": true. Decode migrates version 0 files; members version 0 did not
+// "check": true. Decode migrates version 0 files (with the default
+// analysis settings); members version 0 did not
 // have are left empty. Files with a version newer than Version are refused
 // with ErrNewerVersion.
 //

@@ -86,6 +86,7 @@ func toV1(t *trial.Trial) (*trialV1, error) {
 			Method: t.Random.Method,
 			Done:   tm("randomisation", t.Random.Done),
 		},
+		Analysis:   &analysisV2{MeanSeparation: t.MeanSeparation()},
 		Treatments: make([]treatmentV1, len(t.Treatments)),
 		Plots:      make([]plotV1, len(t.Plots)),
 		Traits:     make([]traitV1, len(t.Traits)),
@@ -104,8 +105,13 @@ func toV1(t *trial.Trial) (*trialV1, error) {
 		fr := traitV1{
 			Key: tr.Key, Name: tr.Name, Unit: tr.Unit, Kind: string(tr.Kind),
 			Min: tr.Min, Max: tr.Max, Decimals: tr.Decimals,
-			Assessed:     tm("assessment", tr.Assessed),
-			HigherBetter: tr.HigherBetter,
+			Assessed:       tm("assessment", tr.Assessed),
+			HigherBetter:   tr.HigherBetter,
+			Transform:      tr.Transform,
+			PercentOfCheck: tr.PercentOfCheck,
+		}
+		if fr.Transform == trial.TransformNone {
+			fr.Transform = transformNone
 		}
 		if d := tr.Derived; d != nil {
 			fr.Derived = &derivedV1{Kind: string(d.Kind), WeightTrait: d.WeightTrait, MoistureTrait: d.MoistureTrait,
@@ -120,6 +126,9 @@ func toV1(t *trial.Trial) (*trialV1, error) {
 	}
 	return ft, nil
 }
+
+// transformNone is the file's name for "no transformation".
+const transformNone = "none"
 
 // appendValues appends vs as a JSON list, null for missing values.
 func appendValues(b []byte, vs []float64) []byte {

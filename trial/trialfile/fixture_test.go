@@ -34,7 +34,8 @@ func richTrial() *trial.Trial {
 		Design: trial.Design{Kind: trial.RCBD, Reps: 3},
 		Layout: trial.Layout{PlotLength: 12, PlotWidth: 1.8, HarvestLength: 10.5, HarvestWidth: 1.44, Alley: 2.5,
 			PlotsPerRow: 4, Blocks: trial.BlocksSideBySide, Numbering: trial.NumberByBlock, Walk: trial.WalkSerpentine},
-		Random: trial.Randomization{Seed: math.MaxUint64 - 6, Method: "pcg-fisher-yates-v1", Done: time.Date(2026, 4, 28, 14, 0, 0, 123456789, awst)},
+		Random:   trial.Randomization{Seed: math.MaxUint64 - 6, Method: "pcg-fisher-yates-v1", Done: time.Date(2026, 4, 28, 14, 0, 0, 123456789, awst)},
+		Analysis: trial.Analysis{Method: trial.MethodTukey},
 	}
 	order := [][]string{{"N40", "N0", "N120", "N80"}, {"N0", "N80", "N40", "N120"}, {"N120", "N40", "N80", "N0"}}
 	for b, codes := range order {
@@ -66,14 +67,15 @@ func richTrial() *trial.Trial {
 	wt[6] = 1.0 / 3
 	mst[8] = 1e-7
 	heads[9] = 1 << 52
+	yes, no := true, false
 	t.Traits = []trial.Trait{
 		{Key: "wt", Name: "Harvested plot weight", Unit: "kg", Kind: trial.Continuous, Min: fp(0), Max: fp(30), Decimals: 2,
 			Assessed: time.Date(2026, 12, 1, 0, 0, 0, 0, time.UTC), HigherBetter: true, Values: wt},
 		{Key: "mst", Name: "Grain moisture", Unit: "%", Kind: trial.Percent, Min: fp(5), Max: fp(40), Decimals: 1, Values: mst},
-		{Key: "heads", Name: "Heads per m²", Unit: "/m²", Kind: trial.Count, Min: fp(0), Values: heads},
+		{Key: "heads", Name: "Heads per m²", Unit: "/m²", Kind: trial.Count, Min: fp(0), Values: heads, Transform: trial.TransformSqrt, PercentOfCheck: &yes},
 		{Key: "lodg", Name: "Lodging", Unit: "1-9", Kind: trial.Score, Min: fp(1), Max: fp(9), Values: lodg},
-		{Key: "cover", Name: "Ground cover", Unit: "%", Kind: trial.Percent, Min: fp(0), Max: fp(100), Values: cover},
-		{Key: "yield", Name: "Grain yield at 12.5 %", Unit: "t/ha", Kind: trial.Continuous, Decimals: 2, HigherBetter: true,
+		{Key: "cover", Name: "Ground cover", Unit: "%", Kind: trial.Percent, Min: fp(0), Max: fp(100), Values: cover, Transform: trial.TransformArcsine},
+		{Key: "yield", Name: "Grain yield at 12.5 %", Unit: "t/ha", Kind: trial.Continuous, Decimals: 2, HigherBetter: true, PercentOfCheck: &no, Transform: trial.TransformLog,
 			Derived: &trial.Derivation{Kind: trial.AdjustedYield, WeightTrait: "wt", MoistureTrait: "mst", StandardMoisture: 12.5, OutputUnit: "t/ha", BushelWeightLb: 60}},
 	}
 	return t
@@ -82,7 +84,7 @@ func richTrial() *trial.Trial {
 // bigTrial returns an invented trial of plots×traits values, every 17th
 // value missing, tagged by title.
 func bigTrial(title string, plots, traits int, offset float64) *trial.Trial {
-	t := &trial.Trial{Title: title, Design: trial.Design{Kind: trial.CRD, Reps: plots / 10}}
+	t := &trial.Trial{Title: title, Design: trial.Design{Kind: trial.CRD, Reps: plots / 10}, Analysis: trial.Analysis{Method: trial.MethodLSD}}
 	for k := range 10 {
 		t.Treatments = append(t.Treatments, trial.Treatment{Code: fmt.Sprintf("E%02d", k+1), Role: trial.RoleEntry})
 	}

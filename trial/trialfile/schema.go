@@ -7,9 +7,10 @@ const Format = "furlong-trial"
 
 // Version is the newest file format version this package reads, and the
 // one it writes.
-const Version = 1
+const Version = 2
 
-// The version 1 shape. Field order here is the order in the file.
+// The version 2 shape (also read for version 1, which lacks the members
+// marked "version 2"). Field order here is the order in the file.
 
 type fileV1 struct {
 	Format  string   `json:"format"`
@@ -31,6 +32,7 @@ type trialV1 struct {
 	Design        designV1      `json:"design"`
 	Layout        layoutV1      `json:"layout"`
 	Randomization randomV1      `json:"randomization"`
+	Analysis      *analysisV2   `json:"analysis"` // version 2
 	Plots         []plotV1      `json:"plots"`
 	Traits        []traitV1     `json:"traits"`
 }
@@ -102,10 +104,21 @@ type traitV1 struct {
 	Decimals     int      `json:"decimals"`
 	Assessed     *string  `json:"assessed"`
 	HigherBetter bool     `json:"higher_better"`
+	// Transform (version 2) is "none", "log", "sqrt" or "arcsin"; absent
+	// or "" is "none".
+	Transform string `json:"transform,omitempty"`
+	// PercentOfCheck (version 2): true, false, or null for the default.
+	PercentOfCheck *bool `json:"percent_of_check"`
 	// Values is a list aligned with plots, null for a missing value;
 	// absent for a derived trait.
 	Values  json.RawMessage `json:"values,omitempty"`
 	Derived *derivedV1      `json:"derived,omitempty"`
+}
+
+// analysisV2 holds the trial's analysis settings (version 2).
+type analysisV2 struct {
+	// MeanSeparation is "lsd" or "tukey"; absent or "" is "lsd".
+	MeanSeparation string `json:"mean_separation"`
 }
 
 type derivedV1 struct {

@@ -44,7 +44,7 @@ func TestRoundTripRich(t *testing.T) {
 	if !json.Valid(data) {
 		t.Fatal("output is not valid JSON")
 	}
-	if !bytes.HasPrefix(data, []byte("{\n  \"format\": \"furlong-trial\",\n  \"version\": 1,\n  \"trial\": {\n    \"title\":")) {
+	if !bytes.HasPrefix(data, []byte("{\n  \"format\": \"furlong-trial\",\n  \"version\": 2,\n  \"trial\": {\n    \"title\":")) {
 		t.Errorf("unexpected file start:\n%s", data[:80])
 	}
 	// Missing values are JSON null: the first heads value is missing.
@@ -144,7 +144,7 @@ func TestNewerVersion(t *testing.T) {
 		t.Fatalf("got %v, want ErrNewerVersion", err)
 	}
 	// Wording given in the specification of this package.
-	want := "this file was written by a newer version of Furlong (file format 3; this version reads up to 1). Update Furlong to open it."
+	want := "this file was written by a newer version of Furlong (file format 3; this version reads up to 2). Update Furlong to open it."
 	if err.Error() != want {
 		t.Errorf("message %q, want %q", err.Error(), want)
 	}
