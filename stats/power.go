@@ -24,14 +24,14 @@ import (
 // the noncentral t with both tails counted (Cochran & Cox 1957, Experimental
 // Designs, §2.3, give the same calculation with the upper tail only).
 
-// PlanningError is a planning input that cannot be used; its message is a
-// plain sentence the user can act on.
-type PlanningError struct {
+// ValueError is a value given to a planning or response calculation that
+// cannot be used; its message is a plain sentence the user can act on.
+type ValueError struct {
 	Reason string
 }
 
 // Error returns the plain-language reason.
-func (e *PlanningError) Error() string { return e.Reason }
+func (e *ValueError) Error() string { return e.Reason }
 
 // PowerInput describes one two-mean comparison to plan.
 type PowerInput struct {
@@ -44,13 +44,13 @@ type PowerInput struct {
 func (in PowerInput) check() error {
 	switch {
 	case in.Reps < 1:
-		return &PlanningError{Reason: "the number of replicates must be at least 1"}
+		return &ValueError{Reason: "the number of replicates must be at least 1"}
 	case !(in.DFError > 0) || math.IsInf(in.DFError, 0):
-		return &PlanningError{Reason: "the design leaves no degrees of freedom for the error: add replicates or treatments"}
+		return &ValueError{Reason: "the design leaves no degrees of freedom for the error: add replicates or treatments"}
 	case !(in.CV > 0) || math.IsInf(in.CV, 0):
-		return &PlanningError{Reason: "the CV must be a percentage greater than 0"}
+		return &ValueError{Reason: "the CV must be a percentage greater than 0"}
 	case !(in.Alpha > 0 && in.Alpha < 1):
-		return &PlanningError{Reason: "the significance level must lie between 0 and 1 (for example 0.05)"}
+		return &ValueError{Reason: "the significance level must lie between 0 and 1 (for example 0.05)"}
 	}
 	return nil
 }
@@ -70,7 +70,7 @@ func PowerOfDifference(in PowerInput, diff float64) (float64, error) {
 		return 0, err
 	}
 	if math.IsNaN(diff) || math.IsInf(diff, 0) {
-		return 0, &PlanningError{Reason: "the difference must be a number"}
+		return 0, &ValueError{Reason: "the difference must be a number"}
 	}
 	return twoSidedPower(in.DFError, math.Abs(diff)/in.se(), in.critical()), nil
 }
@@ -92,7 +92,7 @@ func DetectableDifference(in PowerInput, power float64) (float64, error) {
 		return 0, err
 	}
 	if !(power > in.Alpha && power < 1) {
-		return 0, &PlanningError{Reason: fmt.Sprintf("the power must lie between the significance level (%g) and 1, for example 0.8", in.Alpha)}
+		return 0, &ValueError{Reason: fmt.Sprintf("the power must lie between the significance level (%g) and 1, for example 0.8", in.Alpha)}
 	}
 	tc := in.critical()
 	f := func(ncp float64) float64 { return twoSidedPower(in.DFError, ncp, tc) - power }
@@ -124,7 +124,7 @@ var ErrTooManyReps = errors.New("stats: more replicates needed than the limit")
 // those replicates. Err wraps ErrTooManyReps when maxReps is not enough.
 func RepsNeeded(diff, cv, alpha, power float64, minReps, maxReps int, dfError func(reps int) float64) (reps int, detectable float64, err error) {
 	if !(diff > 0) || math.IsInf(diff, 0) {
-		return 0, 0, &PlanningError{Reason: "the difference to detect must be a percentage greater than 0"}
+		return 0, 0, &ValueError{Reason: "the difference to detect must be a percentage greater than 0"}
 	}
 	if minReps < 1 || maxReps < minReps {
 		panic("stats: RepsNeeded needs 1 ≤ minReps ≤ maxReps")
@@ -163,12 +163,12 @@ func FPower(means []float64, reps int, dfError, cv, alpha float64) (power, lambd
 		return 0, 0, err
 	}
 	if len(means) < 2 {
-		return 0, 0, &PlanningError{Reason: "give the expected mean of at least two treatments"}
+		return 0, 0, &ValueError{Reason: "give the expected mean of at least two treatments"}
 	}
 	var mbar float64
 	for _, m := range means {
 		if math.IsNaN(m) || math.IsInf(m, 0) {
-			return 0, 0, &PlanningError{Reason: "every expected mean must be a number"}
+			return 0, 0, &ValueError{Reason: "every expected mean must be a number"}
 		}
 		mbar += m
 	}

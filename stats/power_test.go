@@ -137,9 +137,9 @@ func TestPlanningInputErrors(t *testing.T) {
 		"power < α": {good, 0.01},
 	} {
 		_, err := DetectableDifference(c.in, c.power)
-		var pe *PlanningError
+		var pe *ValueError
 		if !errors.As(err, &pe) || pe.Reason == "" {
-			t.Errorf("%s: error %v, want a PlanningError", name, err)
+			t.Errorf("%s: error %v, want a ValueError", name, err)
 		}
 	}
 	_, _, err := RepsNeeded(0.5, 30, 0.05, 0.9, 2, 10, func(r int) float64 { return float64(r - 1) })
