@@ -60,7 +60,6 @@ func nitrogenData(t *testing.T) (rates, means []float64, reps int, mse float64, 
 	return
 }
 
-
 type nitrogenExpected struct {
 	Contrasts []struct {
 		Source string  `json:"source"`
