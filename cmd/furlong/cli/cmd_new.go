@@ -4,6 +4,7 @@ import (
 	"context"
 	"flag"
 	"fmt"
+	"math"
 	"os"
 	"strconv"
 	"strings"
@@ -22,6 +23,7 @@ type newOptions struct {
 	demo, force                                                           bool
 	layout                                                                trial.Layout
 	blocks, numbering, walk                                               string
+	rates, rateUnit                                                       string
 }
 
 func init() {
@@ -39,6 +41,9 @@ square's rows and columns are the field rows and columns.
 The seed makes the randomisation reproducible; without --seed a fresh seed is drawn and printed.
 --yield-from WEIGHT,MOISTURE adds a derived trait "yield": moisture-adjusted yield in t/ha
 from those two traits (plot weight in kg, moisture in %), at the crop's standard moisture.
+--rates gives each treatment its rate, in the order of --treatments ("0,50,100,150,200"; leave a
+place empty for a treatment without a rate, such as an untreated control: "0,40,,80"), with
+--rate-unit naming the unit ("kg N/ha"); 'furlong response' then fits the response to the rate.
 An existing FILE is not replaced unless --force is given.`,
 		flags: func(env Env) (*flag.FlagSet, func(context.Context, []string) error) {
 			o := &newOptions{env: env}
@@ -51,6 +56,8 @@ An existing FILE is not replaced unless --force is given.`,
 			fs.StringVar(&o.seed, "seed", "", "randomisation seed, a whole `number` (default: a fresh one)")
 			fs.StringVar(&o.traits, "traits", "", "traits to record, comma-separated `KEY[:UNIT]`")
 			fs.StringVar(&o.yieldFrom, "yield-from", "", "add derived moisture-adjusted yield from `WEIGHT,MOISTURE` trait keys")
+			fs.StringVar(&o.rates, "rates", "", "each treatment's rate, comma-separated `list` in treatment order")
+			fs.StringVar(&o.rateUnit, "rate-unit", "", "unit of the rates, for example \"kg N/ha\"")
 			fs.StringVar(&o.title, "title", "", "trial title")
 			fs.StringVar(&o.crop, "crop", "", "crop (maize, soybean, wheat, barley, oats get moisture defaults)")
 			fs.StringVar(&o.season, "season", "", "season, for example 2026")
@@ -126,6 +133,9 @@ func buildNew(o *newOptions) (*trial.Trial, error) {
 	}
 	trts, err := parseTreatments(o.treatments)
 	if err != nil {
+		return nil, err
+	}
+	if err := applyRates(trts, o.rates, o.rateUnit); err != nil {
 		return nil, err
 	}
 	if o.reps == 0 && kind != trial.Latin {
@@ -276,4 +286,35 @@ func designName(d trial.Design) string {
 		return fmt.Sprintf("%d × %d Latin square", d.Reps, d.Reps)
 	}
 	return string(d.Kind)
+}
+
+// applyRates sets the treatments' rates from "--rates 0,50,,100" (an empty
+// place: no rate) and their unit from --rate-unit.
+func applyRates(trts []trial.Treatment, list, unit string) error {
+	if list == "" {
+		if unit != "" {
+			return usagef("new: --rate-unit needs --rates")
+		}
+		return nil
+	}
+	parts := strings.Split(list, ",")
+	if len(parts) != len(trts) {
+		return usagef("new: --rates needs one place per treatment (%d), not %d", len(trts), len(parts))
+	}
+	for i, p := range parts {
+		p = strings.TrimSpace(p)
+		if p == "" {
+			continue
+		}
+		v, err := strconv.ParseFloat(p, 64)
+		if err != nil || math.IsInf(v, 0) || math.IsNaN(v) {
+			return usagef("new: --rates: the rate of %s must be a number, not %q", trts[i].Code, p)
+		}
+		if v < 0 {
+			return usagef("new: --rates: the rate of %s is negative (%s)", trts[i].Code, p)
+		}
+		trts[i].Rate = &v
+		trts[i].RateUnit = strings.TrimSpace(unit)
+	}
+	return nil
 }
