@@ -31,7 +31,7 @@ type TrendLine struct {
 // against mse on dfError degrees of freedom.
 //
 // means are the treatment (least-squares) means and cov their covariance
-// matrix divided by the error variance (for means of r_i plots of a
+// matrix divided by the error variance, row by row (t × t values) (for means of r_i plots of a
 // balanced design, the diagonal 1/r_i). Each line's sum of squares is the
 // Wald quadratic form of its polynomial contrasts, taken sequentially
 // (linear, then quadratic given linear, then the rest), so the lines add up
@@ -39,9 +39,9 @@ type TrendLine struct {
 // with balanced data they are the classic orthogonal-polynomial sums of
 // squares (Gomez & Gomez 1984, Statistical Procedures for Agricultural
 // Research, §5.2.3; R's contr.poly with scores).
-func PolynomialTrend(means []float64, cov mat.Symmetric, scores []float64, mse float64, dfError int) ([]TrendLine, error) {
+func PolynomialTrend(means, cov, scores []float64, mse float64, dfError int) ([]TrendLine, error) {
 	t := len(means)
-	if t < 2 || len(scores) != t || cov.SymmetricDim() != t {
+	if t < 2 || len(scores) != t || len(cov) != t*t {
 		panic("stats: PolynomialTrend needs matching means, scores and covariance, at least 2")
 	}
 	if !(mse > 0) || dfError < 1 {
@@ -91,7 +91,7 @@ func PolynomialTrend(means []float64, cov mat.Symmetric, scores []float64, mse f
 			c.SetRow(k, rows[k])
 		}
 		var cv, cvc mat.Dense
-		cv.Mul(c, cov)
+		cv.Mul(c, mat.NewDense(t, t, cov))
 		cvc.Mul(&cv, c.T())
 		sym := mat.NewSymDense(q, nil)
 		for i := 0; i < q; i++ {

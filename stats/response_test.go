@@ -8,8 +8,6 @@ import (
 	"sort"
 	"strconv"
 	"testing"
-
-	"gonum.org/v1/gonum/mat"
 )
 
 // nitrogenData reads testdata/response/nitrogen-rates.csv: per rate the
@@ -99,9 +97,9 @@ func TestPolynomialTrendAgainstR(t *testing.T) {
 	// Reference: R 4.2.2 aov with contr.poly(scores = rates)
 	// (testdata/response/nitrogen-rates.expected.json).
 	rates, means, reps, mse, dfe := nitrogenData(t)
-	cov := mat.NewSymDense(len(rates), nil)
+	cov := make([]float64, len(rates)*len(rates))
 	for i := range rates {
-		cov.SetSym(i, i, 1/float64(reps))
+		cov[i*len(rates)+i] = 1 / float64(reps)
 	}
 	got, err := PolynomialTrend(means, cov, rates, mse, dfe)
 	if err != nil {
@@ -128,9 +126,9 @@ func TestPolynomialTrendUnequalSpacingAddsUp(t *testing.T) {
 	rates := []float64{0, 30, 60, 120, 240, 250}
 	means := []float64{3.1, 4.6, 5.2, 6.4, 6.1, 6.3}
 	const r = 3
-	cov := mat.NewSymDense(len(rates), nil)
+	cov := make([]float64, len(rates)*len(rates))
 	for i := range rates {
-		cov.SetSym(i, i, 1.0/r)
+		cov[i*len(rates)+i] = 1.0 / r
 	}
 	lines, err := PolynomialTrend(means, cov, rates, 0.2, 15)
 	if err != nil {

@@ -12,8 +12,6 @@ import (
 	"strconv"
 	"strings"
 
-	"gonum.org/v1/gonum/mat"
-
 	"furlong/stats"
 	"furlong/trial/analysis"
 	"furlong/trial/trialfile"
@@ -380,7 +378,7 @@ func fillResponse(r *responseJSON, s responseSeries, ratio float64) {
 // meansCovariance returns the covariance of the series' means divided by
 // the error variance, from the analysis' standard errors: Var(m_i) = SE_i²
 // and Cov(m_i, m_j) = (SE_i² + SE_j² − SED_ij²)/2.
-func meansCovariance(res *analysis.Result, s responseSeries, order []int) (*mat.SymDense, error) {
+func meansCovariance(res *analysis.Result, s responseSeries, order []int) ([]float64, error) {
 	a := res.ANOVA
 	if a == nil || !(a.MSE > 0) {
 		return nil, errors.New("The trends need an error mean square, and this analysis has none.")
@@ -391,17 +389,18 @@ func meansCovariance(res *analysis.Result, s responseSeries, order []int) (*mat.
 		sed[[2]string{p.B, p.A}] = p.SE
 	}
 	n := len(order)
-	cov := mat.NewSymDense(n, nil)
+	cov := make([]float64, n*n)
 	for a1, i := range order {
 		mi := res.Means[s.idx[i]]
-		cov.SetSym(a1, a1, mi.SE*mi.SE/a.MSE)
+		cov[a1*n+a1] = mi.SE * mi.SE / a.MSE
 		for b1 := a1 + 1; b1 < n; b1++ {
 			mj := res.Means[s.idx[order[b1]]]
 			d, ok := sed[[2]string{mi.Treatment, mj.Treatment}]
 			if !ok {
 				return nil, fmt.Errorf("The analysis has no comparison of %s and %s, so the trends cannot be computed.", mi.Treatment, mj.Treatment)
 			}
-			cov.SetSym(a1, b1, (mi.SE*mi.SE+mj.SE*mj.SE-d*d)/(2*a.MSE))
+			v := (mi.SE*mi.SE + mj.SE*mj.SE - d*d) / (2 * a.MSE)
+			cov[a1*n+b1], cov[b1*n+a1] = v, v
 		}
 	}
 	return cov, nil
