@@ -4,6 +4,7 @@ import (
 	"bufio"
 	"bytes"
 	"context"
+	"errors"
 	"flag"
 	"fmt"
 	"os"
@@ -164,52 +165,81 @@ type importOptions struct {
 	overwrite, dryRun bool
 }
 
-// runImport reads the values of the field book o.book into the trial o.trial.
+// runImport reads the values of the field book o.book into the trial
+// o.trial. The read-modify-write of the trial holds the trial file's
+// exclusive lock (trialfile.Update), so two imports at once, or an import
+// and a save in the window, never lose each other's values. A trial open
+// in a window is named on stderr, and the import goes ahead.
 func runImport(ctx context.Context, o importOptions) error {
 	env, trialPath, bookPath, overwrite, dry := o.env, o.trial, o.book, o.overwrite, o.dryRun
-	t, err := trialfile.Load(trialPath)
-	if err != nil {
+	if _, err := os.Stat(trialPath); err != nil {
 		return err
 	}
 	rows, err := readBook(bookPath)
 	if err != nil {
 		return err
 	}
-	plan, err := fieldbook.Plan(t, rows)
-	if err != nil {
-		return fmt.Errorf("%s: %w", bookPath, err)
-	}
-	if err := plan.WriteReport(env.Stdout, overwrite); err != nil {
-		return err
-	}
-	if plan.HasErrors(overwrite) {
-		msg := "nothing was imported: fix the errors listed above and run the import again"
-		if len(plan.Errors()) == 0 {
-			msg = "nothing was imported: some cells would replace different values already in the trial; check them, then run again with --overwrite to replace them"
+	warnOpen(env, trialPath)
+	var n int
+	err = trialfile.Update(ctx, trialPath, func(t *trial.Trial) error {
+		plan, err := fieldbook.Plan(t, rows)
+		if err != nil {
+			return fmt.Errorf("%s: %w", bookPath, err)
 		}
-		return &ExitError{Code: ExitFailure, Msg: msg}
-	}
-	if dry {
+		if err := plan.WriteReport(env.Stdout, overwrite); err != nil {
+			return err
+		}
+		if plan.HasErrors(overwrite) {
+			msg := "nothing was imported: fix the errors listed above and run the import again"
+			if len(plan.Errors()) == 0 {
+				msg = "nothing was imported: some cells would replace different values already in the trial; check them, then run again with --overwrite to replace them"
+			}
+			return &ExitError{Code: ExitFailure, Msg: msg}
+		}
+		if dry {
+			return errLeaveAsIs
+		}
+		if err := ctx.Err(); err != nil {
+			return err
+		}
+		n, err = plan.Apply(t, overwrite)
+		if err != nil {
+			return err
+		}
+		if n == 0 {
+			return errLeaveAsIs
+		}
+		touch(t)
+		return nil
+	})
+	switch {
+	case errors.Is(err, errLeaveAsIs) && dry:
 		fmt.Fprintln(env.Stdout, "dry run: the trial was not changed")
 		return nil
-	}
-	if err := ctx.Err(); err != nil {
-		return err
-	}
-	n, err := plan.Apply(t, overwrite)
-	if err != nil {
-		return err
-	}
-	if n == 0 {
+	case errors.Is(err, errLeaveAsIs):
 		fmt.Fprintln(env.Stdout, "no values changed; the trial file was left as it was")
 		return nil
-	}
-	touch(t)
-	if err := trialfile.Save(trialPath, t); err != nil {
+	case err != nil:
 		return err
 	}
 	fmt.Fprintf(env.Stdout, "imported %d values into %s (the previous file is kept as %s.bak)\n", n, trialPath, trialPath)
 	return nil
+}
+
+// errLeaveAsIs ends a trialfile.Update without saving.
+var errLeaveAsIs = errors.New("nothing to save")
+
+// warnOpen says on stderr when a Furlong window has the trial open.
+func warnOpen(env Env, path string) {
+	p, err := trialfile.ReadPresence(path)
+	if err != nil || p == nil || p.Mine {
+		return
+	}
+	if p.Stale {
+		fmt.Fprintf(env.Stderr, "note: %s was marked as open in a Furlong window by %s; that window seems to be gone, so the mark is ignored\n", path, p)
+		return
+	}
+	fmt.Fprintf(env.Stderr, "warning: %s is open in a Furlong window (%s). The import goes ahead and saves the file; that window finds the new values when it saves or reloads the trial\n", path, p)
 }
 
 func touch(t *trial.Trial) { t.Modified = nowFunc() }
