@@ -23,16 +23,16 @@ type ANOVA struct {
 
 	Means []LevelMean // one per treatment level, in level order
 	// SEMean and SED are the standard error of a treatment mean and of a
-	// difference of two means for balanced data (0 when unbalanced: use
-	// PairSE).
-	SEMean float64
-	SED    float64
+	// difference of two means for balanced data; nil when unbalanced (each
+	// mean has its own SE, each pair its PairSE).
+	SEMean *float64
+	SED    *float64
 	// RelativeEfficiency of the blocking against a completely randomised
 	// design (Gomez & Gomez 1984, section 2.2.3), with that section's
-	// adjustment when the error df are below 20; 0 when not applicable
+	// adjustment when the error df are below 20; nil when it does not apply
 	// (only an RCBD has one; with missing plots it uses the adjusted block
 	// mean square and is approximate).
-	RelativeEfficiency float64
+	RelativeEfficiency *float64
 
 	Fitted    []float64 // per observation, in input order
 	Residuals []float64

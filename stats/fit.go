@@ -568,11 +568,12 @@ func assemble(r *fitResult, trt factorInfo, nuis []factorInfo, n, dfe int, gm, s
 	}
 	if balanced {
 		reps := float64(n) / float64(k)
-		a.SEMean = math.Sqrt(mse / reps)
-		a.SED = math.Sqrt(2 * mse / reps)
+		se, sed := math.Sqrt(mse/reps), math.Sqrt(2*mse/reps)
+		a.SEMean, a.SED = &se, &sed
 	}
 	if blk, ok := src.Line(RoleBlock); ok && len(nuis) == 1 && mse > 0 {
-		a.RelativeEfficiency = relativeEfficiency(blk.MS, mse, nuis[0].levels, k, a.DFError)
+		re := relativeEfficiency(blk.MS, mse, nuis[0].levels, k, a.DFError)
+		a.RelativeEfficiency = &re
 	}
 	counts := trt.counts
 	a.pairSE = func(i, j int) float64 {

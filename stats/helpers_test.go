@@ -133,8 +133,8 @@ func checkFinite(t *testing.T, a *ANOVA) {
 			t.Errorf("non-finite value in line %+v", s)
 		}
 	}
-	for _, v := range []float64{a.GrandMean, a.MSE, a.CVPercent, a.RSquared, a.SEMean, a.SED, a.RelativeEfficiency} {
-		if bad(v) {
+	for _, p := range []*float64{&a.GrandMean, &a.MSE, &a.CVPercent, &a.RSquared, a.SEMean, a.SED, a.RelativeEfficiency} {
+		if p != nil && bad(*p) {
 			t.Errorf("non-finite summary value in %+v", a)
 		}
 	}
@@ -148,4 +148,14 @@ func checkFinite(t *testing.T, a *ANOVA) {
 			t.Errorf("non-finite fitted/residual/leverage at %d", i)
 		}
 	}
+}
+
+// present returns *p, failing the test when the value is absent.
+func present(t *testing.T, what string, p *float64) float64 {
+	t.Helper()
+	if p == nil {
+		t.Errorf("%s is absent, want a value", what)
+		return math.NaN()
+	}
+	return *p
 }

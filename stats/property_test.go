@@ -241,8 +241,8 @@ func TestOneWayUnequalReplication(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if a.Balanced || a.Adjusted || a.SEMean != 0 || a.SED != 0 {
-		t.Errorf("Balanced %v Adjusted %v SEMean %g SED %g", a.Balanced, a.Adjusted, a.SEMean, a.SED)
+	if a.Balanced || a.Adjusted || a.SEMean != nil || a.SED != nil {
+		t.Errorf("Balanced %v Adjusted %v SEMean %v SED %v", a.Balanced, a.Adjusted, a.SEMean, a.SED)
 	}
 	sse, hat, ls, cov := denseRef(t, m)
 	checkRel(t, "SSE", a.MSE*float64(a.DFError), sse, 1e-12)

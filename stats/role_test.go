@@ -61,8 +61,8 @@ func TestFitRoles(t *testing.T) {
 			t.Errorf("line %d (%s) role %v, want %v", i, a.Sources[i].Name, a.Sources[i].Role, r)
 		}
 	}
-	if a.RelativeEfficiency != 0 {
-		t.Errorf("relative efficiency %g without a block line", a.RelativeEfficiency)
+	if a.RelativeEfficiency != nil {
+		t.Errorf("relative efficiency %g without a block line", *a.RelativeEfficiency)
 	}
 	m.Nuisance[0].Role = RoleNone
 	if a, err = Fit(m); err != nil {

@@ -307,8 +307,8 @@ func (c *compareStep) showResult(r *analysis.Result) {
 			add(level, "differs by pair (unequal plots)")
 		}
 		add("R²", fixed(a.RSquared, 3))
-		if a.RelativeEfficiency > 0 {
-			re := fixed(a.RelativeEfficiency, 2)
+		if a.RelativeEfficiency != nil {
+			re := fixed(*a.RelativeEfficiency, 2)
 			if !a.Balanced {
 				re += " (approximate: missing plots)"
 			}

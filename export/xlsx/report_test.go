@@ -194,8 +194,8 @@ func TestReportTraitSheet(t *testing.T) {
 	}{
 		{"Grand mean", r.ANOVA.GrandMean, exp.GrandMean}, {"CV%", r.ANOVA.CVPercent, exp.CV},
 		{"R²", r.ANOVA.RSquared, 1 - exp.ANOVA[len(exp.ANOVA)-1].SS/exp.TotalSS},
-		{"SE of a mean", r.ANOVA.SEMean, exp.Means[0].SE}, {"SED", r.ANOVA.SED, 0}, {"HSD (0.05)", *r.HSD, exp.HSD},
-		{"Relative efficiency of blocking", r.ANOVA.RelativeEfficiency, exp.RE},
+		{"SE of a mean", deref(r.ANOVA.SEMean), exp.Means[0].SE}, {"SED", deref(r.ANOVA.SED), 0}, {"HSD (0.05)", *r.HSD, exp.HSD},
+		{"Relative efficiency of blocking", deref(r.ANOVA.RelativeEfficiency), exp.RE},
 	} {
 		row := findRow(t, f, sh, 1, want.label)
 		if row == 0 {

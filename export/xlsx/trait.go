@@ -148,13 +148,13 @@ func (r *report) writeTrait(name string, tr trial.Trait) error {
 		stat("Grand mean", an.GrandMean, true, numStyle(meanDec), "")
 		stat("CV%", an.CVPercent, true, numStyle(1), "")
 		stat("R²", an.RSquared, true, numStyle(3), "")
-		stat("SE of a mean", an.SEMean, an.SEMean > 0, numStyle(meanDec+1), "unequal n: see the SE of each mean")
-		stat("SED", an.SED, an.SED > 0, numStyle(meanDec+1), "unequal n: each pair has its own SED")
+		stat("SE of a mean", deref(an.SEMean), an.SEMean != nil, numStyle(meanDec+1), "unequal n: see the SE of each mean")
+		stat("SED", deref(an.SED), an.SED != nil, numStyle(meanDec+1), "unequal n: each pair has its own SED")
 	}
 	msd := export.MSD(a, r.opts.Method)
 	stat(export.MSDLabel(r.opts.Method, r.opts.Alpha), deref(msd), msd != nil, numStyle(meanDec+1), "unequal n: no single value; each pair of means has its own")
 	if a.ANOVA != nil {
-		stat("Relative efficiency of blocking", a.ANOVA.RelativeEfficiency, a.ANOVA.RelativeEfficiency > 0, numStyle(2), "not applicable")
+		stat("Relative efficiency of blocking", deref(a.ANOVA.RelativeEfficiency), a.ANOVA.RelativeEfficiency != nil, numStyle(2), "not applicable")
 	}
 	row++
 

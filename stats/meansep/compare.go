@@ -54,12 +54,12 @@ type Result struct {
 
 	// EqualSE is true when every pair has the same standard error (to a
 	// relative 1e-9), as in a balanced trial. Only then are SED, LSD and
-	// HSD single numbers; otherwise they are 0 and the per-pair tests
-	// apply.
+	// HSD single numbers; otherwise they are nil (absent) and the per-pair
+	// tests apply.
 	EqualSE bool
-	SED     float64 // common standard error of a difference
-	LSD     float64 // TCrit·SED: least significant difference
-	HSD     float64 // QCrit·SED/√2: Tukey's honestly significant difference
+	SED     *float64 // common standard error of a difference
+	LSD     *float64 // TCrit·SED: least significant difference
+	HSD     *float64 // QCrit·SED/√2: Tukey's honestly significant difference
 }
 
 // pairIndex is the position of pair i < j of k in Result.Pairs.
@@ -153,9 +153,8 @@ func Compare(means []float64, se PairSEer, df int, alpha float64) (*Result, erro
 		p.PTukey = srange.survival(math.Abs(p.T) * math.Sqrt2)
 	}
 	if r.EqualSE {
-		r.SED = se0
-		r.LSD = r.TCrit * se0
-		r.HSD = r.QCrit * se0 / math.Sqrt2
+		sed, lsd, hsd := se0, r.TCrit*se0, r.QCrit*se0/math.Sqrt2
+		r.SED, r.LSD, r.HSD = &sed, &lsd, &hsd
 	}
 	return r, nil
 }

@@ -194,13 +194,16 @@ func TestCompareFixtures(t *testing.T) {
 			t.Errorf("%s: EqualSE = %v, want %v", name, r.EqualSE, balanced)
 		}
 		if balanced {
-			if e := relErr(r.HSD, *l.fx.HSD); e > 1e-9 {
-				t.Errorf("%s: HSD %.15g, scipy-based %.15g", name, r.HSD, *l.fx.HSD)
+			if r.HSD == nil || r.LSD == nil || r.SED == nil {
+				t.Fatalf("%s: balanced but HSD %v LSD %v SED %v", name, r.HSD, r.LSD, r.SED)
 			}
-			if e := relErr(r.LSD, *l.fx.LSD); e > 1e-9 {
-				t.Errorf("%s: LSD %.15g, R %.15g", name, r.LSD, *l.fx.LSD)
+			if e := relErr(*r.HSD, *l.fx.HSD); e > 1e-9 {
+				t.Errorf("%s: HSD %.15g, scipy-based %.15g", name, *r.HSD, *l.fx.HSD)
 			}
-		} else if r.HSD != 0 || r.LSD != 0 || r.SED != 0 {
+			if e := relErr(*r.LSD, *l.fx.LSD); e > 1e-9 {
+				t.Errorf("%s: LSD %.15g, R %.15g", name, *r.LSD, *l.fx.LSD)
+			}
+		} else if r.HSD != nil || r.LSD != nil || r.SED != nil {
 			t.Errorf("%s: unbalanced but HSD %v LSD %v SED %v", name, r.HSD, r.LSD, r.SED)
 		}
 	}

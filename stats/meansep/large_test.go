@@ -66,7 +66,7 @@ func TestCompareLarge(t *testing.T) {
 		if math.Abs(r.QCrit-want) > 5.1e-5 {
 			t.Errorf("k %d df %d alpha %s: q = %.6f, table %.4f", c.k, c.df, c.alpha, r.QCrit, want)
 		}
-		if !r.EqualSE || math.Abs(r.HSD-r.QCrit*0.8/math.Sqrt2) > 1e-12 || math.Abs(r.SED-0.8) > 0 {
+		if !r.EqualSE || r.HSD == nil || r.SED == nil || math.Abs(*r.HSD-r.QCrit*0.8/math.Sqrt2) > 1e-12 || math.Abs(*r.SED-0.8) > 0 {
 			t.Errorf("HSD %v SED %v EqualSE %v", r.HSD, r.SED, r.EqualSE)
 		}
 		td := distuv.StudentsT{Mu: 0, Sigma: 1, Nu: float64(c.df)}
@@ -101,7 +101,7 @@ func TestEqualSE(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if r.EqualSE != c.want || (r.HSD > 0) != c.want || (r.LSD > 0) != c.want {
+		if r.EqualSE != c.want || (r.HSD != nil) != c.want || (r.LSD != nil) != c.want {
 			t.Errorf("eps %v: EqualSE %v HSD %v LSD %v", c.eps, r.EqualSE, r.HSD, r.LSD)
 		}
 	}

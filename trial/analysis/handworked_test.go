@@ -109,9 +109,9 @@ func TestHandWorkedRCBD(t *testing.T) {
 	check("MSE", a.MSE, 10.0/6, tol)
 	check("CV%", a.CVPercent, 100*math.Sqrt(10.0/6)/15, tol)
 	check("R²", a.RSquared, 1-10.0/132, tol)
-	check("SE of a mean", a.SEMean, math.Sqrt(10.0/6/3), tol)
-	check("SED", a.SED, math.Sqrt(2*10.0/6/3), tol)
-	check("relative efficiency", a.RelativeEfficiency, (2*16+9*(10.0/6))/(11*(10.0/6))*77/81, tol)
+	check("SE of a mean", deref(t, a.SEMean), math.Sqrt(10.0/6/3), tol)
+	check("SED", deref(t, a.SED), math.Sqrt(2*10.0/6/3), tol)
+	check("relative efficiency", deref(t, a.RelativeEfficiency), (2*16+9*(10.0/6))/(11*(10.0/6))*77/81, tol)
 	if r.LSD == nil || r.HSD == nil {
 		t.Fatal("balanced data: LSD and HSD must be given")
 	}
@@ -138,4 +138,13 @@ func TestHandWorkedRCBD(t *testing.T) {
 			check("A−B p (LSD)", p.PLSD, 0.009023238111319360, 1e-9)
 		}
 	}
+}
+
+// deref returns *p, failing the test when the value is absent.
+func deref(t *testing.T, p *float64) float64 {
+	t.Helper()
+	if p == nil {
+		t.Fatal("value absent, want one")
+	}
+	return *p
 }

@@ -13,7 +13,7 @@ func separate(r *Result, a *stats.ANOVA, lsm []float64, o Options) error {
 		return err
 	}
 	if cmp.EqualSE {
-		r.LSD, r.HSD = ptr(cmp.LSD), ptr(cmp.HSD)
+		r.LSD, r.HSD = cmp.LSD, cmp.HSD
 	}
 	r.Pairs = make([]Pair, len(cmp.Pairs))
 	for n, p := range cmp.Pairs {

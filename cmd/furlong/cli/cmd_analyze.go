@@ -317,9 +317,7 @@ func toJSON(oc analysis.Outcome) jsonTrait {
 	jt.GrandMean, jt.MSE, jt.CVPercent, jt.RSquared = fp(a.GrandMean), fp(a.MSE), fp(a.CVPercent), fp(a.RSquared)
 	df := a.DFError
 	jt.DFError = &df
-	if a.RelativeEfficiency > 0 {
-		jt.RelEff = fp(a.RelativeEfficiency)
-	}
+	jt.RelEff = a.RelativeEfficiency
 	for _, m := range r.Means {
 		jm := jsonMean{Treatment: m.Treatment, N: m.N, Mean: m.Mean, RawMean: m.RawMean, SE: m.SE, LettersTukey: m.LettersTukey}
 		if r.LSDLettersGiven {
@@ -468,8 +466,8 @@ func writeResultTables(w io.Writer, r *analysis.Result) {
 	fmt.Fprintf(w, "Grand mean %s   CV %.1f%%   R² %.3f   error df %d   MSE %s\n",
 		num(a.GrandMean, dec), a.CVPercent, a.RSquared, a.DFError, num(a.MSE, 4))
 	var line []string
-	if a.Balanced && a.SEMean > 0 {
-		line = append(line, "SE of a mean "+num(a.SEMean, dec), "SED "+num(a.SED, dec))
+	if a.SEMean != nil && a.SED != nil {
+		line = append(line, "SE of a mean "+num(*a.SEMean, dec), "SED "+num(*a.SED, dec))
 	}
 	if r.LSD != nil {
 		line = append(line, fmt.Sprintf("LSD(%g) %s", r.Alpha, num(*r.LSD, dec)))
@@ -480,8 +478,8 @@ func writeResultTables(w io.Writer, r *analysis.Result) {
 	if r.LSD == nil && r.HSD == nil {
 		line = append(line, "replication is unequal: each pair has its own standard error")
 	}
-	if a.RelativeEfficiency > 0 {
-		line = append(line, fmt.Sprintf("blocking efficiency vs CRD %.2f", a.RelativeEfficiency))
+	if a.RelativeEfficiency != nil {
+		line = append(line, fmt.Sprintf("blocking efficiency vs CRD %.2f", *a.RelativeEfficiency))
 	}
 	fmt.Fprintln(w, strings.Join(line, "   "))
 	fmt.Fprintln(w)
