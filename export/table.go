@@ -244,15 +244,6 @@ func NewSummary(t *trial.Trial, results []analysis.Outcome, keys []string, metho
 
 func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
 
-// PText writes a p-value for prose: "<0.001" below 0.001, else three
-// decimals.
-func PText(p float64) string {
-	if p < 0.001 {
-		return "<0.001"
-	}
-	return strconv.FormatFloat(p, 'f', 3, 64)
-}
-
 // DiagnosticAlpha is the level at which the model checks are read. The 5%
 // level is the usual convention for assumption tests (common practice).
 const DiagnosticAlpha = 0.05
@@ -265,7 +256,7 @@ func Diagnostics(r *analysis.Result) []string {
 	d := r.Diagnostics
 	var out []string
 	if d.ShapiroW != nil && d.ShapiroP != nil {
-		s := fmt.Sprintf("Normality of residuals (Shapiro–Wilk): W = %.3f, p = %s: ", *d.ShapiroW, PText(*d.ShapiroP))
+		s := fmt.Sprintf("Normality of residuals (Shapiro–Wilk): W = %.3f, p = %s: ", *d.ShapiroW, stats.FormatP(*d.ShapiroP))
 		if *d.ShapiroP < DiagnosticAlpha {
 			s += "the residuals depart from a normal distribution; look for outliers or consider a transformation."
 		} else {
@@ -277,7 +268,7 @@ func Diagnostics(r *analysis.Result) []string {
 		if v == nil || p == nil {
 			return
 		}
-		s := fmt.Sprintf("Equal variances among treatments (%s): %s = %.3f, p = %s: ", test, stat, *v, PText(*p))
+		s := fmt.Sprintf("Equal variances among treatments (%s): %s = %.3f, p = %s: ", test, stat, *v, stats.FormatP(*p))
 		if *p < DiagnosticAlpha {
 			s += "the spread differs between treatments; means of the more variable treatments are less certain."
 		} else {
@@ -288,7 +279,7 @@ func Diagnostics(r *analysis.Result) []string {
 	variance("Levene, median-centred", "F", d.LeveneF, d.LeveneP)
 	variance("Bartlett", "K²", d.BartlettK2, d.BartlettP)
 	if d.NonAdditivityF != nil && d.NonAdditivityP != nil {
-		s := fmt.Sprintf("Additivity of blocks and treatments (Tukey's one-degree-of-freedom test): F = %.3f, p = %s: ", *d.NonAdditivityF, PText(*d.NonAdditivityP))
+		s := fmt.Sprintf("Additivity of blocks and treatments (Tukey's one-degree-of-freedom test): F = %.3f, p = %s: ", *d.NonAdditivityF, stats.FormatP(*d.NonAdditivityP))
 		if *d.NonAdditivityP < DiagnosticAlpha {
 			s += "treatment differences change from block to block; a log transformation may help."
 		} else {

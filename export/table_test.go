@@ -101,18 +101,10 @@ func TestDiagnosticsWords(t *testing.T) {
 	}
 }
 
-// TestPTextAndExclusions: p values are shown to three decimals and those
-// below 0.001 as "<0.001" (common practice in trial reports).
-func TestPTextAndExclusions(t *testing.T) {
+// TestExclusionReason: the reasons of a plot's exclusions that apply to a
+// trait, joined.
+func TestExclusionReason(t *testing.T) {
 	t.Parallel()
-	for _, c := range []struct {
-		p    float64
-		want string
-	}{{0.0004, "<0.001"}, {0.001, "0.001"}, {0.04999, "0.050"}, {1, "1.000"}} {
-		if got := PText(c.p); got != c.want {
-			t.Errorf("PText(%v) = %q, want %q", c.p, got, c.want)
-		}
-	}
 	p := trial.Plot{Exclusions: []trial.Exclusion{{Reason: "hail"}, {Trait: "ht", Reason: "lodged"}, {Trait: "yield"}}}
 	if got := ExclusionReason(p, "ht"); got != "hail; lodged" {
 		t.Errorf("ExclusionReason = %q", got)

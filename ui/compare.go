@@ -286,7 +286,7 @@ func (c *compareStep) showResult(r *analysis.Result) {
 				ms = num(src.MS, 5)
 			}
 			if src.HasTest {
-				f, p = fixed(src.F, 2), pValue(src.P)
+				f, p = fixed(src.F, 2), stats.FormatP(src.P)
 			}
 			c.anova.Add(cell(ms, false))
 			c.anova.Add(cell(f, false))
@@ -534,7 +534,7 @@ func summaryTable(s *resultSet, method analysis.Method) (head []string, rows [][
 		if !st.HasP {
 			return "–"
 		}
-		return pValue(st.P)
+		return stats.FormatP(st.P)
 	})
 	for _, st := range sum.Traits {
 		if st.Result == nil && st.Reason != "" {

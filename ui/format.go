@@ -33,17 +33,6 @@ func fixed(v float64, dec int) string {
 	return strconv.FormatFloat(v, 'f', max(dec, 0), 64)
 }
 
-// pValue formats a probability the usual way: "<0.001" below a thousandth.
-func pValue(p float64) string {
-	switch {
-	case math.IsNaN(p) || math.IsInf(p, 0):
-		return "–"
-	case p < 0.001:
-		return "<0.001"
-	}
-	return strconv.FormatFloat(p, 'f', 3, 64)
-}
-
 // optNum formats an optional statistic.
 func optNum(p *float64, dec int) string {
 	if p == nil {

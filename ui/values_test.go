@@ -4,6 +4,8 @@ import (
 	"errors"
 	"math"
 	"testing"
+
+	"furlong/stats"
 )
 
 func TestParseValue(t *testing.T) {
@@ -58,13 +60,13 @@ func TestParseTreatmentList(t *testing.T) {
 func TestFormat(t *testing.T) {
 	t.Parallel()
 	// No NaN may reach a result table (project rule).
-	for _, s := range []string{num(math.NaN(), 4), fixed(math.Inf(1), 2), pValue(math.NaN()), optNum(nil, 2)} {
+	for _, s := range []string{num(math.NaN(), 4), fixed(math.Inf(1), 2), stats.FormatP(math.NaN()), optNum(nil, 2)} {
 		if s != "–" {
 			t.Errorf("non-finite shown as %q", s)
 		}
 	}
 	// Conventional reporting of p below 0.001 (common practice).
-	if pValue(0.0004) != "<0.001" || pValue(0.0234) != "0.023" {
+	if stats.FormatP(0.0004) != "<0.001" || stats.FormatP(0.0234) != "0.023" {
 		t.Error("p formatting")
 	}
 	if num(8.78751, 5) != "8.7875" || num(14.3083, 5) != "14.308" || num(0.976389, 5) != "0.97639" {

@@ -8,14 +8,16 @@ import (
 	"unicode"
 
 	"github.com/xuri/excelize/v2"
+
+	"furlong/stats"
 )
 
-// Number formats. PFormat shows p-values below 0.001 as "<0.001" and the
-// others with three decimals; the value in the cell stays the exact p.
-const (
-	PFormat       = `[<0.001]"<0.001";0.000`
-	percentFormat = "0.0"
-)
+// PFormat is the number format of a p-value cell: below stats.PFloor it
+// shows "<0.001", otherwise stats.PDecimals decimals, as stats.FormatP
+// writes text; the value in the cell stays the exact p.
+var PFormat = `[<` + stats.PFloorText + `]"<` + stats.PFloorText + `";0.` + strings.Repeat("0", stats.PDecimals)
+
+const percentFormat = "0.0"
 
 // DecimalsFormat returns the number format showing d decimals ("0", "0.0",
 // "0.00", ...). Negative d counts as 0.

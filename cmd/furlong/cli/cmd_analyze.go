@@ -385,14 +385,6 @@ func writeAnalysisCSV(w io.Writer, outcomes []analysis.Outcome) error {
 	return cw.Error()
 }
 
-// FormatP prints a p-value for people: "<0.001" below a thousandth.
-func FormatP(p float64) string {
-	if p < 0.001 {
-		return "<0.001"
-	}
-	return strconv.FormatFloat(p, 'f', 3, 64)
-}
-
 func writeAnalysisText(w io.Writer, outcomes []analysis.Outcome) error {
 	for n, oc := range outcomes {
 		if n > 0 {
@@ -457,7 +449,7 @@ func writeResultTables(w io.Writer, r *analysis.Result) {
 			ms = num(s.MS, 4)
 		}
 		if s.HasTest {
-			f, p = num(s.F, 2), FormatP(s.P)
+			f, p = num(s.F, 2), stats.FormatP(s.P)
 		}
 		fmt.Fprintf(tw, "%s\t%d\t%s\t%s\t%s\t%s\t\n", s.Name, s.DF, num(s.SS, 4), ms, f, p)
 	}
@@ -512,16 +504,16 @@ func writeResultTables(w io.Writer, r *analysis.Result) {
 	if d := r.Diagnostics; d.ShapiroW != nil || d.LeveneF != nil || d.NonAdditivityF != nil {
 		var parts []string
 		if d.ShapiroW != nil {
-			parts = append(parts, fmt.Sprintf("Shapiro–Wilk W %.4f, p %s", *d.ShapiroW, FormatP(*d.ShapiroP)))
+			parts = append(parts, fmt.Sprintf("Shapiro–Wilk W %.4f, p %s", *d.ShapiroW, stats.FormatP(*d.ShapiroP)))
 		}
 		if d.LeveneF != nil {
-			parts = append(parts, fmt.Sprintf("Levene (median) F %.3f, p %s", *d.LeveneF, FormatP(*d.LeveneP)))
+			parts = append(parts, fmt.Sprintf("Levene (median) F %.3f, p %s", *d.LeveneF, stats.FormatP(*d.LeveneP)))
 		}
 		if d.BartlettK2 != nil {
-			parts = append(parts, fmt.Sprintf("Bartlett K² %.3f, p %s", *d.BartlettK2, FormatP(*d.BartlettP)))
+			parts = append(parts, fmt.Sprintf("Bartlett K² %.3f, p %s", *d.BartlettK2, stats.FormatP(*d.BartlettP)))
 		}
 		if d.NonAdditivityF != nil {
-			parts = append(parts, fmt.Sprintf("non-additivity F %.3f, p %s", *d.NonAdditivityF, FormatP(*d.NonAdditivityP)))
+			parts = append(parts, fmt.Sprintf("non-additivity F %.3f, p %s", *d.NonAdditivityF, stats.FormatP(*d.NonAdditivityP)))
 		}
 		fmt.Fprintf(w, "Diagnostics: %s\n", strings.Join(parts, "; "))
 	}
