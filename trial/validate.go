@@ -155,17 +155,13 @@ func (p *problems) checkTreatments(ts []Treatment) {
 	}
 }
 
-// designName is the plain name of a design kind.
+// designName is the name of a design kind in running text, with its
+// article ("a Latin square").
 func designName(k DesignKind) string {
-	switch k {
-	case CRD:
-		return "a completely randomised design"
-	case RCBD:
-		return "a randomised complete block design"
-	case Latin:
-		return "a Latin square"
+	if !k.Known() {
+		return k.Name()
 	}
-	return fmt.Sprintf("design %q", string(k))
+	return "a " + k.Name()
 }
 
 func (p *problems) checkDesign(ts []Treatment, d Design) {

@@ -129,7 +129,7 @@ func newCompareStep(u *App) *compareStep {
 
 	controls := container.NewHBox(widget.NewLabel("Trait"), container.NewGridWrap(fyne.NewSize(300, c.traitSel.MinSize().Height), c.traitSel), widget.NewSeparator(), c.methodSel,
 		widget.NewSeparator(), widget.NewLabel("Significance level"), c.alphaSel, c.state)
-	caution := widget.NewLabel(cautionShort)
+	caution := widget.NewLabel(export.CautionShort)
 	caution.Importance = widget.WarningImportance
 	caution.Truncation = fyne.TextTruncateEllipsis
 

@@ -10,6 +10,7 @@ import (
 	"fyne.io/fyne/v2/driver/desktop"
 	"fyne.io/fyne/v2/widget"
 
+	"furlong/export"
 	"furlong/trial/analysis"
 )
 
@@ -146,24 +147,13 @@ func (u *App) closeTrial() {
 	u.askUnsaved("Close", back)
 }
 
-// cautionText is shown in the About and Cautions dialogs and, shortened,
-// in the Compare and Report steps.
-const cautionText = "The results of one site in one season are not a recommendation. " +
-	"Treatments that differ here may rank differently at other sites or in other years; " +
-	"base decisions on trials repeated over sites and seasons. " +
-	"For crop-protection products, follow the product label and local regulations, " +
-	"and seek advice from a licensed adviser."
-
-// cautionShort is the one-line caution in the Compare and Report steps.
-const cautionShort = "One site-year is not a recommendation · follow product labels and local rules · seek licensed advice."
-
 func (u *App) showAbout() {
 	v := u.opts.Version
 	if v == "" {
 		v = "development build"
 	}
 	text := widget.NewLabel("Furlong " + v + "\n\nPlans replicated field trials (CRD, RCBD, Latin square), " +
-		"records plot data and compares treatments with the analysis of variance and LSD or Tukey letters.\n\n" + cautionText)
+		"records plot data and compares treatments with the analysis of variance and LSD or Tukey letters.\n\n" + export.CautionText())
 	text.Wrapping = fyne.TextWrapWord
 	d := dialog.NewCustom("About Furlong", "Close", text, u.win)
 	d.Resize(fyne.NewSize(520, 340))
@@ -172,7 +162,7 @@ func (u *App) showAbout() {
 }
 
 func (u *App) showCautions() {
-	text := widget.NewLabel(cautionText)
+	text := widget.NewLabel(export.CautionText())
 	text.Wrapping = fyne.TextWrapWord
 	d := dialog.NewCustom("Cautions", "Close", text, u.win)
 	d.Resize(fyne.NewSize(480, 240))

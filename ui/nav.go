@@ -85,24 +85,13 @@ func setupStatus(t *trial.Trial) string {
 	if len(t.Treatments) == 0 {
 		return "add treatments"
 	}
-	s := fmt.Sprintf("%d treatments · %s", len(t.Treatments), designShort(t.Design))
+	s := fmt.Sprintf("%d treatments · %s", len(t.Treatments), t.Design.Brief())
 	if len(t.Traits) == 0 {
 		s += " · no traits yet"
 	} else {
 		s += fmt.Sprintf(" · %d traits", len(t.Traits))
 	}
 	return s
-}
-
-func designShort(d trial.Design) string {
-	switch d.Kind {
-	case trial.CRD:
-		return fmt.Sprintf("CRD, %d reps", d.Reps)
-	case trial.Latin:
-		return "Latin square"
-	default:
-		return fmt.Sprintf("RCBD, %d blocks", d.Reps)
-	}
 }
 
 func fieldStatus(t *trial.Trial) string {

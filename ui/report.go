@@ -12,6 +12,7 @@ import (
 	"fyne.io/fyne/v2/theme"
 	"fyne.io/fyne/v2/widget"
 
+	"furlong/export"
 	"furlong/export/chart"
 	"furlong/export/xlsx"
 	"furlong/trial"
@@ -71,7 +72,7 @@ func newReportStep(u *App) *reportStep {
 	bookXLSX := widget.NewButtonWithIcon("Field book (xlsx)…", theme.DocumentSaveIcon(), u.exportFieldBookXLSX)
 	fmap := widget.NewButtonWithIcon("Field map (PDF/PNG)…", theme.DocumentSaveIcon(), u.exportMapDialog)
 	chartBtn := widget.NewButtonWithIcon("Chart of the Compare trait (PNG/SVG/PDF)…", theme.DocumentSaveIcon(), r.exportChart)
-	caution := widget.NewLabel(cautionShort)
+	caution := widget.NewLabel(export.CautionShort)
 	caution.Importance = widget.WarningImportance
 	caution.Wrapping = fyne.TextWrapWord
 	body := container.NewVBox(heading("Season report"), form, workbook, r.state,

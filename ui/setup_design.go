@@ -33,8 +33,16 @@ var designExplain = map[trial.DesignKind]string{
 	trial.Latin: "Latin square: each treatment once in every field row and every column. For gradients in two directions; needs as many replicates as treatments (4 to 8).",
 }
 
-var designLabels = []string{"Completely randomised (CRD)", "Randomised complete blocks (RCBD)", "Latin square"}
-var designKinds = []trial.DesignKind{trial.CRD, trial.RCBD, trial.Latin}
+// designKinds are the designs offered, labelled by designLabels.
+var designKinds = trial.DesignKinds()
+
+var designLabels = func() []string {
+	l := make([]string, len(designKinds))
+	for i, k := range designKinds {
+		l[i] = k.Title()
+	}
+	return l
+}()
 
 // newDesignTab builds the tab.
 func newDesignTab(u *App) *designTab {

@@ -293,8 +293,8 @@ func FieldMap(t *trial.Trial, opt FieldMapOptions) (*plot.Plot, error) {
 		title = t.Title
 	}
 	sub := "Field map"
-	if d := designName(t.Design.Kind); d != "" {
-		sub += ": " + d
+	if k := t.Design.Kind; k.Known() {
+		sub += ": " + k.Name()
 		if t.Design.Reps > 0 {
 			sub += fmt.Sprintf(", %d replicates", t.Design.Reps)
 		}
@@ -357,16 +357,4 @@ func treatmentSwatch(i int) swatch {
 	fill := OkabeIto[i%len(OkabeIto)]
 	pat := pattern((i / len(OkabeIto)) % int(nPatterns))
 	return swatch{Fill: fill, Pattern: pat, Ink: inkOn(fill)}
-}
-
-func designName(k trial.DesignKind) string {
-	switch k {
-	case trial.CRD:
-		return "completely randomised design"
-	case trial.RCBD:
-		return "randomised complete block design"
-	case trial.Latin:
-		return "Latin square"
-	}
-	return ""
 }

@@ -47,13 +47,6 @@ const (
 	FieldMapSheet = "Field map"
 )
 
-// Cautions printed on the cover of every report.
-var Cautions = []string{
-	"These results come from one site and one season; they are not a recommendation.",
-	"Follow the product label and local regulations for any crop-protection product.",
-	"Seek advice from a licensed adviser before acting on these results.",
-}
-
 type report struct {
 	f      *excelize.File
 	st     *styles
@@ -182,18 +175,6 @@ var pStyle = styleKey{numFmt: PFormat}
 // dash is shown where a value does not exist.
 const dash = "—"
 
-func designName(k trial.DesignKind) string {
-	switch k {
-	case trial.CRD:
-		return "Completely randomised design (CRD)"
-	case trial.RCBD:
-		return "Randomised complete block design (RCBD)"
-	case trial.Latin:
-		return "Latin square"
-	}
-	return string(k)
-}
-
 func metres(v float64) string { return strconv.FormatFloat(v, 'f', -1, 64) + " m" }
 
 func (r *report) writeCover(name string) error {
@@ -245,7 +226,7 @@ func (r *report) writeCover(name string) error {
 	line("Investigator", t.Investigator)
 	line("Objective", t.Objective)
 	row++
-	line("Design", designName(t.Design.Kind))
+	line("Design", t.Design.Kind.Title())
 	line("Replicates", t.Design.Reps)
 	line("Treatments", len(t.Treatments))
 	l := t.Layout
@@ -320,7 +301,7 @@ func (r *report) writeCover(name string) error {
 	row++
 	s.textNoWidth(1, row, "Cautions", sectionStyle)
 	row++
-	for _, c := range Cautions {
+	for _, c := range export.Cautions {
 		s.textNoWidth(1, row, c, proseStyle)
 		row++
 	}

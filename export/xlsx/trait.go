@@ -44,7 +44,7 @@ func (r *report) writeTrait(name string, tr trial.Trait) error {
 	a := res.Result
 	dec := tr.Decimals
 	s.textNoWidth(1, 2, fmt.Sprintf("%s; key %q; %d plots analysed, %d missing, %d excluded.",
-		designName(a.Design), tr.Key, a.N, a.Missing, len(a.Excluded)), noteStyle)
+		a.Design.Title(), tr.Key, a.N, a.Missing, len(a.Excluded)), noteStyle)
 	row := 3
 	if a.Transform != stats.NoTransform {
 		s.textNoWidth(1, row, "Analysed on the "+a.Transform.Scale()+" scale; the back-transformed means are on the original scale.", noteStyle)

@@ -429,7 +429,7 @@ func writeResultTables(w io.Writer, r *analysis.Result) {
 		dec = 2
 	}
 	num := func(v float64, d int) string { return strconv.FormatFloat(v, 'f', d, 64) }
-	fmt.Fprintf(w, "%s, %d observations", designLabel(r.Design), r.N)
+	fmt.Fprintf(w, "%s, %d observations", r.Design.Title(), r.N)
 	if r.Missing > 0 {
 		fmt.Fprintf(w, ", %d missing", r.Missing)
 	}
@@ -537,16 +537,4 @@ func meanOrder(r *analysis.Result) []int {
 		return ma < mb
 	})
 	return idx
-}
-
-func designLabel(k trial.DesignKind) string {
-	switch k {
-	case trial.CRD:
-		return "Completely randomised design (one-way ANOVA)"
-	case trial.RCBD:
-		return "Randomised complete blocks"
-	case trial.Latin:
-		return "Latin square"
-	}
-	return string(k)
 }

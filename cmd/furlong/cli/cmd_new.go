@@ -50,7 +50,7 @@ An existing FILE is not replaced unless --force is given.`,
 			fs := flag.NewFlagSet("new", flag.ContinueOnError)
 			d := trial.DefaultLayout()
 			fs.StringVar(&o.out, "o", "", "write the trial to this `file` (required)")
-			fs.StringVar(&o.design, "design", "rcbd", "design: crd, rcbd or latin")
+			fs.StringVar(&o.design, "design", "rcbd", "design: "+designChoices())
 			fs.StringVar(&o.treatments, "treatments", "", "number of treatments, or a comma-separated `list` of codes")
 			fs.IntVar(&o.reps, "reps", 0, "replicates (blocks), 2 to 50; for latin, the number of treatments")
 			fs.StringVar(&o.seed, "seed", "", "randomisation seed, a whole `number` (default: a fresh one)")
@@ -117,16 +117,14 @@ func runNew(ctx context.Context, o newOptions) error {
 	}
 	s := t.Summary()
 	fmt.Fprintf(env.Stdout, "wrote %s: %s, %d treatments, %d plots, seed %d\n",
-		o.out, designName(t.Design), s.Treatments, s.Plots, t.Random.Seed)
+		o.out, t.Design.Describe(), s.Treatments, s.Plots, t.Random.Seed)
 	return nil
 }
 
 func buildNew(o *newOptions) (*trial.Trial, error) {
-	kind := trial.DesignKind(strings.ToLower(o.design))
-	switch kind {
-	case trial.CRD, trial.RCBD, trial.Latin:
-	default:
-		return nil, usagef("new: --design must be crd, rcbd or latin, not %q", o.design)
+	kind, ok := trial.ParseDesignKind(o.design)
+	if !ok {
+		return nil, usagef("new: --design must be %s, not %q", designChoices(), o.design)
 	}
 	if o.treatments == "" {
 		return nil, usagef("new: say which treatments with --treatments N or --treatments A,B,C")
@@ -276,16 +274,14 @@ func parseTraits(s string) ([]trial.Trait, error) {
 	return out, nil
 }
 
-func designName(d trial.Design) string {
-	switch d.Kind {
-	case trial.CRD:
-		return fmt.Sprintf("completely randomised design, %d replicates", d.Reps)
-	case trial.RCBD:
-		return fmt.Sprintf("randomised complete blocks, %d blocks", d.Reps)
-	case trial.Latin:
-		return fmt.Sprintf("%d × %d Latin square", d.Reps, d.Reps)
+// designChoices lists the --design values: "crd, rcbd or latin".
+func designChoices() string {
+	ks := trial.DesignKinds()
+	names := make([]string, len(ks))
+	for i, k := range ks {
+		names[i] = k.CLIName()
 	}
-	return string(d.Kind)
+	return strings.Join(names[:len(names)-1], ", ") + " or " + names[len(names)-1]
 }
 
 // applyRates sets the treatments' rates from "--rates 0,50,,100" (an empty

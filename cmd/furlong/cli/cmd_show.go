@@ -66,7 +66,7 @@ func writeShow(ctx context.Context, w io.Writer, t *trial.Trial) error {
 	line("Previous crop", t.Site.PreviousCrop)
 	line("Investigator", t.Investigator)
 	line("Objective", t.Objective)
-	line("Design", designName(t.Design))
+	line("Design", t.Design.Describe())
 	l := t.Layout
 	line("Plot", fmt.Sprintf("%g × %g m, harvested %.4g m², alley %g m", l.PlotLength, l.PlotWidth, l.HarvestedArea(), l.Alley))
 	var arrangement string
