@@ -285,7 +285,7 @@ func trialCV(ctx context.Context, path, key string) (float64, string, error) {
 }
 
 func writePlanText(w io.Writer, r planResult) error {
-	fmt.Fprintf(w, "Plan: %d treatments, %s\n", r.Treatments, designName(trial.Design{Kind: trial.DesignKind(r.Design), Reps: r.Reps}))
+	fmt.Fprintf(w, "Plan: %d treatments, %s\n", r.Treatments, trial.Design{Kind: trial.DesignKind(r.Design), Reps: r.Reps}.Describe())
 	fmt.Fprintf(w, "CV %.3g%% (%s), two-sided test at α = %g, power %g\n\n", r.CV, r.CVSource, r.Alpha, r.Power)
 	if r.RepsNeeded != nil {
 		fmt.Fprintf(w, "To detect %g%% of the mean: %d replicates (error df %d), which detect %.1f%%.\n", *r.Target, *r.RepsNeeded, r.DFError, r.Detectable)
