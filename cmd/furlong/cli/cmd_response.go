@@ -427,7 +427,7 @@ func writeResponseText(w io.Writer, r responseJSON) {
 	if len(r.Contrasts) > 0 {
 		fmt.Fprintf(w, "\n%-12s %4s %12s %12s %9s %9s\n", "trend", "df", "SS", "MS", "F", "p")
 		for _, c := range r.Contrasts {
-			fmt.Fprintf(w, "%-12s %4d %12.5g %12.5g %9.3f %9s\n", strings.ReplaceAll(c.Source, "_", " "), c.DF, c.SS, c.MS, c.F, FormatP(c.P))
+			fmt.Fprintf(w, "%-12s %4d %12.5g %12.5g %9.3f %9s\n", strings.ReplaceAll(c.Source, "_", " "), c.DF, c.SS, c.MS, c.F, stats.FormatP(c.P))
 		}
 	}
 	if len(r.Models) > 0 {
