@@ -67,7 +67,7 @@ func newFieldStep(u *App) *fieldStep {
 			if strings.TrimSpace(s) == "" {
 				return nil
 			}
-			if v, err := strconv.ParseFloat(strings.TrimSpace(s), 64); err != nil || v < 0 {
+			if v, err := trial.ParseNumber(s, trial.PointOrComma); err != nil || v < 0 {
 				return errors.New("a length, 0 or more")
 			}
 			return nil
@@ -265,7 +265,7 @@ func (f *fieldStep) layoutFromForm() (trial.Layout, error) {
 				return m // untouched: keep the stored metres exactly
 			}
 		}
-		v, err := strconv.ParseFloat(s, 64)
+		v, err := trial.ParseNumber(s, trial.PointOrComma)
 		if err != nil || v < 0 {
 			errs = append(errs, fmt.Errorf("the %s must be a length in %s, 0 or more, not “%s”", name, f.unit, s))
 		}

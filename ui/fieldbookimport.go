@@ -34,22 +34,22 @@ func (u *App) importFieldBookDialog() {
 	})
 }
 
-// readFieldBook turns a CSV or xlsx file into a table of strings.
-func readFieldBook(name string, data []byte) ([][]string, error) {
+// readFieldBook reads a CSV or xlsx field book.
+func readFieldBook(name string, data []byte) (*fieldbook.Book, error) {
 	if strings.HasSuffix(strings.ToLower(name), ".xlsx") || bytes.HasPrefix(data, []byte("PK\x03\x04")) {
-		return xlsx.ReadTable(bytes.NewReader(data))
+		return xlsx.ReadBook(bytes.NewReader(data))
 	}
-	return fieldbook.ReadTable(bytes.NewReader(data))
+	return fieldbook.ReadBook(bytes.NewReader(data), fieldbook.ReadOptions{})
 }
 
 // importFieldBook plans the import of a field book and shows the report.
 func (u *App) importFieldBook(name string, data []byte) {
-	rows, err := readFieldBook(name, data)
+	book, err := readFieldBook(name, data)
 	if err != nil {
 		showError(u.win, "Could not import", "The field book "+name+" could not be read", err)
 		return
 	}
-	plan, err := fieldbook.Plan(u.doc.t, rows)
+	plan, err := fieldbook.PlanBook(u.doc.t, book)
 	if err != nil {
 		showError(u.win, "Could not import", "The field book "+name+" does not match this trial", err)
 		return

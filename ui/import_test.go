@@ -32,11 +32,11 @@ func TestImportFieldBook(t *testing.T) {
 	if !sameValue(u.doc.t.Traits[0].Values[0], nan()) {
 		t.Fatal("values changed before the user confirmed")
 	}
-	rows, err := readFieldBook("book.csv", book.Bytes())
+	b, err := readFieldBook("book.csv", book.Bytes())
 	if err != nil {
 		t.Fatal(err)
 	}
-	plan, err := fieldbook.Plan(u.doc.t, rows)
+	plan, err := fieldbook.PlanBook(u.doc.t, b)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -73,7 +73,7 @@ func (s *detailsTab) build() fyne.CanvasObject {
 			if strings.TrimSpace(v) == "" {
 				return nil
 			}
-			f, err := strconv.ParseFloat(strings.TrimSpace(v), 64)
+			f, err := trial.ParseNumber(v, trial.PointOrComma)
 			if err != nil || f < -lim || f > lim {
 				return fmt.Errorf("a number of decimal degrees between −%g and %g", lim, lim)
 			}
@@ -86,7 +86,7 @@ func (s *detailsTab) build() fyne.CanvasObject {
 			v = strings.TrimSpace(v)
 			if v == "" {
 				set(s.t(), nil)
-			} else if f, err := strconv.ParseFloat(v, 64); err == nil && f >= -lim && f <= lim {
+			} else if f, err := trial.ParseNumber(v, trial.PointOrComma); err == nil && f >= -lim && f <= lim {
 				set(s.t(), &f)
 			} else {
 				return

@@ -3,7 +3,6 @@ package ui
 import (
 	"errors"
 	"fmt"
-	"math"
 	"slices"
 	"strconv"
 	"strings"
@@ -239,8 +238,8 @@ func (s *traitsTab) traitFromForm(base trial.Trait) (trial.Trait, error) {
 		if v == "" {
 			return nil
 		}
-		x, err := strconv.ParseFloat(strings.ReplaceAll(v, ",", "."), 64)
-		if err != nil || math.IsNaN(x) || math.IsInf(x, 0) {
+		x, err := trial.ParseNumber(v, trial.PointOrComma)
+		if err != nil {
 			errs = append(errs, fmt.Errorf("the %s “%s” is not a number", what, v))
 			return nil
 		}

@@ -69,7 +69,7 @@ func (s *traitsTab) yieldDialog() {
 		if !ok || weight.SelectedIndex() < 0 || moist.SelectedIndex() < 0 {
 			return
 		}
-		m, err := strconv.ParseFloat(strings.TrimSpace(std.Text), 64)
+		m, err := trial.ParseNumber(std.Text, trial.PointOrComma)
 		if err != nil {
 			showError(s.u.win, "Could not add adjusted yield", "The standard moisture must be a number", err)
 			return

@@ -3,9 +3,7 @@ package ui
 import (
 	"errors"
 	"fmt"
-	"math"
 	"strconv"
-	"strings"
 	"unicode"
 
 	"furlong/trial"
@@ -30,15 +28,11 @@ func (e *valueError) Unwrap() error { return e.kind }
 // percentage of 0 to 100) is decided by trial.SetValue, and whether it is
 // plausible by Trait.RangeNote: the window keeps no rules of its own.
 func parseValue(text string) (float64, error) {
-	s := strings.TrimSpace(text)
-	if s == "" {
+	if trial.IsMissingText(text) {
 		return trial.Missing, nil
 	}
-	if !strings.Contains(s, ".") && strings.Count(s, ",") == 1 {
-		s = strings.Replace(s, ",", ".", 1)
-	}
-	v, err := strconv.ParseFloat(s, 64)
-	if err != nil || math.IsNaN(v) || math.IsInf(v, 0) || strings.ContainsAny(s, "xXpP_") {
+	v, err := trial.ParseNumber(text, trial.PointOrComma)
+	if err != nil {
 		return 0, &valueError{kind: errNotNumber, msg: fmt.Sprintf("“%s” is not a number. Type a number such as 12.5, or clear the cell for a missing value", text)}
 	}
 	return v, nil

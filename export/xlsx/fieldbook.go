@@ -318,11 +318,27 @@ func insertPrintOptions(xml []byte) ([]byte, error) {
 }
 
 // ReadTable reads a workbook, such as a field book filled in and saved by a
-// spreadsheet program, as a table of strings: the sheet named "Field book"
-// when there is one, else the first sheet. Numbers are given as stored, at
-// full precision and without number formatting; rows are padded to the width
-// of the widest row.
+// spreadsheet program, as a table of strings: ReadBook's rows.
 func ReadTable(r io.Reader) ([][]string, error) {
+	b, err := ReadBook(r)
+	if err != nil {
+		return nil, err
+	}
+	return b.Rows, nil
+}
+
+// ReadBook reads a workbook, such as a field book filled in and saved by a
+// spreadsheet program, for fieldbook.PlanBook: the sheet named "Field book"
+// when there is one, else the first sheet; the notes say which sheet was
+// read and which were ignored.
+//
+// A cell gives the number it shows: at full precision, and a cell formatted
+// as a percentage (stored as 0.154, shown as 15.4 %) as the percentage
+// (15.4), as a person reading the sheet sees it. A cell that holds a date or
+// time, TRUE/FALSE, an error value (#DIV/0!) or a formula whose result was
+// never calculated and saved is a problem named by sheet and cell
+// ("sheet Plots, cell D7"), never a number.
+func ReadBook(r io.Reader) (*fieldbook.Book, error) {
 	f, err := excelize.OpenReader(r, excelize.Options{RawCellValue: true})
 	if err != nil {
 		// The library's reason (a zip or XML detail) means nothing to the
@@ -345,14 +361,173 @@ func ReadTable(r io.Reader) ([][]string, error) {
 	if err != nil {
 		return nil, err
 	}
+	b := &fieldbook.Book{Mark: trial.PointOnly}
+	var others []string
+	for _, s := range sheets {
+		if s != name {
+			others = append(others, strconv.Quote(s))
+		}
+	}
+	note := fmt.Sprintf("read sheet %q of the workbook", name)
+	if len(others) > 0 {
+		note += fmt.Sprintf("; the other %s (%s) %s ignored", pluralWord(len(others), "sheet", "sheets"), strings.Join(others, ", "), pluralWord(len(others), "was", "were"))
+	}
+	b.Notes = append(b.Notes, note)
 	width := 0
 	for _, row := range rows {
 		width = max(width, len(row))
 	}
+	cr := cellReader{f: f, sheet: name, formats: map[int]shownAs{}}
 	for i, row := range rows {
 		if len(row) < width {
-			rows[i] = append(row, make([]string, width-len(row))...)
+			row = append(row, make([]string, width-len(row))...)
+			rows[i] = row
+		}
+		for j := range row {
+			text, problem, err := cr.read(j+1, i+1, row[j])
+			if err != nil {
+				return nil, err
+			}
+			row[j] = text
+			if problem != "" {
+				b.Problems = append(b.Problems, fieldbook.CellProblem{Line: i + 1, Column: j, Msg: problem})
+			}
 		}
 	}
-	return rows, nil
+	b.Rows = rows
+	return b, nil
+}
+
+func pluralWord(n int, one, many string) string {
+	if n == 1 {
+		return one
+	}
+	return many
+}
+
+// shownAs is what a number format says about a number.
+type shownAs uint8
+
+const (
+	shownPlain shownAs = iota
+	shownPercent
+	shownDate
+)
+
+// cellReader reads cells of one sheet, remembering the number formats seen.
+type cellReader struct {
+	f       *excelize.File
+	sheet   string
+	formats map[int]shownAs // by style index
+}
+
+// read returns the text of the cell at column col and row row (from 1)
+// whose raw value is raw, or a problem.
+func (c *cellReader) read(col, row int, raw string) (text, problem string, err error) {
+	ref, err := excelize.CoordinatesToCellName(col, row)
+	if err != nil {
+		return "", "", err
+	}
+	where := fmt.Sprintf("sheet %s, cell %s", c.sheet, ref)
+	typ, err := c.f.GetCellType(c.sheet, ref)
+	if err != nil {
+		return "", "", err
+	}
+	if raw == "" {
+		if formula, _ := c.f.GetCellFormula(c.sheet, ref); formula != "" {
+			return "", fmt.Sprintf("%s holds the formula =%s, whose result was never saved; open the book in a spreadsheet program, let it calculate and save it again, or type the value", where, formula), nil
+		}
+		return "", "", nil
+	}
+	switch typ {
+	case excelize.CellTypeBool:
+		word := "FALSE"
+		if raw == "1" || strings.EqualFold(raw, "true") {
+			word = "TRUE"
+		}
+		return word, fmt.Sprintf("%s holds %s (a true/false cell), not a number", where, word), nil
+	case excelize.CellTypeDate:
+		return raw, fmt.Sprintf("%s holds a date, not a number; type the measured value", where), nil
+	case excelize.CellTypeError:
+		return raw, fmt.Sprintf("%s holds the error value %s, not a number", where, raw), nil
+	case excelize.CellTypeInlineString, excelize.CellTypeSharedString:
+		return raw, "", nil
+	}
+	v, perr := strconv.ParseFloat(raw, 64)
+	if perr != nil || math.IsInf(v, 0) || math.IsNaN(v) {
+		return raw, "", nil // text a formula left: the import says it is not a number
+	}
+	style, err := c.f.GetCellStyle(c.sheet, ref)
+	if err != nil {
+		return "", "", err
+	}
+	format, ok := c.formats[style]
+	if !ok {
+		format = c.numberFormat(style)
+		c.formats[style] = format
+	}
+	switch format {
+	case shownPercent:
+		// 15 significant digits: the product carries binary noise
+		// (0.154 × 100 = 15.400000000000002) that no spreadsheet shows.
+		return strconv.FormatFloat(v*100, 'g', 15, 64), "", nil
+	case shownDate:
+		return raw, fmt.Sprintf("%s holds a date or time, not a number; type the measured value, or format the cell as a number if it is one", where), nil
+	}
+	return raw, "", nil
+}
+
+// numberFormat classifies the number format of a style: built-in formats 9
+// and 10 are percentages, 14 to 22 and 45 to 47 dates and times (ECMA-376
+// Part 1, §18.8.30 numFmt); a custom format is a percentage when it has a
+// % sign and a date when it has date or time letters, outside quotes and
+// brackets.
+func (c *cellReader) numberFormat(style int) shownAs {
+	st, err := c.f.GetStyle(style)
+	if err != nil || st == nil {
+		return shownPlain
+	}
+	switch {
+	case st.NumFmt == 9 || st.NumFmt == 10:
+		return shownPercent
+	case st.NumFmt >= 14 && st.NumFmt <= 22, st.NumFmt >= 45 && st.NumFmt <= 47:
+		return shownDate
+	}
+	if st.CustomNumFmt == nil {
+		return shownPlain
+	}
+	return classifyFormat(*st.CustomNumFmt)
+}
+
+// classifyFormat reads a number format code (ECMA-376 Part 1, §18.8.31):
+// only the first section (positive numbers) counts; text in quotes, escaped
+// characters and bracketed parts ([Red], [$-409]) are skipped.
+func classifyFormat(code string) shownAs {
+	if i := strings.IndexByte(code, ';'); i >= 0 {
+		code = code[:i]
+	}
+	percent, date := false, false
+	for i := 0; i < len(code); i++ {
+		switch ch := code[i]; ch {
+		case '"':
+			for i++; i < len(code) && code[i] != '"'; i++ {
+			}
+		case '\\', '_', '*':
+			i++
+		case '[':
+			for i++; i < len(code) && code[i] != ']'; i++ {
+			}
+		case '%':
+			percent = true
+		case 'y', 'Y', 'm', 'M', 'd', 'D', 'h', 'H', 's', 'S':
+			date = true
+		}
+	}
+	switch {
+	case date:
+		return shownDate
+	case percent:
+		return shownPercent
+	}
+	return shownPlain
 }

@@ -1,9 +1,10 @@
 package analysis
 
 import (
+	"context"
 	"fmt"
+	"io"
 	"math"
-	"strconv"
 	"strings"
 
 	"furlong/trial"
@@ -40,183 +41,240 @@ func (e *TableError) Error() string {
 	return e.Msg
 }
 
-// ParseTable turns a table of strings (header row first) into one Data per
-// response column. Treatment, block, row and column labels are taken in
-// the order they first appear; empty response cells (and NA, N/A, ".") are
-// missing values.
-func ParseTable(rows [][]string, c TableColumns) ([]*Data, error) {
-	if len(rows) < 2 {
-		return nil, &TableError{Msg: "the table needs a header row and at least one row of data"}
-	}
-	header := rows[0]
-	find := func(name string) (int, error) {
-		for i, h := range header {
-			if strings.EqualFold(strings.TrimSpace(h), strings.TrimSpace(name)) {
-				return i, nil
+// RowSource gives a table's rows one at a time, the header first, each with
+// its line in the file; io.EOF ends the table. fieldbook.Reader is one.
+type RowSource interface {
+	Read() (line int, cells []string, err error)
+}
+
+// sliceSource is a RowSource over rows held in memory (row i is line i+1).
+type sliceSource struct {
+	rows [][]string
+	i    int
+}
+
+func (s *sliceSource) Read() (int, []string, error) {
+	for s.i < len(s.rows) {
+		r := s.rows[s.i]
+		s.i++
+		for _, c := range r {
+			if strings.TrimSpace(c) != "" {
+				return s.i, r, nil
 			}
 		}
-		return -1, &TableError{Line: 1, Msg: fmt.Sprintf("there is no column %q (the columns are %s)", name, strings.Join(header, ", "))}
 	}
-	ti, err := find(c.Treatment)
+	return 0, nil, io.EOF
+}
+
+// ParseTable turns a table of strings (header row first) into one Data per
+// response column, as ReadTable does; numbers may have a decimal point or
+// comma.
+func ParseTable(rows [][]string, c TableColumns) ([]*Data, error) {
+	return ReadTable(context.Background(), &sliceSource{rows: rows}, trial.PointOrComma, c)
+}
+
+// level gives factor labels indices in the order they first appear.
+type level struct {
+	col   int
+	name  string // the column's header
+	index []int
+	names []string
+	seen  map[string]int
+}
+
+func (l *level) add(cell string, line int) error {
+	v := strings.TrimSpace(cell)
+	if v == "" {
+		return &TableError{Line: line, Column: l.name, Msg: "the cell is empty; every row needs a label here"}
+	}
+	k, ok := l.seen[v]
+	if !ok {
+		k = len(l.names)
+		l.seen[v] = k
+		l.names = append(l.names, v)
+	}
+	l.index = append(l.index, k)
+	return nil
+}
+
+// response is one column of numbers being read.
+type response struct {
+	col      int
+	name     string
+	values   []float64
+	any      bool // a number was seen
+	explicit bool // named by the caller: a cell that is not a number is an error
+	dropped  bool // found not to hold numbers (columns chosen automatically)
+}
+
+// ReadTable reads a data table (a CSV file with a header row) row by row
+// into one Data per response column. Only compact columns are kept: a level
+// index per factor cell and a float64 per response cell, never the text,
+// so a table of a million rows needs tens of megabytes, not gigabytes.
+//
+// Treatment, block, row and column labels are taken in the order they first
+// appear. Response cells are read by trial.ParseNumber with mark; cells that
+// trial.IsMissingText calls missing (empty, NA, N/A, ".") are missing values.
+// Without c.Responses every column that is not a factor and holds only
+// numbers and missing values is a response. A row with cells past the
+// header that are not empty is refused (a decimal comma may have split a
+// number in two). Reading stops when ctx is done.
+func ReadTable(ctx context.Context, src RowSource, mark trial.DecimalMark, c TableColumns) ([]*Data, error) {
+	hline, header, err := src.Read()
+	if err == io.EOF {
+		return nil, &TableError{Msg: "the table needs a header row and at least one row of data"}
+	}
 	if err != nil {
 		return nil, err
 	}
-	factorCols := map[int]bool{ti: true}
-	design := trial.CRD
-	bi, ri, ci := -1, -1, -1
-	if c.Block != "" {
-		if bi, err = find(c.Block); err != nil {
+	header = append([]string(nil), header...)
+	for i := range header {
+		header[i] = strings.TrimSpace(header[i])
+	}
+	find := func(name string) (int, error) {
+		for i, h := range header {
+			if strings.EqualFold(h, strings.TrimSpace(name)) {
+				return i, nil
+			}
+		}
+		return -1, &TableError{Line: hline, Msg: fmt.Sprintf("there is no column %q (the columns are %s)", name, strings.Join(header, ", "))}
+	}
+	newLevel := func(name string) (*level, error) {
+		i, err := find(name)
+		if err != nil {
 			return nil, err
 		}
-		factorCols[bi] = true
+		return &level{col: i, name: header[i], seen: map[string]int{}}, nil
+	}
+	trt, err := newLevel(c.Treatment)
+	if err != nil {
+		return nil, err
+	}
+	factors := []*level{trt}
+	design := trial.CRD
+	var blk, row, col *level
+	if c.Block != "" {
+		if blk, err = newLevel(c.Block); err != nil {
+			return nil, err
+		}
+		factors = append(factors, blk)
 		design = trial.RCBD
 	}
 	if c.Row != "" || c.Column != "" {
-		if ri, err = find(c.Row); err != nil {
+		if row, err = newLevel(c.Row); err != nil {
 			return nil, err
 		}
-		if ci, err = find(c.Column); err != nil {
+		if col, err = newLevel(c.Column); err != nil {
 			return nil, err
 		}
-		factorCols[ri], factorCols[ci] = true, true
+		factors = append(factors, row, col)
 		design = trial.Latin
 	}
-	data := rows[1:]
-	var resp []int
+	isFactor := map[int]bool{}
+	for _, f := range factors {
+		isFactor[f.col] = true
+	}
+	var resp []*response
 	if len(c.Responses) > 0 {
 		for _, name := range c.Responses {
 			i, err := find(name)
 			if err != nil {
 				return nil, err
 			}
-			if factorCols[i] {
-				return nil, &TableError{Line: 1, Column: name, Msg: "this column is a factor and cannot also be a response"}
+			if isFactor[i] {
+				return nil, &TableError{Line: hline, Column: header[i], Msg: "this column is a factor and cannot also be a response"}
 			}
-			resp = append(resp, i)
+			resp = append(resp, &response{col: i, name: header[i], explicit: true})
 		}
 	} else {
-		for i := range header {
-			if factorCols[i] {
+		for i, h := range header {
+			if !isFactor[i] && h != "" {
+				resp = append(resp, &response{col: i, name: h})
+			}
+		}
+	}
+	var lines []int
+	for n := 0; ; n++ {
+		if n%4096 == 0 {
+			if err := ctx.Err(); err != nil {
+				return nil, err
+			}
+		}
+		line, cells, err := src.Read()
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			return nil, err
+		}
+		for k := len(header); k < len(cells); k++ {
+			if strings.TrimSpace(cells[k]) != "" {
+				return nil, &TableError{Line: line, Msg: fmt.Sprintf("the row has %d cells but the header has %d; a decimal comma in a comma-separated file may have split a number in two (put such numbers in quotes, or separate the cells with semicolons)", len(cells), len(header))}
+			}
+		}
+		cell := func(i int) string {
+			if i < len(cells) {
+				return cells[i]
+			}
+			return ""
+		}
+		for _, f := range factors {
+			if err := f.add(cell(f.col), line); err != nil {
+				return nil, err
+			}
+		}
+		lines = append(lines, line)
+		for _, r := range resp {
+			if r.dropped {
 				continue
 			}
-			numeric, any := true, false
-			for _, row := range data {
-				if i >= len(row) || isMissingCell(row[i]) {
-					continue
+			text := strings.TrimSpace(cell(r.col))
+			if trial.IsMissingText(text) {
+				r.values = append(r.values, math.NaN())
+				continue
+			}
+			v, err := trial.ParseNumber(text, mark)
+			if err != nil {
+				if r.explicit {
+					return nil, &TableError{Line: line, Column: r.name, Msg: err.Error()}
 				}
-				any = true
-				if _, ok := parseNumber(row[i]); !ok {
-					numeric = false
-					break
-				}
+				r.dropped, r.values = true, nil
+				continue
 			}
-			if numeric && any {
-				resp = append(resp, i)
-			}
-		}
-		if len(resp) == 0 {
-			return nil, &TableError{Line: 1, Msg: "no column holds numbers to analyse; name one with --response"}
+			r.any = true
+			r.values = append(r.values, v)
 		}
 	}
-
-	labels := func(col int) ([]int, []string, error) {
-		idx := make([]int, len(data))
-		var names []string
-		seen := map[string]int{}
-		for r, row := range data {
-			v := ""
-			if col < len(row) {
-				v = strings.TrimSpace(row[col])
-			}
-			if v == "" {
-				return nil, nil, &TableError{Line: r + 2, Column: header[col], Msg: "the cell is empty; every row needs a label here"}
-			}
-			k, ok := seen[v]
-			if !ok {
-				k = len(names)
-				seen[v] = k
-				names = append(names, v)
-			}
-			idx[r] = k
-		}
-		return idx, names, nil
+	if len(lines) == 0 {
+		return nil, &TableError{Msg: "the table needs a header row and at least one row of data"}
 	}
-	trt, trtNames, err := labels(ti)
-	if err != nil {
-		return nil, err
-	}
-	var blk, row, col []int
-	var blkNames, rowNames, colNames []string
-	if bi >= 0 {
-		if blk, blkNames, err = labels(bi); err != nil {
-			return nil, err
+	kept := resp[:0]
+	for _, r := range resp {
+		if !r.dropped && (r.any || r.explicit) {
+			kept = append(kept, r)
 		}
 	}
-	if ri >= 0 {
-		if row, rowNames, err = labels(ri); err != nil {
-			return nil, err
-		}
-		if col, colNames, err = labels(ci); err != nil {
-			return nil, err
-		}
-		if len(rowNames) != len(trtNames) || len(colNames) != len(trtNames) {
-			return nil, &TableError{Msg: fmt.Sprintf("a Latin square needs as many rows and columns as treatments: the table has %d treatments, %d rows and %d columns", len(trtNames), len(rowNames), len(colNames))}
-		}
+	if len(kept) == 0 {
+		return nil, &TableError{Line: hline, Msg: "no column holds numbers to analyse; name one with --response"}
 	}
-
+	if row != nil && (len(row.names) != len(trt.names) || len(col.names) != len(trt.names)) {
+		return nil, &TableError{Msg: fmt.Sprintf("a Latin square needs as many rows and columns as treatments: the table has %d treatments, %d rows and %d columns", len(trt.names), len(row.names), len(col.names))}
+	}
 	var out []*Data
-	for _, ri := range resp {
+	for _, r := range kept {
 		d := &Data{
-			TraitKey: header[ri], TraitName: header[ri], Decimals: 2, HigherBetter: true,
-			Kind: trial.Continuous, Design: design, Treatments: trtNames,
-			Treatment: trt, Block: blk, Blocks: len(blkNames), BlockLabels: blkNames,
-			Row: row, Column: col, Rows: len(rowNames), Cols: len(colNames),
+			TraitKey: r.name, TraitName: r.name, Decimals: 2, HigherBetter: true,
+			Kind: trial.Continuous, Design: design, Treatments: trt.names,
+			Treatment: trt.index, Values: r.values, Plot: lines,
 			Lines: true,
 		}
-		d.Values = make([]float64, len(data))
-		d.Plot = make([]int, len(data))
-		for r, rw := range data {
-			d.Plot[r] = r + 2 // the file line, for messages
-			cell := ""
-			if ri < len(rw) {
-				cell = strings.TrimSpace(rw[ri])
-			}
-			if isMissingCell(cell) {
-				d.Values[r] = math.NaN()
-				continue
-			}
-			v, ok := parseNumber(cell)
-			if !ok {
-				return nil, &TableError{Line: r + 2, Column: header[ri], Msg: fmt.Sprintf("%q is not a number", cell)}
-			}
-			d.Values[r] = v
+		if blk != nil {
+			d.Block, d.Blocks, d.BlockLabels = blk.index, len(blk.names), blk.names
+		}
+		if row != nil {
+			d.Row, d.Column, d.Rows, d.Cols = row.index, col.index, len(row.names), len(col.names)
 		}
 		out = append(out, d)
 	}
 	return out, nil
-}
-
-// isMissingCell reports whether a cell stands for a missing value: empty,
-// or one of the usual markers NA, N/A and "." (common practice in
-// statistics packages' CSV files).
-func isMissingCell(s string) bool {
-	switch strings.ToUpper(strings.TrimSpace(s)) {
-	case "", "NA", "N/A", ".":
-		return true
-	}
-	return false
-}
-
-// parseNumber reads a finite decimal number, with a point or a comma as the
-// decimal mark (a comma only when there is no point).
-func parseNumber(s string) (float64, bool) {
-	s = strings.TrimSpace(s)
-	if strings.Contains(s, ",") && !strings.Contains(s, ".") && strings.Count(s, ",") == 1 {
-		s = strings.Replace(s, ",", ".", 1)
-	}
-	v, err := strconv.ParseFloat(s, 64)
-	if err != nil || math.IsInf(v, 0) || math.IsNaN(v) {
-		return 0, false
-	}
-	return v, true
 }

@@ -174,16 +174,22 @@ func TestBadCells(t *testing.T) {
 		text       string  // expected in the rendered line
 		blocks     bool    // HasErrors(true)
 	}{
-		{"not a number", "1,,,,,abc,,\n", Error, 2, 1, "ht", nan, nan, `error: line 2, plot 1, ht: "abc" is not a number`, true},
-		{"NA word", "1,,,,,NA,,\n", Error, 2, 1, "ht", nan, nan, `"NA" is not a number`, true},
-		{"thousands separator", "1,,,,,\"1.234,5\",,\n", Error, 2, 1, "ht", nan, nan, `"1.234,5" is not a number`, true},
+		{"not a number", "1,,,,,abc,,\n", Error, 2, 1, "ht", nan, nan, `error: line 2, plot 1, ht: “abc” is not a number`, true},
+		{"hexadecimal", "1,,,,,0x1p3,,\n", Error, 2, 1, "ht", nan, nan, `“0x1p3” is not a number`, true},
+		// NA, N/A and "." mark a missing value (common practice): like an empty cell, they keep the stored value.
+		{"NA word", "3,,,,,NA,,\n", Info, 2, 3, "ht", 20, nan, `note: line 2, plot 3, ht: the cell is empty; the stored value 20 is kept`, false},
+		{"N/A word", "3,,,,,N/A,,\n", Info, 2, 3, "ht", 20, nan, `the stored value 20 is kept`, false},
+		{"dot", "3,,,,,.,,\n", Info, 2, 3, "ht", 20, nan, `the stored value 20 is kept`, false},
+		{"thousands separator", "1,,,,,\"1.234,5\",,\n", Error, 2, 1, "ht", nan, nan, `“1.234,5” has a comma, which is ambiguous in a comma-separated file`, true},
+		// RFC 4180 allows the separator inside a quoted cell; in a comma-separated file "8,490" may be 8.49 or 8490.
+		{"quoted comma", "1,,,,,\"8,490\",,\n", Error, 2, 1, "ht", nan, nan, `error: line 2, plot 1, ht: “8,490” has a comma, which is ambiguous`, true},
 		{"fractional count", "1,,,,,,2.5,\n", Error, 2, 1, "n", nan, 2.5, `error: line 2, plot 1, n: 2.5 is not a count`, true},
 		{"negative count", "2,,,,,,-3,\n", Error, 2, 2, "n", nan, -3, `-3 is not a count`, true},
 		{"percent above 100", "1,,,,,,,120\n", Error, 2, 1, "pc", nan, 120, `120 is not a percentage`, true},
-		{"unknown plot", "1,,,,,1,,\n999,,,,,1,,\n", Error, 3, 999, "", nan, nan, `error: line 3, plot 999: plot 999 is not in the trial`, true},
-		{"duplicate plot", "2,,,,,1,,\n1,,,,,1,,\n2,,,,,1,,\n", Error, 4, 2, "", nan, nan, `error: line 4, plot 2: plot 2 is also on line 2`, true},
+		{"unknown plot", "1,,,,,1,,\n999,,,,,1,,\n", Error, 3, 999, "", nan, nan, `error: line 3, plot 999: the trial has no plot with this number`, true},
+		{"duplicate plot", "2,,,,,1,,\n1,,,,,1,,\n2,,,,,1,,\n", Error, 4, 2, "", nan, nan, `error: line 4, plot 2: this plot is also on line 2`, true},
 		{"treatment mismatch", "1,,,,B,1,,\n", Error, 2, 1, "", nan, nan, `the book gives treatment "B" but the trial has "A"`, true},
-		{"split decimal comma", "1,,,,,12,5,,\n", Error, 2, 0, "", nan, nan, `error: line 2: the row has 9 cells but the header has 8`, true},
+		{"split decimal comma", "1,,,,,12,5,3,7\n", Error, 2, 0, "", nan, nan, `error: line 2: the row has 9 cells but the header has 8`, true},
 		{"no plot number", ",,,,,1,,\n", Error, 2, 0, "", nan, nan, `error: line 2, column "plot": the row has no plot number`, true},
 		{"bad plot number", "1.5,,,,,1,,\n", Error, 2, 0, "", nan, nan, `"1.5" is not a plot number`, true},
 		{"conflict", "3,,,,,21,,\n", Conflict, 2, 3, "ht", 20, 21, `conflict: line 2, plot 3, ht: 21 would replace the stored value 20`, false},
@@ -191,17 +197,19 @@ func TestBadCells(t *testing.T) {
 		{"below range", "1,,,,,-1,,\n", Warning, 2, 1, "ht", nan, -1, `-1 is below the valid minimum 0`, false},
 		{"percent out of valid range", "1,,,,,,,45\n", Warning, 2, 1, "pc", nan, 45, `45 is above the valid maximum 40`, false},
 		{"empty keeps", "3,,,,,,,\n", Info, 2, 3, "ht", 20, nan, `note: line 2, plot 3, ht: the cell is empty; the stored value 20 is kept`, false},
-		{"missing plot", "1,,,,,1,,\n", Info, 0, 4, "", nan, nan, `note: plot 4: plot 4 is not in the field book`, false},
+		{"missing plot", "1,,,,,1,,\n", Info, 0, 4, "", nan, nan, `note: plot 4: not in the field book; its values are left as they are`, false},
+		// Spreadsheets write empty cells past the last column: they are ignored.
+		{"trailing empty cells", "1,,,,,12.5,,,,,\n", Info, 0, 4, "", nan, nan, `note: plot 4: not in the field book`, false},
 		{"block mismatch", "1,2,,,,1,,\n", Warning, 2, 1, "", nan, nan, `the book gives block "2" but the trial has 1`, false},
 	}
 	for _, c := range cases {
 		tr := smallTrial()
 		before := clone(tr)
-		table, err := ReadTable(strings.NewReader(header + c.body))
+		book, err := ReadBook(strings.NewReader(header+c.body), ReadOptions{})
 		if err != nil {
 			t.Fatalf("%s: %v", c.name, err)
 		}
-		plan, err := Plan(tr, table)
+		plan, err := PlanBook(tr, book)
 		if err != nil {
 			t.Fatalf("%s: %v", c.name, err)
 		}

@@ -108,6 +108,7 @@ type ImportPlan struct {
 	matched int
 	same    int
 	numbers []int    // plot numbers of the trial planned against
+	mark    trial.DecimalMark // how the book's numbers are read
 	keys    []string // trait keys of the trial planned against
 }
 
@@ -180,8 +181,39 @@ type column struct {
 // it). A cell that is not a number, or impossible for its trait's kind (a
 // count of 2.5, a percentage of 130) is an error; a value outside the
 // trait's valid range is imported with a warning; a value that differs
-// from a stored value is a conflict. Decimal commas ("5,23") are read.
+// from a stored value is a conflict. Numbers are read by trial.ParseNumber
+// (decimal commas "5,23" too; PlanBook follows the book's Mark), and a cell
+// that trial.IsMissingText calls missing (NA, N/A, ".") counts as empty.
 func Plan(t *trial.Trial, rows [][]string) (*ImportPlan, error) {
+	return PlanBook(t, &Book{Rows: rows, Mark: trial.PointOrComma})
+}
+
+// Book is a field book as read from a file: its rows, the rule for its
+// numbers, and what the reader has to say about it.
+type Book struct {
+	// Rows are the book's lines, row i being line i+1 (nil for a line that
+	// holds nothing); the first row that is not empty is the header.
+	Rows [][]string
+	// Mark is the decimal mark rule for the numbers (Reader.Mark).
+	Mark trial.DecimalMark
+	// Notes are said in the report, such as the encoding or the sheet read.
+	Notes []string
+	// Problems are cells the reader could not turn into text faithfully
+	// (a date or a true/false cell of a workbook); Plan reports them as
+	// errors when they fall in a trait column.
+	Problems []CellProblem
+}
+
+// CellProblem is a cell of a book that cannot be read as a value.
+type CellProblem struct {
+	Line, Column int    // row index + 1 in Book.Rows, and cell index in the row
+	Msg          string // what the cell holds and where, in plain words
+}
+
+// PlanBook is Plan for a book read by ReadBook or a workbook reader: it
+// reads numbers by b.Mark, says b.Notes and reports b.Problems.
+func PlanBook(t *trial.Trial, b *Book) (*ImportPlan, error) {
+	rows := b.Rows
 	if t == nil {
 		return nil, errors.New("there is no trial to import into")
 	}
@@ -195,7 +227,14 @@ func Plan(t *trial.Trial, rows [][]string) (*ImportPlan, error) {
 	if h < 0 {
 		return nil, errors.New("the field book is empty")
 	}
-	p := &ImportPlan{numbers: make([]int, len(t.Plots)), keys: make([]string, len(t.Traits))}
+	p := &ImportPlan{numbers: make([]int, len(t.Plots)), keys: make([]string, len(t.Traits)), mark: b.Mark}
+	for _, n := range b.Notes {
+		p.add(Issue{Severity: Info, Message: n})
+	}
+	problems := map[[2]int]string{}
+	for _, cp := range b.Problems {
+		problems[[2]int{cp.Line, cp.Column}] = cp.Msg
+	}
 	for i, pl := range t.Plots {
 		p.numbers[i] = pl.Number
 	}
@@ -227,6 +266,11 @@ func Plan(t *trial.Trial, rows [][]string) (*ImportPlan, error) {
 		}
 		line := r + 1
 		p.rows++
+		// Empty cells past the last one that holds something are ignored
+		// (spreadsheets write them).
+		for len(row) > len(cols) && strings.TrimSpace(row[len(row)-1]) == "" {
+			row = row[:len(row)-1]
+		}
 		if len(row) > len(cols) {
 			// Cells would be shifted: often an unquoted decimal comma in a
 			// comma-separated file ("12,5" read as 12 and 5).
@@ -244,19 +288,19 @@ func Plan(t *trial.Trial, rows [][]string) (*ImportPlan, error) {
 			p.add(Issue{Severity: Error, Line: line, Column: rows[h][plotCol], Message: "the row has no plot number"})
 			continue
 		}
-		num, ok := parseNumber(text)
-		if !ok || num != math.Trunc(num) || math.Abs(num) > 1<<53 {
+		num, err := trial.ParseNumber(text, trial.PointOrComma)
+		if err != nil || num != math.Trunc(num) || math.Abs(num) > 1<<53 {
 			p.add(Issue{Severity: Error, Line: line, Column: rows[h][plotCol], Text: text, Message: fmt.Sprintf("%q is not a plot number", text)})
 			continue
 		}
 		number := int(num)
 		pi, ok := byNumber[number]
 		if !ok {
-			p.add(Issue{Severity: Error, Line: line, Plot: number, Text: text, Message: fmt.Sprintf("plot %d is not in the trial", number)})
+			p.add(Issue{Severity: Error, Line: line, Plot: number, Text: text, Message: "the trial has no plot with this number"})
 			continue
 		}
 		if first, dup := seen[pi]; dup {
-			p.add(Issue{Severity: Error, Line: line, Plot: number, Text: text, Message: fmt.Sprintf("plot %d is also on line %d; this row is not imported", number, first)})
+			p.add(Issue{Severity: Error, Line: line, Plot: number, Text: text, Message: fmt.Sprintf("this plot is also on line %d; this row is not imported", first)})
 			continue
 		}
 		seen[pi] = line
@@ -273,12 +317,17 @@ func Plan(t *trial.Trial, rows [][]string) (*ImportPlan, error) {
 			case col.fixed == ColBlock || col.fixed == ColRow || col.fixed == ColColumn:
 				want := map[string]int{ColBlock: pl.Block, ColRow: pl.Row, ColColumn: pl.Column}[col.fixed]
 				if text != "" {
-					if v, ok := parseNumber(text); !ok || v != float64(want) {
+					if v, err := trial.ParseNumber(text, trial.PointOrComma); err != nil || v != float64(want) {
 						p.add(Issue{Severity: Warning, Line: line, Plot: number, Column: col.header, Text: text,
 							Message: fmt.Sprintf("the book gives %s %q but the trial has %d", col.fixed, text, want)})
 					}
 				}
 			case col.trait >= 0:
+				if msg, bad := problems[[2]int{line, c}]; bad {
+					tr := t.Traits[col.trait]
+					p.add(Issue{Severity: Error, Line: line, Plot: number, Column: col.header, Trait: tr.Key, Text: text, Message: msg})
+					continue
+				}
 				p.cell(t, col, line, pi, text, empty)
 			}
 		}
@@ -296,7 +345,7 @@ func Plan(t *trial.Trial, rows [][]string) (*ImportPlan, error) {
 	}
 	if len(absent) <= maxAbsentListed {
 		for _, n := range absent {
-			p.add(Issue{Severity: Info, Plot: n, Message: fmt.Sprintf("plot %d is not in the field book; its values are left as they are", n)})
+			p.add(Issue{Severity: Info, Plot: n, Message: "not in the field book; its values are left as they are"})
 		}
 	} else {
 		// One line for a partial book, not one per plot.
@@ -330,16 +379,20 @@ func (p *ImportPlan) cell(t *trial.Trial, col column, line, pi int, text string,
 		i.Severity, i.Old, i.New, i.Message = s, old, v, msg
 		return i
 	}
-	if text == "" {
+	if trial.IsMissingText(text) {
 		empty[col.trait]++
 		if !trial.IsMissing(old) {
 			p.issues = append(p.issues, with(Info, math.NaN(), fmt.Sprintf("the cell is empty; the stored value %s is kept", show(old))))
 		}
 		return
 	}
-	v, ok := parseNumber(text)
-	if !ok {
-		p.issues = append(p.issues, with(Error, math.NaN(), fmt.Sprintf("%q is not a number (leave the cell empty for a missing value)", text)))
+	v, err := trial.ParseNumber(text, p.mark)
+	if err != nil {
+		msg := err.Error() + " (leave the cell empty, or write NA, for a missing value)"
+		if p.mark == trial.PointOnly && strings.Contains(text, ",") {
+			msg = err.Error() + "; if the whole file uses decimal commas, import it in decimal-comma mode"
+		}
+		p.issues = append(p.issues, with(Error, math.NaN(), msg))
 		return
 	}
 	if why := tr.Kind.Problem(v); why != "" {
@@ -517,6 +570,8 @@ func (p *ImportPlan) WriteReport(w io.Writer, overwrite bool) error {
 		fmt.Fprintf(&b, "Nothing is imported unless overwriting is allowed: %d stored %s would be replaced.\n", over, plural(over, "value", "values"))
 	case over > 0:
 		fmt.Fprintf(&b, "Ready to import; %d stored %s will be replaced.\n", over, plural(over, "value", "values"))
+	case len(p.changes) == 0:
+		b.WriteString("Nothing to import: no cell holds a value the trial does not already have (empty cells leave the trial's values as they are).\n")
 	default:
 		b.WriteString("Ready to import.\n")
 	}

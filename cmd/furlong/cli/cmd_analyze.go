@@ -4,6 +4,7 @@ import (
 	"context"
 	"encoding/csv"
 	"encoding/json"
+	"errors"
 	"flag"
 	"fmt"
 	"io"
@@ -27,7 +28,7 @@ type analyzeOptions struct {
 	trait, treatment, block, row, column, format, method, transform string
 	responses                                                       stringList
 	alpha                                                           float64
-	unprotected                                                     bool
+	unprotected, decimalComma                                       bool
 }
 
 type stringList []string
@@ -48,7 +49,11 @@ adjusted for the other terms, and means are least-squares means.
 
 A CSV file (comma, semicolon or tab separated, header row first) can be analysed too: name the
 treatment column, and a block column for an RCBD or row and column columns for a Latin square.
-Without --response every numeric column that is not a factor is analysed. Empty cells are missing.
+Without --response every numeric column that is not a factor is analysed. Empty cells, NA, N/A
+and "." are missing. The file is read as 'furlong import' reads a field book: UTF-8, UTF-16 or
+Windows-1252 text, any line endings, a "sep=;" first line; blank lines are skipped. In a
+comma-separated file a comma inside a number is refused as ambiguous unless --decimal-comma is
+given; semicolon- and tab-separated files may use decimal commas.
 
 Output: text (aligned tables for a terminal), json (every number at full precision; see the README
 for the fields) or csv (one row per treatment mean).`,
@@ -65,6 +70,7 @@ for the fields) or csv (one row per treatment mean).`,
 			fs.StringVar(&o.format, "format", "text", "output format: text, json or csv")
 			fs.StringVar(&o.transform, "transform", "", "analyse transformed values: log, sqrt or arcsin")
 			fs.BoolVar(&o.unprotected, "unprotected", false, "give LSD letters even when the treatment F test is not significant")
+			fs.BoolVar(&o.decimalComma, "decimal-comma", false, "CSV: the comma-separated file has decimal commas in quoted cells (\"5,23\")")
 			return fs, func(ctx context.Context, args []string) error {
 				if len(args) != 1 {
 					return usagef("analyze: give one input file (a .furlong trial or a .csv table)")
@@ -157,6 +163,16 @@ func parseTransform(s string) (stats.Transform, error) {
 	return "", usagef("--transform must be log, sqrt or arcsin, not %q", s)
 }
 
+// decimalCommaHint adds, to a refused comma in a comma-separated file, how
+// to say that the file uses decimal commas.
+func decimalCommaHint(err error, rd *fieldbook.Reader) string {
+	var ne *trial.NumberError
+	if rd.Mark() == trial.PointOnly && errors.As(err, &ne) || strings.Contains(err.Error(), "ambiguous in a comma-separated file") {
+		return " (if the whole file uses decimal commas, add --decimal-comma)"
+	}
+	return ""
+}
+
 func isCSV(path string) bool {
 	l := strings.ToLower(path)
 	return strings.HasSuffix(l, ".csv") || strings.HasSuffix(l, ".tsv") || strings.HasSuffix(l, ".txt")
@@ -192,14 +208,20 @@ func analyzeCSV(ctx context.Context, o analyzeOptions, path string, opts analysi
 		return nil, err
 	}
 	defer f.Close()
-	rows, err := fieldbook.ReadTable(f)
+	rd, err := fieldbook.NewReader(f, fieldbook.ReadOptions{DecimalComma: o.decimalComma})
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", path, err)
 	}
-	tab, err := analysis.ParseTable(rows, analysis.TableColumns{
+	tab, err := analysis.ReadTable(ctx, rd, rd.Mark(), analysis.TableColumns{
 		Treatment: o.treatment, Block: o.block, Row: o.row, Column: o.column, Responses: o.responses,
 	})
 	if err != nil {
+		if ctx.Err() != nil {
+			return nil, ctx.Err()
+		}
+		if msg := decimalCommaHint(err, rd); msg != "" {
+			return nil, fmt.Errorf("%s: %w%s", path, err, msg)
+		}
 		return nil, fmt.Errorf("%s: %w", path, err)
 	}
 	var out []analysis.Outcome

@@ -57,12 +57,18 @@ duplicated rows, cells that are not numbers, a different treatment than the tria
 while values would be overwritten without --overwrite. Values outside a trait's range are imported
 and listed as warnings. Empty cells leave the trial's value as it is.
 When the import goes ahead the trial is saved safely (the previous file is kept as TRIAL.bak).
-Comma, semicolon and tab separated files and decimal commas are read.`,
+Comma, semicolon and tab separated files are read (UTF-8, UTF-16 or Windows-1252 text, any line
+endings, a "sep=;" first line); blank lines and empty cells past the last column are ignored.
+Decimal commas are read in semicolon- and tab-separated books; in a comma-separated book a comma
+inside a number ("8,490") is refused as ambiguous unless --decimal-comma is given. NA, N/A and "."
+count as empty cells. An xlsx book is read from its first sheet (the report names it): cells show
+what the spreadsheet shows (a percentage as a percentage); dates and true/false are refused.`,
 		flags: func(env Env) (*flag.FlagSet, func(context.Context, []string) error) {
 			fs := flag.NewFlagSet("import", flag.ContinueOnError)
 			o := importOptions{env: env}
 			fs.BoolVar(&o.overwrite, "overwrite", false, "replace values already in the trial with different ones from the book")
 			fs.BoolVar(&o.dryRun, "dry-run", false, "only print the report; change nothing")
+			fs.BoolVar(&o.decimalComma, "decimal-comma", false, "CSV: the comma-separated book has decimal commas in quoted cells (\"5,23\")")
 			return fs, func(ctx context.Context, args []string) error {
 				if len(args) != 2 {
 					return usagef("import: give the trial file and the field book")
@@ -139,30 +145,30 @@ func parsePaper(s string) (xlsx.Paper, error) {
 	return 0, usagef("--paper must be a4 or letter")
 }
 
-// readBook reads a CSV or xlsx field book as a table of strings.
-func readBook(path string) ([][]string, error) {
+// readBook reads a CSV or xlsx field book.
+func readBook(path string, o fieldbook.ReadOptions) (*fieldbook.Book, error) {
 	f, err := os.Open(path)
 	if err != nil {
 		return nil, err
 	}
 	defer f.Close()
-	var rows [][]string
+	var b *fieldbook.Book
 	if strings.EqualFold(filepath.Ext(path), ".xlsx") {
-		rows, err = xlsx.ReadTable(bufio.NewReader(f))
+		b, err = xlsx.ReadBook(bufio.NewReader(f))
 	} else {
-		rows, err = fieldbook.ReadTable(f)
+		b, err = fieldbook.ReadBook(f, o)
 	}
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", path, err)
 	}
-	return rows, nil
+	return b, nil
 }
 
 // importOptions are the choices of 'furlong import'.
 type importOptions struct {
-	env               Env
-	trial, book       string
-	overwrite, dryRun bool
+	env                             Env
+	trial, book                     string
+	overwrite, dryRun, decimalComma bool
 }
 
 // runImport reads the values of the field book o.book into the trial
@@ -175,14 +181,15 @@ func runImport(ctx context.Context, o importOptions) error {
 	if _, err := os.Stat(trialPath); err != nil {
 		return err
 	}
-	rows, err := readBook(bookPath)
+	book, err := readBook(bookPath, fieldbook.ReadOptions{DecimalComma: o.decimalComma})
 	if err != nil {
 		return err
 	}
 	warnOpen(env, trialPath)
 	var n int
+	nothing := false
 	err = trialfile.Update(ctx, trialPath, func(t *trial.Trial) error {
-		plan, err := fieldbook.Plan(t, rows)
+		plan, err := fieldbook.PlanBook(t, book)
 		if err != nil {
 			return fmt.Errorf("%s: %w", bookPath, err)
 		}
@@ -196,6 +203,10 @@ func runImport(ctx context.Context, o importOptions) error {
 			}
 			return &ExitError{Code: ExitFailure, Msg: msg}
 		}
+		if len(plan.Changes()) == 0 {
+			nothing = true
+			return errLeaveAsIs
+		}
 		if dry {
 			return errLeaveAsIs
 		}
@@ -207,18 +218,26 @@ func runImport(ctx context.Context, o importOptions) error {
 			return err
 		}
 		if n == 0 {
+			nothing = true
 			return errLeaveAsIs
 		}
 		touch(t)
 		return nil
 	})
+	var ee *ExitError
 	switch {
-	case errors.Is(err, errLeaveAsIs) && dry:
-		fmt.Fprintln(env.Stdout, "dry run: the trial was not changed")
+	case errors.Is(err, errLeaveAsIs) && nothing:
+		fmt.Fprintln(env.Stdout, "the trial file was left as it was")
 		return nil
 	case errors.Is(err, errLeaveAsIs):
-		fmt.Fprintln(env.Stdout, "no values changed; the trial file was left as it was")
+		fmt.Fprintln(env.Stdout, "dry run: the trial was not changed")
 		return nil
+	case errors.As(err, &ee), errors.Is(err, context.Canceled):
+		return err
+	case err != nil && n > 0:
+		// The values were applied to the copy in memory, but the file could
+		// not be written: say plainly that the import did not happen.
+		return fmt.Errorf("nothing was imported: %s; the trial file is as it was before the import", Message(err))
 	case err != nil:
 		return err
 	}

@@ -22,7 +22,7 @@ var importRules = []struct {
 	{"furlong/stats", []string{"furlong/stats/"}, []string{"gonum.org/v1/gonum"}},
 	{"furlong/trial", nil, nil},
 	{"furlong/trial/trialfile", []string{"furlong/trial"}, nil},
-	{"furlong/trial/fieldbook", []string{"furlong/trial"}, nil},
+	{"furlong/trial/fieldbook", []string{"furlong/trial"}, []string{"golang.org/x/text"}},
 	{"furlong/trial/analysis", []string{"furlong/trial", "furlong/stats"}, nil},
 	{"furlong/sampledata", []string{"furlong/trial"}, nil},
 	{"furlong/export", []string{"furlong/export", "furlong/trial", "furlong/stats"}, []string{"github.com/xuri/excelize/v2", "gonum.org/v1/plot", "gonum.org/v1/gonum"}},
