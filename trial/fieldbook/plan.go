@@ -107,9 +107,9 @@ type ImportPlan struct {
 	rows    int
 	matched int
 	same    int
-	numbers []int    // plot numbers of the trial planned against
+	numbers []int             // plot numbers of the trial planned against
 	mark    trial.DecimalMark // how the book's numbers are read
-	keys    []string // trait keys of the trial planned against
+	keys    []string          // trait keys of the trial planned against
 }
 
 // Issues returns every finding in the order found.
