@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"math"
 	"runtime"
+	"slices"
 	"sort"
 	"strings"
 
@@ -73,6 +74,10 @@ func (e *Error) Unwrap() error { return e.Err }
 
 // ErrNoTrait is returned for a trait key the trial does not have.
 var ErrNoTrait = errors.New("the trial has no trait with that key")
+
+// ErrUnknownDesign is returned for a trial whose design kind Furlong does
+// not know: it is never analysed as another design.
+var ErrUnknownDesign = errors.New("the design is not one Furlong knows")
 
 // DefaultAlpha is the significance level used when Options.Alpha is zero.
 const DefaultAlpha = 0.05
@@ -160,18 +165,26 @@ func FromTrial(t *trial.Trial, key string) (*Data, error) {
 		d.Names = append(d.Names, trt.Name)
 		d.Checks = append(d.Checks, trt.Role == trial.RoleCheck)
 	}
-	minRow, minCol := math.MaxInt, math.MaxInt
-	for _, p := range t.Plots {
-		minRow, minCol = min(minRow, p.Row), min(minCol, p.Column)
-	}
+	// Blocks, rows and columns become factor levels 0, 1, ... in the order
+	// of their numbers, whatever the numbers are (blocks 1, 2, 3 and 9 are
+	// four blocks, named by their numbers in messages).
+	var blockLevel, rowLevel, colLevel map[int]int
 	switch t.Design.Kind {
+	case trial.CRD:
 	case trial.RCBD:
-		d.Blocks = t.Blocks()
-		for b := 1; b <= d.Blocks; b++ {
+		var nums []int
+		blockLevel, nums = levelsOf(t.Plots, func(p trial.Plot) int { return p.Block })
+		d.Blocks = len(nums)
+		for _, b := range nums {
 			d.BlockLabels = append(d.BlockLabels, fmt.Sprintf("block %d", b))
 		}
 	case trial.Latin:
-		d.Rows, d.Cols = len(t.Treatments), len(t.Treatments)
+		var rows, cols []int
+		rowLevel, rows = levelsOf(t.Plots, func(p trial.Plot) int { return p.Row })
+		colLevel, cols = levelsOf(t.Plots, func(p trial.Plot) int { return p.Column })
+		d.Rows, d.Cols = len(rows), len(cols)
+	default:
+		return nil, &Error{Trait: key, Msg: fmt.Sprintf("the design kind %q is not one Furlong knows, so the trial cannot be analysed; it may come from a newer Furlong", string(t.Design.Kind)), Err: ErrUnknownDesign}
 	}
 	for i, p := range t.Plots {
 		if ex, reason := t.Excluded(i, key); ex {
@@ -188,13 +201,31 @@ func FromTrial(t *trial.Trial, key string) (*Data, error) {
 		d.PlotIndex = append(d.PlotIndex, i)
 		switch t.Design.Kind {
 		case trial.RCBD:
-			d.Block = append(d.Block, p.Block-1)
+			d.Block = append(d.Block, blockLevel[p.Block])
 		case trial.Latin:
-			d.Row = append(d.Row, p.Row-minRow)
-			d.Column = append(d.Column, p.Column-minCol)
+			d.Row = append(d.Row, rowLevel[p.Row])
+			d.Column = append(d.Column, colLevel[p.Column])
 		}
 	}
 	return d, nil
+}
+
+// levelsOf maps the distinct numbers key gives the plots to 0, 1, ... in
+// increasing order, and returns the numbers in that order.
+func levelsOf(plots []trial.Plot, key func(trial.Plot) int) (map[int]int, []int) {
+	level := map[int]int{}
+	var nums []int
+	for _, p := range plots {
+		if _, ok := level[key(p)]; !ok {
+			level[key(p)] = 0
+			nums = append(nums, key(p))
+		}
+	}
+	slices.Sort(nums)
+	for i, n := range nums {
+		level[n] = i
+	}
+	return level, nums
 }
 
 // AnalyzeData fits the design's model to d and separates the means.
@@ -312,7 +343,11 @@ func describeStatsError(d *Data, err error, plots []int) string {
 	case ie.Kind == stats.EmptyLevel && ie.Factor == "treatment" && ie.Level >= 0 && ie.Level < len(d.Treatments):
 		return fmt.Sprintf("treatment %s has no values to analyse", d.Treatments[ie.Level])
 	case ie.Kind == stats.EmptyLevel && ie.Factor == "block" && ie.Level >= 0:
-		return fmt.Sprintf("block %d has no values at all: a block needs at least one plot with a value", ie.Level+1)
+		name := fmt.Sprintf("block %d", ie.Level+1)
+		if ie.Level < len(d.BlockLabels) {
+			name = d.BlockLabels[ie.Level]
+		}
+		return fmt.Sprintf("%s has no values at all: a block needs at least one plot with a value", name)
 	case ie.Kind == stats.EmptyLevel && (ie.Factor == "row" || ie.Factor == "column") && ie.Level >= 0:
 		return fmt.Sprintf("Latin square %s %d has no values at all: every row and column of the square needs at least one plot with a value", ie.Factor, ie.Level+1)
 	case ie.Obs >= 0 && ie.Obs < len(plots):

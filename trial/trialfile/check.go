@@ -23,6 +23,9 @@ func fmtNum(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
 // non-finite numbers. Both Encode and Decode run it, so that a file
 // Furlong writes is a file Furlong reads.
 func check(t *trial.Trial) *problem {
+	if p := checkBounds(t); p != nil {
+		return p
+	}
 	codes := make(map[string]int, len(t.Treatments))
 	for i, tr := range t.Treatments {
 		if j, ok := codes[tr.Code]; ok {

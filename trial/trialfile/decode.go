@@ -56,6 +56,9 @@ func decode(data []byte) (*trial.Trial, error) {
 	if head.Format == nil || json.Unmarshal(head.Format, &format) != nil || format != Format {
 		return nil, errorf(ErrNotTrialFile, "not a Furlong trial file")
 	}
+	if pe := duplicateKey(data); pe != nil {
+		return nil, pe
+	}
 	if head.Version == nil {
 		return nil, at(data, "format", errorf(ErrWrongType, "the file does not say which format version it has"))
 	}

@@ -17,7 +17,7 @@ var (
 	// ErrNewerVersion: the file was written by a newer Furlong.
 	ErrNewerVersion = errors.New("the file was written by a newer version of Furlong")
 	// ErrTruncated: the file ends in the middle (an interrupted copy or save).
-	ErrTruncated = errors.New("the file ends unexpectedly")
+	ErrTruncated = errors.New("the file ends early")
 	// ErrSyntax: the file is damaged: it is not well-formed JSON.
 	ErrSyntax = errors.New("the file is damaged")
 	// ErrWrongType: a field holds the wrong kind of value (text where a
@@ -38,6 +38,13 @@ var (
 	// ErrValueKind: a value is impossible for its trait's kind (a count of
 	// 2.5, a percentage of 130, a number too large to store).
 	ErrValueKind = errors.New("a value does not fit its trait")
+	// ErrOutOfRange: a number lies outside what its field can hold (a
+	// block of 0, a plot at row 100000000000, 10000000 decimals).
+	ErrOutOfRange = errors.New("a number is outside what its field can hold")
+	// ErrUnknownDesign: the design kind is not one Furlong knows.
+	ErrUnknownDesign = errors.New("the design is not one Furlong knows")
+	// ErrDuplicateKey: an object names the same member twice.
+	ErrDuplicateKey = errors.New("a member is named twice")
 )
 
 // ParseError locates a problem in a trial file.
@@ -62,7 +69,7 @@ func (e *ParseError) Error() string {
 		if b.Len() > 0 {
 			b.WriteString(" ")
 		}
-		fmt.Fprintf(&b, "(%s)", e.Path)
+		fmt.Fprintf(&b, "(%s)", shortPath(e.Path))
 	}
 	if b.Len() > 0 {
 		b.WriteString(": ")
@@ -90,6 +97,18 @@ func errorf(kind error, format string, args ...any) error {
 // newerVersionError is the message for a file from a newer Furlong.
 func newerVersionError(v int64) error {
 	return errorf(ErrNewerVersion, "this file was written by a newer version of Furlong (file format %d; this version reads up to %d). Update Furlong to open it.", v, Version)
+}
+
+// maxPathShown is the longest JSON path a message shows in full; a longer
+// one (deeply nested data) keeps its start and its end.
+const maxPathShown = 120
+
+func shortPath(p string) string {
+	if len(p) <= maxPathShown {
+		return p
+	}
+	head, tail := p[:maxPathShown/2], p[len(p)-maxPathShown/2:]
+	return strings.ToValidUTF8(head, "") + "…" + strings.ToValidUTF8(tail, "")
 }
 
 // position converts a byte offset into a 1-based line and column
@@ -123,11 +142,20 @@ func at(data []byte, path string, err error) *ParseError {
 // syntaxError translates a JSON syntax error.
 func syntaxError(data []byte, e *json.SyntaxError) *ParseError {
 	off := int(e.Offset)
+	if strings.Contains(e.Error(), "exceeded max depth") {
+		// encoding/json stops at 10000 levels; no trial nests deeper than 6.
+		pe := &ParseError{Err: errorf(ErrSyntax, "the file is damaged: its values are nested more than 10000 levels deep; restore the backup copy (.bak) or an earlier version")}
+		pe.Line, pe.Column = position(data, off)
+		return pe
+	}
 	path, _ := pathAt(data, off)
 	pe := &ParseError{Path: path}
-	if off >= len(strings.TrimRight(string(data), " \t\r\n")) && strings.Contains(e.Error(), "end of JSON input") {
+	// An error past the last character that is not a blank means the data
+	// ended inside something: a cut-off file, also inside null, true or
+	// false (encoding/json then complains of a blank "in literal").
+	if off >= len(strings.TrimRight(string(data), " \t\r\n")) {
 		pe.Path = ""
-		pe.Err = errorf(ErrTruncated, "the file ends unexpectedly; it may have been cut short while being copied or saved")
+		pe.Err = errorf(ErrTruncated, "the file ends early: it may have been cut short while being copied or saved; restore the backup copy (.bak) or an earlier version")
 		pe.Line, pe.Column = position(data, len(data))
 		return pe
 	}

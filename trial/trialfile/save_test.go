@@ -211,4 +211,15 @@ func TestSaveSurvivesKill(t *testing.T) {
 		t.Errorf("only %d of %d kills interrupted a save (%d saves completed): the test proves little", interrupted, kills, saves)
 	}
 	t.Logf("%d kills, %d of them during a save; %d complete saves", kills, interrupted, saves)
+	// The next save removes what the killed saves left behind (their
+	// writer has ended on this machine) and leaves no lock file.
+	if err := Save(path, a); err != nil {
+		t.Fatal(err)
+	}
+	entries, _ := os.ReadDir(dir)
+	for _, e := range entries {
+		if n := e.Name(); n != "crash.furlong" && n != "crash.furlong"+BackupSuffix {
+			t.Errorf("left behind after the next save: %s", n)
+		}
+	}
 }
