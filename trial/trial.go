@@ -112,11 +112,6 @@ const (
 	Latin DesignKind = "latin" // Latin square: rows and columns both blocked
 )
 
-// DesignKinds lists every design kind Furlong knows, in the order they are
-// offered. A kind not listed is refused when a trial file is read and when
-// a trial is analysed; add a new kind here.
-var DesignKinds = []DesignKind{CRD, RCBD, Latin}
-
 // Design is the experimental design of the trial.
 type Design struct {
 	Kind DesignKind

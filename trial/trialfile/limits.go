@@ -30,19 +30,9 @@ const (
 	gridExtra = 10000
 )
 
-// knownDesign reports whether k is a design kind Furlong knows.
-func knownDesign(k trial.DesignKind) bool {
-	for _, d := range trial.DesignKinds {
-		if d == k {
-			return true
-		}
-	}
-	return false
-}
-
 func designList() string {
 	var names []string
-	for _, d := range trial.DesignKinds {
+	for _, d := range trial.DesignKinds() {
 		names = append(names, fmt.Sprintf("%q", string(d)))
 	}
 	return strings.Join(names, ", ")
@@ -55,7 +45,7 @@ func checkBounds(t *trial.Trial) *problem {
 	switch {
 	case d.Kind == "" && len(t.Plots) > 0:
 		return &problem{"trial.design.kind", errorf(ErrUnknownDesign, "the file does not say which design the trial has (one of %s); it cannot be analysed without one", designList())}
-	case d.Kind != "" && !knownDesign(d.Kind):
+	case d.Kind != "" && !d.Kind.Known():
 		return &problem{"trial.design.kind", errorf(ErrUnknownDesign, "the design kind %q is not one Furlong knows (%s): the file may come from a newer Furlong, or be damaged", string(d.Kind), designList())}
 	case d.Reps < 0 || d.Reps > MaxReps:
 		return &problem{"trial.design.reps", errorf(ErrOutOfRange, "the number of replicates must be from 0 to %d, not %d", MaxReps, d.Reps)}
