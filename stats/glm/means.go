@@ -133,9 +133,10 @@ const maxTukeyDF = 100000
 
 // compare makes every pairwise comparison of the means at positions idx
 // of a family. LSD p-values use each pair's own (Satterthwaite) df;
-// Tukey–Kramer p-values and letters use one df for the set, the smallest
-// df of its pairs rounded down, which is conservative when strata mix
-// (meansep.Compare needs one df).
+// Tukey–Kramer p-values (Kramer 1956, Biometrics 12, 307–310) use one df
+// for the set, the smallest df of its pairs rounded down, which is
+// conservative when strata mix and exact otherwise. Letters come from
+// meansep.Letters; LSD letters are protected by the F test (meansep.Protect).
 func compare(fam *family, idx []int, means []Mean, hasTest bool, pTest, alpha float64, lowerBetter bool) *Comparison {
 	k := len(idx)
 	if k < 2 {
@@ -148,6 +149,7 @@ func compare(fam *family, idx []int, means []Mean, hasTest bool, pTest, alpha fl
 	}
 	se := make([]float64, k*k)
 	minDF := math.Inf(1)
+
 	for a := range k {
 		for b := a + 1; b < k; b++ {
 			v, df := fam.pair(idx[a], idx[b])
@@ -157,8 +159,6 @@ func compare(fam *family, idx []int, means []Mean, hasTest bool, pTest, alpha fl
 			pr := Pair{I: a, J: b, Diff: diff, SE: s, DF: df}
 			if s > 0 {
 				pr.T = diff / s
-				tc := tQuantile(1-alpha/2, df)
-				pr.Lower, pr.Upper = diff-tc*s, diff+tc*s
 				pr.PLSD = tSurvival2(pr.T, df)
 			}
 			if len(c.Pairs) == 0 {
@@ -182,21 +182,22 @@ func compare(fam *family, idx []int, means []Mean, hasTest bool, pTest, alpha fl
 	}
 	c.TukeyDF = tdf
 	opt := meansep.LetterOptions{LowerIsBetter: lowerBetter}
-	r, err := meansep.Compare(est, meansep.PairSEFunc(func(i, j int) float64 { return se[i*k+j] }), tdf, alpha)
-	if err != nil {
-		c.NoteLSD = err.Error()
-		c.NoteTukey = err.Error()
-		return c
-	}
+	tab := rangeTable(k, tdf)
 	for n := range c.Pairs {
-		c.Pairs[n].PTukey = r.Pairs[n].PTukey
+		c.Pairs[n].PTukey = tukeyP(tab, c.Pairs[n].T)
 	}
 	if c.EqualSED {
 		c.LSD = tQuantile(1-alpha/2, c.DF) * c.SED
-		c.HSD = r.QCrit * c.SED / math.Sqrt2
+		c.HSD = rangeQuantile(tab, alpha) * c.SED / math.Sqrt2
 	}
-	if tl, err := r.TukeyLetters(opt); err == nil {
-		c.LettersTukey = tl.Letters
+	sigT := func(i, j int) bool {
+		if i > j {
+			i, j = j, i
+		}
+		return c.Pairs[pairIndex(k, i, j)].PTukey < alpha
+	}
+	if l, err := meansep.Letters(est, sigT, opt); err == nil {
+		c.LettersTukey = l
 	} else {
 		c.NoteTukey = err.Error()
 	}

@@ -93,14 +93,20 @@ type Mean struct {
 
 // Pair compares means I < J of an effect or slice.
 type Pair struct {
-	I, J         int
-	Diff         float64 // mean_I − mean_J
-	SE           float64 // standard error of the difference (SED)
-	DF           float64 // its degrees of freedom (Satterthwaite when strata mix)
-	T            float64
-	Lower, Upper float64 // 1−Alpha confidence interval of Diff (t, unadjusted)
-	PLSD         float64 // two-sided t p-value (Fisher's LSD)
-	PTukey       float64 // Tukey–Kramer p-value (see Comparison)
+	I, J   int
+	Diff   float64 // mean_I − mean_J
+	SE     float64 // standard error of the difference (SED)
+	DF     float64 // its degrees of freedom (Satterthwaite when strata mix)
+	T      float64
+	PLSD   float64 // two-sided t p-value (Fisher's LSD)
+	PTukey float64 // Tukey–Kramer p-value (see Comparison)
+}
+
+// Interval returns the unadjusted t confidence interval of Diff at level
+// 1−alpha (0 < alpha < 1).
+func (p Pair) Interval(alpha float64) (lower, upper float64) {
+	h := tQuantile(1-alpha/2, p.DF) * p.SE
+	return p.Diff - h, p.Diff + h
 }
 
 // Comparison holds the pairwise comparisons of a set of means with their
