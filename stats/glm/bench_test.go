@@ -58,6 +58,9 @@ func simulated(seed uint64, sizes []int, blocks int, s Structure, missing int) M
 				y += eff[f][lv[f]]
 			}
 			y += unit([3]int{b, lv[0], -1}, 2)
+			if s == SplitPlot && len(sizes) == 3 {
+				y += unit([3]int{b, lv[0], 1000 + lv[1]}, 1.5)
+			}
 			if s == StripPlot {
 				y += unit([3]int{b, -1, lv[1]}, 2)
 			}

@@ -13,7 +13,11 @@ import (
 // estimated marginal means of every effect with their comparisons and
 // letters, the SEDs of every kind of comparison, slices of interactions
 // and the residuals. See the package documentation for the formulas.
-func Fit(m Model) (*Result, error) {
+func Fit(m Model) (*Result, error) { return fit(m, false) }
+
+// fit is Fit; forceREML fits balanced split and strip plots by REML too
+// (for the tests: REML equals the strata analysis there).
+func fit(m Model, forceREML bool) (*Result, error) {
 	used, err := m.check()
 	if err != nil {
 		return nil, err
@@ -57,7 +61,7 @@ func Fit(m Model) (*Result, error) {
 	case m.Structure == Factorial:
 		res.Method = SumsOfSquares
 		in, err = fitFactorial(d, mx, ne, trt, res)
-	case res.Balanced:
+	case res.Balanced && !forceREML:
 		res.Method = SumsOfSquares
 		in, err = fitStrata(d, mx, ne, &m, trt, res)
 	default:
@@ -244,6 +248,38 @@ func newStrata(d *design, s Structure, trt []term) strata {
 	return st
 }
 
+// errorTerms expands the error unit of each stratum into the fixed terms
+// that span its sums of squares: every subset of the unit containing the
+// block (except the block alone) not already spanned by an earlier unit.
+// So error (b) of a split-split plot is block:B + block:A:B.
+func (st *strata) errorTerms(blk int) [][]term {
+	var out [][]term
+	var seen []term
+	for _, u := range st.units {
+		var ts []term
+		for _, sub := range allTerms(len(u)) {
+			t := make(term, len(sub))
+			for a, i := range sub {
+				t[a] = u[i]
+			}
+			if !t.contains(term{blk}) || len(t) == 1 {
+				continue
+			}
+			dup := false
+			for _, v := range seen {
+				dup = dup || v.equal(t)
+			}
+			if dup {
+				continue
+			}
+			seen = append(seen, t)
+			ts = append(ts, t)
+		}
+		out = append(out, ts)
+	}
+	return out
+}
+
 // unitSize is the number of plots in each unit of term u (balanced data).
 func (d *design) unitSize(u term) float64 {
 	c := 1
@@ -283,7 +319,8 @@ func (d *design) unitIndex(u term) (idx []int, count int) {
 func fitStrata(d *design, mx *matrix, ne *normal, m *Model, trt []term, res *Result) (*inference, error) {
 	st := newStrata(d, m.Structure, trt)
 	ns := len(st.units) + 1
-	// Strata model: block, then per stratum its terms and its error unit.
+	ets := st.errorTerms(d.block())
+	// Strata model: block, then per stratum its terms and its error terms.
 	order := []term{{d.block()}}
 	kind := []int{-1} // -1 block, ≥0 treatment term index, -2-k error k
 	for s := range ns {
@@ -294,8 +331,10 @@ func fitStrata(d *design, mx *matrix, ne *normal, m *Model, trt []term, res *Res
 			}
 		}
 		if s < len(st.units) {
-			order = append(order, st.units[s])
-			kind = append(kind, -2-s)
+			for _, et := range ets[s] {
+				order = append(order, et)
+				kind = append(kind, -2-s)
+			}
 		}
 	}
 	smx := d.build(order)
@@ -320,8 +359,13 @@ func fitStrata(d *design, mx *matrix, ne *normal, m *Model, trt []term, res *Res
 		used += df
 		if kind[k] <= -2 {
 			s := -2 - kind[k]
-			dfs[s] = df
-			ms[s] = ss / float64(df)
+			dfs[s] += df
+			ms[s] += ss
+		}
+	}
+	for s := range ns - 1 {
+		if dfs[s] > 0 {
+			ms[s] /= float64(dfs[s])
 		}
 	}
 	rss := ne.yty
@@ -356,7 +400,10 @@ func fitStrata(d *design, mx *matrix, ne *normal, m *Model, trt []term, res *Res
 			res.Lines = append(res.Lines, l)
 		default:
 			s := -2 - kind[k]
-			res.Lines = append(res.Lines, errorLine(st.names[s], dfs[s], lines[k].ss, d.ybar))
+			if k+1 < len(order) && kind[k+1] == kind[k] {
+				continue // the line comes with the stratum's last error term
+			}
+			res.Lines = append(res.Lines, errorLine(st.names[s], dfs[s], ms[s]*float64(dfs[s]), d.ybar))
 		}
 	}
 	res.Lines = append(res.Lines, errorLine(st.names[ns-1], dfs[ns-1], math.Max(rss, 0), d.ybar))

@@ -45,7 +45,13 @@ func (in *inference) dfOf(v float64, g []float64) float64 {
 	if !(q > 0) {
 		return math.Inf(1)
 	}
-	return 2 * v * v / q
+	df := 2 * v * v / q
+	// A contrast within one stratum of a balanced design has that
+	// stratum's df; keep it whole despite rounding.
+	if r := math.Round(df); math.Abs(df-r) < 1e-9*df {
+		df = r
+	}
+	return df
 }
 
 // quad returns l'Sl.

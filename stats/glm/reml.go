@@ -85,28 +85,6 @@ func (rp *remlProblem) profiled(theta []float64) float64 {
 	return e.logdet + float64(rp.n-rp.p)*math.Log(e.r2)
 }
 
-// deviance is the REML deviance (−2 log restricted likelihood, without
-// constants) at variance parameters φ = (σ²_1, …, σ²_k, σ²_e).
-func (rp *remlProblem) deviance(phi []float64) float64 {
-	k := len(phi) - 1
-	se := phi[k]
-	if !(se > 0) {
-		return math.Inf(1)
-	}
-	theta := make([]float64, k)
-	for j := range k {
-		if phi[j] < 0 {
-			return math.Inf(1)
-		}
-		theta[j] = math.Sqrt(phi[j] / se)
-	}
-	e := rp.eval(theta)
-	if !e.ok {
-		return math.Inf(1)
-	}
-	return e.logdet + float64(rp.n-rp.p)*math.Log(se) + e.r2/se
-}
-
 // covBeta is Cov(β̂) = σ²_e·(Cθ⁻¹)_XX at φ.
 func (rp *remlProblem) covBeta(phi []float64) (*mat.SymDense, bool) {
 	k := len(phi) - 1
@@ -367,18 +345,7 @@ func fitREML(d *design, mx *matrix, ne *normal, m *Model, trt []term, res *Resul
 		}
 	}
 	kf := len(free)
-	dev := func(x []float64) float64 {
-		z := append([]float64(nil), phi...)
-		for a, j := range free {
-			z[j] = x[a]
-		}
-		return rp.deviance(z)
-	}
-	x0 := make([]float64, kf)
-	for a, j := range free {
-		x0[a] = phi[j]
-	}
-	hess := hessianRel(dev, x0)
+	hess := rp.observedInfo(d, mx, unitIdx, theta, phi, free, e)
 	hs := mat.NewSymDense(kf, nil)
 	for a := range kf {
 		for b := a; b < kf; b++ {
@@ -454,7 +421,9 @@ func fitREML(d *design, mx *matrix, ne *normal, m *Model, trt []term, res *Resul
 	// Residuals within the lowest stratum.
 	order := []term{{d.block()}}
 	order = append(order, trt...)
-	order = append(order, st.units...)
+	for _, ets := range st.errorTerms(d.block()) {
+		order = append(order, ets...)
+	}
 	smx := d.build(order)
 	stratumResiduals(d, smx, smx.normal(d.y, d.ybar), res)
 	res.ResidualDF = d.n - smxRank(smx, d)
@@ -478,34 +447,6 @@ func unitWords(s Structure, nu int) string {
 		return "main plots and subplots"
 	}
 	return "main plots"
-}
-
-// hessianRel is the central-difference Hessian with steps relative to x.
-func hessianRel(f func([]float64) float64, x []float64) []float64 {
-	k := len(x)
-	h := make([]float64, k*k)
-	step := make([]float64, k)
-	for j := range k {
-		step[j] = 1e-4 * math.Abs(x[j])
-		if step[j] == 0 {
-			step[j] = 1e-6
-		}
-	}
-	fx := f(x)
-	at := func(i, j int, si, sj float64) float64 {
-		z := append([]float64(nil), x...)
-		z[i] += si * step[i]
-		z[j] += sj * step[j]
-		return f(z)
-	}
-	for i := range k {
-		h[i*k+i] = (at(i, i, 1, 0) - 2*fx + at(i, i, -1, 0)) / (step[i] * step[i] / 1)
-		for j := range i {
-			v := (at(i, j, 1, 1) - at(i, j, 1, -1) - at(i, j, -1, 1) + at(i, j, -1, -1)) / (4 * step[i] * step[j])
-			h[i*k+j], h[j*k+i] = v, v
-		}
-	}
-	return h
 }
 
 // typeIIRows is the type II hypothesis of mean-model term k as rows over
@@ -706,4 +647,130 @@ func nelderMead(f func([]float64) float64, x0 []float64, maxEval int) ([]float64
 		}
 	}
 	return pts[best], fv[best]
+}
+
+// observedInfo is the Hessian of the REML deviance −2ℓ_R with respect to
+// the free variance parameters φ (σ²_j of the units, then σ²_e), from its
+// analytic form (Searle, Casella & McCulloch 1992, Variance Components,
+// ch. 6): H_ij = −tr(PV_iPV_j) + 2·y'PV_iPV_jPy, with V_i = Z_iZ_i' (I for
+// σ²_e) and P = V⁻¹ − V⁻¹X(X'V⁻¹X)⁻¹X'V⁻¹ = (I − W̃Cθ⁻¹W̃')/σ²_e,
+// W̃ = [ZΛ, X]. Finite differences of the deviance lose too many digits
+// here (the deviance is a difference of large terms).
+func (rp *remlProblem) observedInfo(d *design, mx *matrix, unitIdx [][]int, theta, phi []float64, free []int, e *remlEval) []float64 {
+	n, m := d.n, rp.q+rp.p
+	nu := len(unitIdx)
+	se := phi[nu]
+	w := make([]float64, n*m)
+	for i := range n {
+		r := w[i*m : (i+1)*m]
+		for j := range nu {
+			r[unitIdx[j][i]] = theta[j]
+		}
+		xr := mx.x[i*mx.p : (i+1)*mx.p]
+		for a, c := range rp.xcols {
+			r[rp.q+a] = xr[c]
+		}
+	}
+	inv := mat.NewSymDense(m, nil)
+	if err := e.chol.InverseTo(inv); err != nil {
+		return nil
+	}
+	wm := mat.NewDense(n, m, w)
+	var b mat.Dense
+	b.Mul(wm, inv)
+	var pm mat.Dense
+	pm.Mul(&b, wm.T())
+	P := pm.RawMatrix().Data // stride n
+	for i := range n {
+		for j := range n {
+			v := -P[i*n+j]
+			if i == j {
+				v++
+			}
+			P[i*n+j] = v / se
+		}
+	}
+	y := make([]float64, n)
+	for i := range n {
+		y[i] = d.y[i] - d.ybar
+	}
+	mul := func(v []float64) []float64 {
+		out := make([]float64, n)
+		for i := range n {
+			s := 0.0
+			row := P[i*n : (i+1)*n]
+			for j, x := range v {
+				s += row[j] * x
+			}
+			out[i] = s
+		}
+		return out
+	}
+	// applyV returns V_j v.
+	applyV := func(j int, v []float64) []float64 {
+		if j == nu {
+			return append([]float64(nil), v...)
+		}
+		idx := unitIdx[j]
+		tot := map[int]float64{}
+		for i, x := range v {
+			tot[idx[i]] += x // few calls: a map is fine
+		}
+		out := make([]float64, n)
+		for i := range n {
+			out[i] = tot[idx[i]]
+		}
+		return out
+	}
+	r := mul(y)
+	kf := len(free)
+	ps := make([][]float64, kf)
+	sv := make([][]float64, kf)
+	pv := make([][]float64, kf) // P V_j, n×n
+	for a, j := range free {
+		sv[a] = applyV(j, r)
+		ps[a] = mul(sv[a])
+		if j == nu {
+			pv[a] = P
+			continue
+		}
+		idx := unitIdx[j]
+		lo, hi := idx[0], idx[0]
+		for _, u := range idx {
+			lo, hi = min(lo, u), max(hi, u)
+		}
+		nq := hi - lo + 1
+		agg := make([]float64, nq)
+		mv := make([]float64, n*n)
+		for i := range n {
+			clear(agg)
+			row := P[i*n : (i+1)*n]
+			for c := range n {
+				agg[idx[c]-lo] += row[c]
+			}
+			out := mv[i*n : (i+1)*n]
+			for c := range n {
+				out[c] = agg[idx[c]-lo]
+			}
+		}
+		pv[a] = mv
+	}
+	h := make([]float64, kf*kf)
+	for a := range kf {
+		for c := a; c < kf; c++ {
+			tr := 0.0
+			for i := range n {
+				for k := range n {
+					tr += pv[a][i*n+k] * pv[c][k*n+i]
+				}
+			}
+			q := 0.0
+			for i := range n {
+				q += sv[a][i] * ps[c][i]
+			}
+			h[a*kf+c] = -tr + 2*q
+			h[c*kf+a] = h[a*kf+c]
+		}
+	}
+	return h
 }
