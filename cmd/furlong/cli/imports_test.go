@@ -19,6 +19,7 @@ var importRules = []struct {
 	{"furlong/stats/dist", nil, []string{"gonum.org/v1/gonum"}},
 	{"furlong/stats/diag", []string{"furlong/stats"}, []string{"gonum.org/v1/gonum"}},
 	{"furlong/stats/meansep", []string{"furlong/stats/dist"}, []string{"gonum.org/v1/gonum"}},
+	{"furlong/stats/glm", []string{"furlong/stats/dist", "furlong/stats/meansep"}, []string{"gonum.org/v1/gonum"}},
 	{"furlong/stats", []string{"furlong/stats/"}, []string{"gonum.org/v1/gonum"}},
 	{"furlong/trial", nil, nil},
 	{"furlong/trial/trialfile", []string{"furlong/trial"}, nil},
