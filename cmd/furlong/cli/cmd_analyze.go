@@ -163,6 +163,25 @@ func parseTransform(s string) (stats.Transform, error) {
 	return "", usagef("--transform must be log, sqrt or arcsin, not %q", s)
 }
 
+// analyzeCSVTables reads a CSV table from r as compact columns, one Data per
+// response (see analysis.ReadTable).
+func analyzeCSVTables(ctx context.Context, o analyzeOptions, r io.Reader) ([]*analysis.Data, error) {
+	rd, err := fieldbook.NewReader(r, fieldbook.ReadOptions{DecimalComma: o.decimalComma})
+	if err != nil {
+		return nil, err
+	}
+	tab, err := analysis.ReadTable(ctx, rd, rd.Mark(), analysis.TableColumns{
+		Treatment: o.treatment, Block: o.block, Row: o.row, Column: o.column, Responses: o.responses,
+	})
+	if err != nil {
+		if msg := decimalCommaHint(err, rd); msg != "" {
+			return nil, fmt.Errorf("%w%s", err, msg)
+		}
+		return nil, err
+	}
+	return tab, nil
+}
+
 // decimalCommaHint adds, to a refused comma in a comma-separated file, how
 // to say that the file uses decimal commas.
 func decimalCommaHint(err error, rd *fieldbook.Reader) string {
@@ -208,19 +227,10 @@ func analyzeCSV(ctx context.Context, o analyzeOptions, path string, opts analysi
 		return nil, err
 	}
 	defer f.Close()
-	rd, err := fieldbook.NewReader(f, fieldbook.ReadOptions{DecimalComma: o.decimalComma})
-	if err != nil {
-		return nil, fmt.Errorf("%s: %w", path, err)
-	}
-	tab, err := analysis.ReadTable(ctx, rd, rd.Mark(), analysis.TableColumns{
-		Treatment: o.treatment, Block: o.block, Row: o.row, Column: o.column, Responses: o.responses,
-	})
+	tab, err := analyzeCSVTables(ctx, o, f)
 	if err != nil {
 		if ctx.Err() != nil {
 			return nil, ctx.Err()
-		}
-		if msg := decimalCommaHint(err, rd); msg != "" {
-			return nil, fmt.Errorf("%s: %w%s", path, err, msg)
 		}
 		return nil, fmt.Errorf("%s: %w", path, err)
 	}

@@ -4,7 +4,6 @@ import (
 	"context"
 	"flag"
 	"fmt"
-	"math"
 	"os"
 	"strconv"
 	"strings"
@@ -302,8 +301,8 @@ func applyRates(trts []trial.Treatment, list, unit string) error {
 		if p == "" {
 			continue
 		}
-		v, err := strconv.ParseFloat(p, 64)
-		if err != nil || math.IsInf(v, 0) || math.IsNaN(v) {
+		v, err := trial.ParseNumber(p, trial.PointOnly) // the list is comma-separated
+		if err != nil {
 			return usagef("new: --rates: the rate of %s must be a number, not %q", trts[i].Code, p)
 		}
 		if v < 0 {

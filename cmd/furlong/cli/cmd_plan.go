@@ -237,8 +237,8 @@ func parseSpread(s string, treatments int) ([]float64, error) {
 	}
 	out := make([]float64, len(parts))
 	for i, p := range parts {
-		v, err := strconv.ParseFloat(strings.TrimSpace(p), 64)
-		if err != nil || v != v || v-v != 0 {
+		v, err := trial.ParseNumber(p, trial.PointOnly) // the list is comma-separated
+		if err != nil {
 			return nil, usagef("plan: --spread value %q is not a number", strings.TrimSpace(p))
 		}
 		out[i] = v

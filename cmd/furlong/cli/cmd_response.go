@@ -13,6 +13,7 @@ import (
 	"strings"
 
 	"furlong/stats"
+	"furlong/trial"
 	"furlong/trial/analysis"
 	"furlong/trial/trialfile"
 )
@@ -281,8 +282,8 @@ func responseCSV(ctx context.Context, o responseOptions) ([]responseJSON, error)
 		}
 		s := responseSeries{res: oc.Result}
 		for i, m := range oc.Result.Means {
-			x, err := strconv.ParseFloat(strings.TrimSpace(m.Treatment), 64)
-			if err != nil || math.IsInf(x, 0) || math.IsNaN(x) {
+			x, err := trial.ParseNumber(m.Treatment, trial.PointOrComma)
+			if err != nil {
 				return nil, fmt.Errorf("%s: the rate %q in column %s is not a number", o.Path, m.Treatment, o.Rate)
 			}
 			s.codes, s.rates, s.idx = append(s.codes, m.Treatment), append(s.rates, x), append(s.idx, i)
