@@ -1,6 +1,7 @@
 package ui
 
 import (
+	"bytes"
 	"crypto/sha256"
 	"encoding/hex"
 	"errors"
@@ -17,6 +18,7 @@ import (
 	"fyne.io/fyne/v2/widget"
 
 	"furlong/trial"
+	"furlong/trial/trialfile"
 )
 
 // Options configure the window.
@@ -25,11 +27,19 @@ type Options struct {
 
 	// autosaveDelay overrides the debounce of the background saver (tests).
 	autosaveDelay time.Duration
+	// pollEvery overrides how often the open file is checked for outside
+	// changes (tests).
+	pollEvery time.Duration
 }
 
 // autosaveDelay is the debounce of the background saver: every edit is
-// written to the recovery file within this delay plus one write.
+// written to the trial file (or, for a trial never saved, to its recovery
+// copy) within this delay plus one write.
 const autosaveDelay = 800 * time.Millisecond
+
+// pollEvery is how often the open trial file is checked for changes made
+// by another program.
+const pollEvery = 2 * time.Second
 
 // App is Furlong's window: the step navigator, the screens of each step and
 // the open trial.
@@ -43,6 +53,7 @@ type App struct {
 	saver       *saver
 	recoveryDir string
 	lastSaved   uint64 // document generation last written anywhere
+	epoch       uint64 // of the newest document
 
 	nav    *navigator
 	body   *fyne.Container // holds the current screen
@@ -60,6 +71,9 @@ type App struct {
 
 	// saved, when set, receives every finished save (tests wait on it).
 	saved func(j saveJob, err error)
+	// outside, when set, receives every outside change the watcher
+	// reported, once the window has dealt with it (tests).
+	outside func()
 	// exported, when set, receives every finished export (tests).
 	exported func(uri fyne.URI, err error)
 	// folderShown, when set, receives the outcome of "Show the folder"
@@ -84,8 +98,8 @@ func New(a fyne.App, w fyne.Window, opts Options) *App {
 	if opts.autosaveDelay > 0 {
 		delay = opts.autosaveDelay
 	}
-	u.saver = newSaver(delay, saveTrial, func(j saveJob, err error) {
-		fyne.Do(func() { u.onSaved(j, err) })
+	u.saver = newSaver(delay, func(j saveJob, r saveResult) {
+		fyne.Do(func() { u.onSaved(j, r) })
 	})
 	u.compute = newAnalyser(u)
 
@@ -144,21 +158,31 @@ func (u *App) newestUntitled() string {
 	return m[len(m)-1]
 }
 
-// saveTrial writes t to path, creating the folder when needed.
-func saveTrial(path string, t *trial.Trial) error {
-	if err := os.MkdirAll(filepath.Dir(path), 0o755); err != nil {
-		return err
+// OpenTrial shows t, read from path ("" for a trial not yet saved). The
+// file's identity is taken now; OpenFile passes the one it read.
+func (u *App) OpenTrial(t *trial.Trial, path string) {
+	var id trialfile.Identity
+	if path != "" {
+		id, _ = trialfile.Stat(path)
 	}
-	return saveFile(path, t)
+	u.openDocument(t, path, id)
 }
 
-// OpenTrial shows t, read from path ("" for a trial not yet saved).
-func (u *App) OpenTrial(t *trial.Trial, path string) {
+// openDocument shows t, read from path as the version id.
+func (u *App) openDocument(t *trial.Trial, path string, id trialfile.Identity) {
 	u.closeDocument()
+	u.epoch++
 	u.doc = newDocument(t, path)
+	u.doc.epoch = u.epoch
 	u.doc.recovery = u.recoveryPath(path)
 	u.doc.onChange = u.onChange
 	u.lastSaved = 0
+	if path != "" {
+		u.doc.disk, u.doc.base = id, cloneTrial(t)
+		u.saver.setKnown(path, id)
+		u.markOpen(path)
+		u.watch()
+	}
 	for i := range u.steps {
 		u.steps[i] = nil
 	}
@@ -173,27 +197,30 @@ func (u *App) OpenTrial(t *trial.Trial, path string) {
 	u.showStep(min(u.suggestedStep(), stepRecord))
 }
 
-// closeDocument forgets the open trial after its last autosave is written.
+// closeDocument forgets the open trial after its last autosave is written,
+// and removes its open-trial marker.
 func (u *App) closeDocument() {
 	if u.doc == nil {
 		return
 	}
 	u.saver.sync()
+	u.unwatch()
+	u.doc.presence.Release()
 	u.compute.cancel()
 	u.doc = nil
 }
 
-// OpenFile opens the trial file at path. When a recovery copy newer than
-// the file exists, the user is offered to restore it. A file that cannot
+// OpenFile opens the trial file at path. When a recovery copy holds edits
+// the file lacks, the user is offered to restore them. A file that cannot
 // be read is explained in a dialog, and the error returned.
 func (u *App) OpenFile(path string) error {
-	t, err := loadFile(path)
+	t, id, err := trialfile.LoadIdentity(path)
 	if err != nil {
 		showMessage(u.win, "Could not open the trial",
 			explain("The trial file "+filepath.Base(path)+" could not be opened", err).forFile(path))
 		return err
 	}
-	u.OpenTrial(t, path)
+	u.openDocument(t, path, id)
 	u.offerRecovery(path)
 	return nil
 }
@@ -215,64 +242,111 @@ func (u *App) openNow(path string) {
 	}
 }
 
-// offerRecovery asks whether to restore a recovery copy of path that is
-// newer than the file itself; for path "" the newest copy of a trial never
-// saved.
+// offerRecovery asks whether to restore a recovery copy of path that holds
+// edits the file lacks (whatever the times of the two files say); for path
+// "" the newest copy of a trial never saved.
 func (u *App) offerRecovery(path string) {
-	rp, rt, when, ok := u.newerRecovery(path)
+	rec, ok := u.pendingRecovery(path)
 	if !ok {
 		return
 	}
-	msg := "Furlong kept a copy of this trial from " + when.Format("2 Jan 2006 15:04") +
-		" with changes that were never saved (the program may have closed unexpectedly).\n\nRestore those changes?"
+	msg := "Furlong kept changes to this trial from " + rec.when.Format("2 Jan 2006 15:04") +
+		" that are not in the file (the program may have closed unexpectedly, or the file was changed by another program meanwhile)." +
+		"\n\nRestore those changes? Values changed in the file since then are kept too."
 	if path == "" {
-		msg = "Furlong kept the trial “" + rt.Title + "” from " + when.Format("2 Jan 2006 15:04") +
+		msg = "Furlong kept the trial “" + rec.t.Title + "” from " + rec.when.Format("2 Jan 2006 15:04") +
 			", which was never saved to a file.\n\nOpen it again? (No discards it.)"
 	}
 	dialog.ShowConfirm("Unsaved changes found", msg, func(ok bool) {
 		if ok {
-			u.restore(path, rp, rt)
-		} else if path == "" {
-			os.Remove(rp)
+			u.restore(path, rec)
+		} else {
+			removeRecovery(rec.path)
 		}
 	}, u.win)
 }
 
-// newerRecovery returns the recovery copy of path when it is newer than
-// the file (for a trial never saved: the newest such copy).
-func (u *App) newerRecovery(path string) (string, *trial.Trial, time.Time, bool) {
+// recovered is a recovery copy found on disk.
+type recovered struct {
+	path string
+	t    *trial.Trial
+	base *trial.Trial // the version it was edited from, or nil
+	when time.Time
+}
+
+// pendingRecovery returns the recovery copy of path when it holds edits
+// the file lacks: its content differs from the file's and from the
+// version it was edited from. A copy with nothing to offer is removed.
+// For a trial never saved it returns the newest such copy. path must be
+// the open document's file (its content is compared).
+func (u *App) pendingRecovery(path string) (recovered, bool) {
 	rp := u.recoveryPath(path)
 	if path == "" {
 		if rp = u.newestUntitled(); rp == "" {
-			return "", nil, time.Time{}, false
+			return recovered{}, false
 		}
 	}
 	rs, err := os.Stat(rp)
 	if err != nil {
-		return "", nil, time.Time{}, false
-	}
-	if path != "" {
-		if fs, err := os.Stat(path); err == nil && !rs.ModTime().After(fs.ModTime()) {
-			return "", nil, time.Time{}, false
-		}
+		return recovered{}, false
 	}
 	rt, err := loadFile(rp)
 	if err != nil {
-		return "", nil, time.Time{}, false
+		return recovered{}, false
 	}
-	return rp, rt, rs.ModTime(), true
+	rec := recovered{path: rp, t: rt, when: rs.ModTime()}
+	if path == "" {
+		return rec, true
+	}
+	if bt, err := loadFile(rp + baseSuffix); err == nil {
+		rec.base = bt
+	}
+	if (u.doc != nil && u.doc.path == path && sameContent(rt, u.doc.t)) ||
+		(rec.base != nil && sameContent(rt, rec.base)) {
+		removeRecovery(rp)
+		return recovered{}, false
+	}
+	return rec, true
 }
 
-// restore replaces the open trial (or opens one) with its recovery copy
-// rp, as an undoable edit that leaves the trial marked unsaved.
-func (u *App) restore(path, rp string, rt *trial.Trial) {
+// sameContent reports whether a and b would be written as the same file.
+func sameContent(a, b *trial.Trial) bool {
+	var x, y bytes.Buffer
+	if trialfile.Encode(&x, a) != nil || trialfile.Encode(&y, b) != nil {
+		return false
+	}
+	return bytes.Equal(x.Bytes(), y.Bytes())
+}
+
+// restore brings back the recovery copy rec as an undoable edit. With the
+// version it was edited from, it is merged with the file as it is now, so
+// that values changed in the file meanwhile are kept too (conflicts are
+// put to the user); without, the copy replaces the trial.
+func (u *App) restore(path string, rec recovered) {
 	if path == "" || u.doc == nil {
-		u.OpenTrial(rt, "")
-		u.doc.recovery = rp // keep writing to the same copy
+		u.OpenTrial(rec.t, "")
+		u.doc.recovery = rec.path // keep writing to the same copy
 		u.doc.edited(changeAll)
 		return
 	}
-	u.doc.apply(&replaceTrial{what: "restore", before: cloneTrial(u.doc.t), after: rt, c: changeAll})
+	apply := func(t *trial.Trial) {
+		u.doc.apply(&replaceTrial{what: "restore", before: cloneTrial(u.doc.t), after: t, c: changeAll})
+		u.status.SetText("Restored the changes kept in the recovery copy.")
+	}
+	if rec.base == nil {
+		apply(rec.t)
+		return
+	}
+	merged, conflicts, err := trial.MergeValues(rec.base, rec.t, u.doc.t)
+	if err != nil {
+		apply(rec.t) // cannot merge: the copy as it was; Undo brings the file's version back
+		return
+	}
+	if len(conflicts) == 0 {
+		apply(merged)
+		return
+	}
+	u.showMergeChoices(merged, conflicts, "the recovery copy", func(m *trial.Trial) { apply(m) }, nil)
 }
 
 // OpenDemo opens the built-in demo trial as a new, unsaved trial.
@@ -338,39 +412,68 @@ func (u *App) onChange(c change) {
 	// The snapshot goes to the saver last, once this edit's screen work is
 	// done.
 	if u.doc.dirty && u.doc.gen != u.lastSaved {
-		u.status.SetText("Changes not yet on disk…")
-		u.saver.submit(saveJob{snap: cloneTrial(u.doc.t), path: u.doc.recovery, gen: u.doc.gen})
+		if u.doc.path != "" && !u.doc.conflict {
+			u.status.SetText("Saving…")
+		}
+		u.saver.submit(u.job(false))
 	}
 }
 
+// job is a save of the open trial as it is now: to its file, or only to
+// the recovery copy when it has none or its file changed on disk.
+func (u *App) job(explicit bool) saveJob {
+	d := u.doc
+	j := saveJob{snap: cloneTrial(d.t), recovery: d.recovery, gen: d.gen, epoch: d.epoch, explicit: explicit}
+	if d.path != "" {
+		j.base = d.base
+		if !d.conflict {
+			j.path = d.path
+		}
+	}
+	return j
+}
+
 // onSaved runs on the UI goroutine after a write finished.
-func (u *App) onSaved(j saveJob, err error) {
+func (u *App) onSaved(j saveJob, r saveResult) {
 	if u.saved != nil {
-		defer u.saved(j, err)
+		defer u.saved(j, r.err)
 	}
-	if u.doc == nil {
+	d := u.doc
+	if d == nil || j.epoch != d.epoch {
 		return
 	}
-	if err != nil {
-		u.status.SetText("Could not write the recovery copy.")
+	now := time.Now().Format("15:04:05")
+	if r.err == nil || r.toRecovery {
+		u.lastSaved = max(u.lastSaved, j.gen)
+	}
+	switch {
+	case r.err == nil && j.path != "":
+		d.disk, d.base = r.id, j.snap
+		if j.gen == d.gen {
+			d.dirty = false
+		}
 		if j.explicit {
-			showError(u.win, "Could not save", "The trial could not be saved to "+j.path, err)
+			u.status.SetText("Saved to " + filepath.Base(j.path) + " at " + now + ".")
+		} else {
+			u.status.SetText("Every change is saved to " + filepath.Base(j.path) + " (last at " + now + ").")
 		}
-		return
-	}
-	if j.gen > u.lastSaved {
-		u.lastSaved = j.gen
-	}
-	if j.explicit {
-		if j.gen == u.doc.gen {
-			u.doc.dirty = false
-		}
-		u.status.SetText("Saved " + time.Now().Format("15:04:05"))
 		u.updateTitle()
-		return
-	}
-	if u.doc.dirty {
-		u.status.SetText("Changes kept safe " + time.Now().Format("15:04:05") + " (not yet saved to the trial file)")
+	case r.err == nil && d.conflict:
+		u.status.SetText("Your changes are kept in a recovery copy (" + now + "), not in " + filepath.Base(d.path) +
+			", which another program changed: choose File › Save to decide what to do.")
+	case r.err == nil:
+		u.status.SetText("Changes kept in a recovery copy at " + now + "; the trial has no file yet: choose File › Save as… to make one.")
+	case errors.Is(r.err, trialfile.ErrChangedOnDisk):
+		u.changedOnDisk(j.explicit)
+	default:
+		kept := ""
+		if r.toRecovery {
+			kept = " Your changes are kept in a recovery copy meanwhile."
+		}
+		u.status.SetText("Could not save to " + filepath.Base(j.path) + " (" + now + ")." + kept)
+		if j.explicit {
+			showError(u.win, "Could not save", "The trial could not be saved to "+j.path, r.err)
+		}
 	}
 }
 
@@ -504,8 +607,8 @@ func (u *App) askUnsaved(action string, then func()) {
 	save.Importance = widget.HighImportance
 	discard := widget.NewButton(action+" without saving", func() {
 		d.Hide()
-		u.saver.sync()
-		os.Remove(u.doc.recovery)
+		u.saver.discardPending()
+		removeRecovery(u.doc.recovery)
 		u.doc.dirty = false
 		then()
 	})
@@ -525,6 +628,10 @@ func (u *App) askUnsaved(action string, then func()) {
 func (u *App) quit() {
 	u.prefs.onWindowSizeChanged(u.win.Canvas().Size())
 	u.saver.stop()
+	if u.doc != nil {
+		u.unwatch()
+		u.doc.presence.Release()
+	}
 	u.compute.cancel()
 	u.win.Close()
 }

@@ -1,6 +1,9 @@
 package ui
 
-import "furlong/trial"
+import (
+	"furlong/trial"
+	"furlong/trial/trialfile"
+)
 
 // change says what an edit touched, so that steps redraw only what they must.
 type change int
@@ -19,11 +22,31 @@ const (
 type document struct {
 	t    *trial.Trial
 	path string // "" for a trial never saved
-	// recovery is where the autosave writes (see App.recoveryPath).
+	// recovery is where the autosave writes while the trial file cannot
+	// be written (see App.recoveryPath): a trial never saved, or one whose
+	// file changed on disk until the user decides.
 	recovery string
-	dirty    bool   // edited since the last explicit save
+	dirty    bool   // holds edits that are not in the trial file
 	gen      uint64 // incremented by every edit
 	hist     history
+
+	// epoch tells this document from the ones before it in the window;
+	// late reports of the saver and the watcher for another are ignored.
+	epoch uint64
+	// disk is the identity of the version of the file the window last
+	// loaded or wrote, and base that version's content (a private copy):
+	// the common ancestor of a three-way merge when the file changes on
+	// disk. Zero and nil for a trial never saved.
+	disk trialfile.Identity
+	base *trial.Trial
+	// conflict: the file changed on disk while the window has edits the
+	// file lacks; nothing is written to the file until the user chooses
+	// (reload, merge, save as); edits go to the recovery copy meanwhile.
+	conflict bool
+	// presence is the window's open-trial marker beside the file.
+	presence *trialfile.Presence
+	// stopWatch ends the watcher of the file (nil when none runs).
+	stopWatch chan struct{}
 
 	// row is the plot index touched by the edit being reported, or -1
 	// when the edit may touch any plot; screens use it to redraw one row.

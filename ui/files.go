@@ -32,7 +32,8 @@ func dialogSize(w fyne.Window) fyne.Size {
 }
 
 // save writes the trial to its file, asking for a place when it has none
-// (or asNew is set); then runs after it succeeded.
+// (or asNew is set); then runs after it succeeded. While the file has
+// changed on disk, it asks what to do instead.
 func (u *App) save(asNew bool, then func()) {
 	if u.doc == nil {
 		return
@@ -41,21 +42,38 @@ func (u *App) save(asNew bool, then func()) {
 		u.saveAsDialog(then)
 		return
 	}
+	if u.doc.conflict {
+		u.showConflict()
+		return
+	}
 	u.saveTo(u.doc.path, then)
 }
 
-// saveTo writes the trial to path through the saver and waits for it.
+// saveTo writes the trial to path through the saver and waits for it. A
+// new path (Save as) becomes the trial's file: the window's marker and
+// watcher move to it, and a file the user agreed to replace is expected
+// as it is now.
 func (u *App) saveTo(path string, then func()) {
-	old := u.doc.recovery
-	if u.doc.path != path {
-		u.doc.recovery = u.recoveryPath(path)
-		u.doc.path = path
+	d := u.doc
+	stale := ""
+	if d.path != path {
+		stale = d.recovery
+		u.unwatch()
+		d.presence.Release()
+		d.presence = nil
+		id, _ := trialfile.Stat(path) // zero for a new file
+		u.saver.setKnown(path, id)
+		d.path, d.disk, d.conflict = path, id, false
+		d.recovery = u.recoveryPath(path)
 		u.prefs.onFileOpened(path)
 		u.prefs.onLastFolderChanged(filepath.Dir(path))
+		u.markOpen(path)
+		u.watch()
 	}
 	done := make(chan error, 1)
-	u.saver.submit(saveJob{snap: cloneTrial(u.doc.t), path: path, gen: u.doc.gen,
-		explicit: true, staleRecovery: old, done: done})
+	j := u.job(true)
+	j.stale, j.done = stale, done
+	u.saver.submit(j)
 	// The explicit save is small; wait for it so that "then" (for example
 	// closing the window) only runs once the file is on disk.
 	if err := <-done; err == nil && then != nil {

@@ -1,6 +1,7 @@
 package ui
 
 import (
+	"context"
 	"os"
 	"path/filepath"
 	"strings"
@@ -9,55 +10,103 @@ import (
 
 	"fyne.io/fyne/v2/test"
 	"fyne.io/fyne/v2/widget"
+
+	"furlong/trial"
+	"furlong/trial/trialfile"
 )
 
-// After a crash the most recent state is offered back: the recovery copy
-// written by the autosave is newer than the trial file (issue 5's crash
-// rule).
+// A window edit kept only in the recovery copy (the file had changed on
+// disk, so the window wrote nothing over it) is offered again after a
+// crash although the file is newer than the copy, and restoring it keeps
+// the outside change too (issue 12: compare content, not times).
 func TestRecoveryAfterCrash(t *testing.T) {
 	u, _ := newTestApp(t, 0)
 	path := filepath.Join(t.TempDir(), "strip.furlong")
 	u.OpenTrial(smallTrial(t), "")
 	u.saveTo(path, nil)
-	// Make sure the recovery copy gets a later modification time.
-	old := time.Now().Add(-time.Minute)
-	if err := os.Chtimes(path, old, old); err != nil {
+	// Another program writes plot 6's yield.
+	if err := trialfile.Update(context.Background(), path, func(tr *trial.Trial) error {
+		tr.Traits[0].Values[5] = 6.5
+		return nil
+	}); err != nil {
 		t.Fatal(err)
 	}
 	u.showStep(stepRecord)
 	r := u.steps[stepRecord].(*recordStep)
 	r.table.Select(widget.TableCellID{Row: 0, Col: fixedCols})
 	enter(r, "4.5")
-	u.saver.sync() // the autosave reaches the disk; then the "crash"
+	u.saver.sync() // the checked save refuses; the edit goes to the recovery copy
+	if !u.doc.conflict {
+		t.Fatal("the window did not notice that the file changed")
+	}
+	if ft, _ := loadFile(path); !sameValue(ft.Traits[0].Values[0], nan()) || ft.Traits[0].Values[5] != 6.5 {
+		t.Fatal("the window wrote over the changed file")
+	}
+	// The recovery copy is older than the file: times must not decide.
+	old := time.Now().Add(-time.Hour)
+	if err := os.Chtimes(u.doc.recovery, old, old); err != nil {
+		t.Fatal(err)
+	}
+	// ... and the window is killed here.
 
 	u2, w2 := newTestApp(t, 0)
 	u2.recoveryDir = u.recoveryDir
 	if err := u2.OpenFile(path); err != nil {
 		t.Fatal(err)
 	}
-	if !sameValue(u2.doc.t.Traits[0].Values[0], nan()) {
-		t.Fatal("the file itself should not hold the unsaved value")
-	}
 	if w2.Canvas().Overlays().Top() == nil {
-		t.Fatal("no dialog offers the recovered changes")
+		t.Fatal("no dialog offers the edit kept in the recovery copy")
 	}
-	rp, rt, _, ok := u2.newerRecovery(path)
+	rec, ok := u2.pendingRecovery(path)
 	if !ok {
-		t.Fatal("the recovery copy is not found newer than the file")
+		t.Fatal("the recovery copy is not offered")
 	}
-	u2.restore(path, rp, rt)
-	if u2.doc.t.Traits[0].Values[0] != 4.5 || !u2.doc.dirty {
-		t.Fatalf("restored value %v, dirty %v", u2.doc.t.Traits[0].Values[0], u2.doc.dirty)
+	u2.restore(path, rec)
+	got := u2.doc.t.Traits[0].Values
+	if got[0] != 4.5 || got[5] != 6.5 || !u2.doc.dirty {
+		t.Fatalf("restored values %v / %v, dirty %v; want both edits", got[0], got[5], u2.doc.dirty)
 	}
 	u2.undo()
 	if !sameValue(u2.doc.t.Traits[0].Values[0], nan()) {
 		t.Fatal("the restore cannot be undone")
 	}
-
-	// An explicit save removes the recovery copy: nothing is offered then.
-	u.saveTo(path, nil)
-	if _, _, _, ok := u.newerRecovery(path); ok {
+	u2.redo()
+	u2.saveTo(path, nil)
+	if ft, _ := loadFile(path); ft.Traits[0].Values[0] != 4.5 || ft.Traits[0].Values[5] != 6.5 {
+		t.Fatalf("file after saving the restore holds %v", ft.Traits[0].Values[:6])
+	}
+	// Saved: nothing is offered any more.
+	if _, ok := u2.pendingRecovery(path); ok {
 		t.Fatal("a recovery copy is still offered after saving")
+	}
+}
+
+// A recovery copy with the same content as the file offers nothing, and
+// is removed, whatever its time.
+func TestRecoveryIdenticalNotOffered(t *testing.T) {
+	u, w := newTestApp(t, 0)
+	path := filepath.Join(t.TempDir(), "strip.furlong")
+	tr := smallTrial(t)
+	if err := saveFile(path, tr); err != nil {
+		t.Fatal(err)
+	}
+	rp := u.recoveryPath(path)
+	if err := os.MkdirAll(filepath.Dir(rp), 0o755); err != nil {
+		t.Fatal(err)
+	}
+	if err := saveFile(rp, tr); err != nil {
+		t.Fatal(err)
+	}
+	future := time.Now().Add(time.Hour)
+	os.Chtimes(rp, future, future)
+	if err := u.OpenFile(path); err != nil {
+		t.Fatal(err)
+	}
+	if w.Canvas().Overlays().Top() != nil {
+		t.Fatal("an identical recovery copy is offered")
+	}
+	if _, err := os.Stat(rp); err == nil {
+		t.Fatal("the identical recovery copy is left behind")
 	}
 }
 
