@@ -25,7 +25,7 @@ func newTestApp(t testing.TB, delay time.Duration) (*App, fyne.Window) {
 	if delay == 0 {
 		delay = time.Hour
 	}
-	u := New(a, w, Options{Version: "test", autosaveDelay: delay})
+	u := New(a, w, Options{Version: "test", autosaveDelay: delay, pollEvery: time.Hour})
 	// Deliveries of the analyser run on the test goroutine, when a test
 	// pumps them (pumpAnalysis), as the real driver runs them on the main
 	// goroutine.
