@@ -459,8 +459,8 @@ func (u *App) onSaved(j saveJob, r saveResult) {
 		}
 		u.updateTitle()
 	case r.err == nil && d.conflict:
-		u.status.SetText("Your changes are kept in a recovery copy (" + now + "), not in " + filepath.Base(d.path) +
-			", which another program changed: choose File › Save to decide what to do.")
+		u.status.SetText("Changes kept in a recovery copy (" + now + "): " + filepath.Base(d.path) +
+			" was changed elsewhere. File › Save to decide.")
 	case r.err == nil:
 		u.status.SetText("Changes kept in a recovery copy at " + now + "; the trial has no file yet: choose File › Save as… to make one.")
 	case errors.Is(r.err, trialfile.ErrChangedOnDisk):

@@ -376,9 +376,9 @@ func conflictPlace(t *trial.Trial, c trial.Conflict) string {
 	}
 	s := fmt.Sprintf("Plot %d · %s", c.Plot, trait)
 	if trial.IsMissing(c.Base) {
-		return s + " (no value before)"
+		return s + " · no value before"
 	}
-	return s + " (was " + conflictNumber(c.Base) + ")"
+	return s + " · was " + conflictNumber(c.Base)
 }
 
 // conflictSide words one side of a conflict.
