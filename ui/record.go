@@ -40,6 +40,11 @@ type recordStep struct {
 	sel     widget.TableCellID
 	hasSel  bool
 	derived map[int][]float64 // trait index → computed values, for derived traits
+	widths  []float32         // of each column, as setWidths set them
+	loaded  string            // the text loadEntry put in the entry
+	// returning is set while the grid goes back to a cell whose typed
+	// text could not be stored.
+	returning bool
 }
 
 func newRecordStep(u *App) *recordStep {
@@ -65,6 +70,8 @@ func newRecordStep(u *App) *recordStep {
 	}
 	r.table.UpdateHeader = r.updateHeader
 	r.table.OnSelected = r.onSelected
+	r.table.onTapped = r.focusEntry
+	r.table.onArrow = r.moveBy
 	r.setWidths()
 
 	r.exclude = widget.NewButtonWithIcon("Exclude plot…", theme.VisibilityOffIcon(), r.excludeDialog)
@@ -162,11 +169,60 @@ func (r *recordStep) onSelected(id widget.TableCellID) {
 		r.table.Select(id)
 		return
 	}
+	if r.returning {
+		return // back on a cell whose typed text was refused: keep it
+	}
+	if r.hasSel && id == r.sel {
+		r.focusEntry()
+		return
+	}
+	// Text typed in the cell being left is stored, as Enter would; text
+	// that cannot be stored keeps that cell selected with the text in the
+	// entry, so that nothing typed is dropped without a word.
+	if r.hasSel && r.pending() {
+		ok, note := r.store(r.entry.Text)
+		if !ok {
+			msg, imp := r.msg.Text, r.msg.Importance
+			r.returning = true
+			r.table.Select(r.sel)
+			r.returning = false
+			r.setMsg(msg, imp)
+			r.focusEntry()
+			return
+		}
+		defer func() {
+			if note != "" {
+				r.setMsg(note, widget.WarningImportance)
+			}
+		}()
+	}
 	r.sel, r.hasSel = id, true
 	r.loadEntry()
-	r.u.win.Canvas().Focus(r.entry)
-	// Typing replaces the value, as in a spreadsheet.
-	r.entry.TypedShortcut(&fyne.ShortcutSelectAll{})
+	r.focusEntry()
+}
+
+// focusEntry gives the keyboard to the value entry of the selected cell.
+func (r *recordStep) focusEntry() {
+	if r.hasSel && !r.entry.Disabled() {
+		r.u.win.Canvas().Focus(r.entry)
+	}
+}
+
+// pending reports whether the entry holds text typed since the selected
+// cell's value was loaded into it.
+func (r *recordStep) pending() bool {
+	return !r.entry.Disabled() && r.entry.Text != r.loaded
+}
+
+// moveBy selects the cell dRow rows and dCol columns from the selected one
+// (arrow keys on the grid), within the grid.
+func (r *recordStep) moveBy(dRow, dCol int) {
+	if !r.hasSel {
+		return
+	}
+	rows, cols := r.length()
+	next := widget.TableCellID{Row: min(max(r.sel.Row+dRow, 0), rows-1), Col: min(max(r.sel.Col+dCol, fixedCols), cols-1)}
+	r.table.Select(next)
 }
 
 // selTrait returns the selected trait index, or -1.
@@ -196,20 +252,25 @@ func (r *recordStep) loadEntry() {
 	where := fmt.Sprintf("Plot %d · %s %d · %s %s", p.Number, blockWord(t), p.Block, p.Treatment, name)
 	if j < 0 {
 		r.where.SetText(where)
-		r.entry.SetText("")
+		r.entry.replace("", false)
+		r.loaded = ""
 		r.entry.Disable()
 		return
 	}
 	tr := &t.Traits[j]
 	r.where.SetText(where + " — " + traitLabel(tr))
 	if tr.Derived != nil {
-		r.entry.SetText(formatValue(r.value(r.sel.Row, j), tr.Decimals))
+		r.entry.Enable()
+		r.entry.replace(formatValue(r.value(r.sel.Row, j), tr.Decimals), false)
+		r.loaded = r.entry.Text
 		r.entry.Disable()
 		r.setMsg("This value is computed from "+tr.Derived.WeightTrait+" and "+tr.Derived.MoistureTrait+"; enter those instead.", widget.LowImportance)
 		return
 	}
 	r.entry.Enable()
-	r.entry.SetText(editText(r.value(r.sel.Row, j)))
+	// Typing replaces the value, as in a spreadsheet.
+	r.entry.replace(editText(r.value(r.sel.Row, j)), true)
+	r.loaded = r.entry.Text
 	if note := tr.RangeNote(r.value(r.sel.Row, j)); note != "" {
 		r.setMsg(upperFirst(note)+". The value is kept.", widget.WarningImportance)
 	} else if ex, why := t.Excluded(r.sel.Row, tr.Key); ex {
@@ -228,39 +289,64 @@ func (r *recordStep) setMsg(s string, imp widget.Importance) {
 // (in walking order). Refused text keeps the selection and says why.
 func (r *recordStep) commit(text string, delta int) bool {
 	t := r.trial()
-	j := r.selTrait()
-	if j < 0 {
+	if r.selTrait() < 0 {
 		return false
 	}
-	tr := &t.Traits[j]
-	row := r.sel.Row
-	if tr.Derived == nil {
-		v, err := parseValue(text)
-		if err != nil {
-			r.setMsg(err.Error()+".", widget.DangerImportance)
-			return false
-		}
-		old := tr.Values[row]
-		if !(trial.IsMissing(old) && trial.IsMissing(v)) && old != v {
-			// The trial decides what a value may be: it refuses impossible
-			// values and keeps implausible ones (flagged below).
-			if err := t.SetValue(row, tr.Key, v); err != nil {
-				r.setMsg(refusalText(err), widget.DangerImportance)
-				return false
-			}
-			r.u.doc.record(&setValue{trait: j, plot: row, old: old, new: tr.Values[row]})
-		}
-		if note := tr.RangeNote(v); note != "" {
-			// Keep the warning in view after moving on.
-			defer r.setMsg(fmt.Sprintf("Plot %d: %s. The value is kept.", t.Plots[row].Number, note), widget.WarningImportance)
-		}
+	ok, note := r.store(text)
+	if !ok {
+		return false
 	}
+	row := r.sel.Row
 	next := row + delta
 	if next < 0 || next >= len(t.Plots) {
 		next = row
 	}
-	r.table.Select(widget.TableCellID{Row: next, Col: r.sel.Col})
+	if next == row {
+		r.loadEntry()
+	} else {
+		r.table.Select(widget.TableCellID{Row: next, Col: r.sel.Col})
+	}
+	if note != "" {
+		// Keep the warning in view after moving on.
+		r.setMsg(note, widget.WarningImportance)
+	}
 	return true
+}
+
+// store keeps text as the selected cell's value, as one undoable edit.
+// It reports whether the text was stored (a refusal is shown under the
+// entry) and, for a value outside the trait's valid range, the warning.
+func (r *recordStep) store(text string) (ok bool, note string) {
+	t := r.trial()
+	j := r.selTrait()
+	if j < 0 {
+		return false, ""
+	}
+	tr := &t.Traits[j]
+	row := r.sel.Row
+	if tr.Derived != nil {
+		return true, ""
+	}
+	v, err := parseValue(text)
+	if err != nil {
+		r.setMsg(fmt.Sprintf("Plot %d: %s.", t.Plots[row].Number, err.Error()), widget.DangerImportance)
+		return false, ""
+	}
+	old := tr.Values[row]
+	if !(trial.IsMissing(old) && trial.IsMissing(v)) && old != v {
+		// The trial decides what a value may be: it refuses impossible
+		// values and keeps implausible ones (flagged).
+		if err := t.SetValue(row, tr.Key, v); err != nil {
+			r.setMsg(refusalText(err), widget.DangerImportance)
+			return false, ""
+		}
+		r.u.doc.record(&setValue{trait: j, plot: row, old: old, new: tr.Values[row]})
+	}
+	r.loaded = r.entry.Text
+	if n := tr.RangeNote(v); n != "" {
+		note = fmt.Sprintf("Plot %d: %s. The value is kept.", t.Plots[row].Number, n)
+	}
+	return true, note
 }
 
 // refusalText is the message for a value trial.SetValue refused, as a
@@ -280,8 +366,7 @@ func (r *recordStep) typeInto(c rune) {
 	}
 	r.u.win.Canvas().Focus(r.entry)
 	if c != 0 {
-		r.entry.SetText(string(c))
-		r.entry.CursorColumn = len(r.entry.Text)
-		r.entry.Refresh()
+		r.entry.replace("", false)
+		r.entry.TypedRune(c)
 	}
 }

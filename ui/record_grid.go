@@ -19,16 +19,29 @@ func (r *recordStep) length() (int, int) {
 
 func (r *recordStep) setWidths() {
 	t := r.trial()
-	r.table.SetColumnWidth(colPlot, 70)
-	r.table.SetColumnWidth(colBlock, 60)
-	r.table.SetColumnWidth(colTreatment, r.colWidth(colTreatment))
+	r.widths = r.widths[:0]
+	set := func(col int, w float32) {
+		r.table.SetColumnWidth(col, w)
+		r.widths = append(r.widths, w)
+	}
+	set(colPlot, 70)
+	set(colBlock, 60)
+	set(colTreatment, r.colWidth(colTreatment))
 	pad := 4 * theme.Padding()
 	for j := range t.Traits {
 		head := traitLabel(&t.Traits[j]) + " ="
 		w := fyne.MeasureText(head, theme.TextSize(), fyne.TextStyle{Bold: true}).Width + pad
-		r.table.SetColumnWidth(fixedCols+j, min(max(w, 90), 240))
+		set(fixedCols+j, min(max(w, 90), 240))
 	}
-	r.table.SetColumnWidth(fixedCols+len(t.Traits), r.colWidth(fixedCols+len(t.Traits)))
+	set(fixedCols+len(t.Traits), r.colWidth(fixedCols+len(t.Traits)))
+}
+
+// colWidthAt is the width setWidths gave column col.
+func (r *recordStep) colWidthAt(col int) float32 {
+	if col < 0 || col >= len(r.widths) {
+		return 0
+	}
+	return r.widths[col]
 }
 
 // value returns the value shown for plot i and trait j.
