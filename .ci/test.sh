@@ -20,6 +20,9 @@ go test -count=1 -timeout 20m ./...
 step "go test -race (statistics, trial model, files, export, window)"
 go test -count=1 -race -timeout 30m ./stats/... ./trial/... ./export/... ./ui/... ./sampledata/...
 
+step "real window: typing into the Record grid (Xvfb + xdotool)"
+bash .ci/realwindow.sh
+
 step "fuzz smoke"
 fuzz() { # package, target, time
   go test -run='^$' -fuzz="^$2\$" -fuzztime="$3" "$1"
