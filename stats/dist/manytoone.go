@@ -35,6 +35,7 @@ import (
 //     evaluated by adaptive Gauss–Kronrod quadrature in both variables, to
 //     an absolute error of about 1e-12 (Error reports 1e-11, a bound with
 //     room). Terms with the same λ are grouped, so large k costs little.
+//
 //   - Lattice: a general R (for example a blocked layout with missing plots)
 //     with k ≤ LatticeMaxK: the separation-of-variables transformation of
 //     Genz & Bretz (2002), J. Comput. Graph. Stat. 11, 950–971, integrated by
@@ -42,6 +43,7 @@ import (
 //     periodisation) over 12 seeded random shifts, doubling the points until
 //     3.5 standard errors of the 12 shift estimates are below Tol. The seed
 //     is fixed, so results repeat exactly; Error reports that estimate.
+//
 //   - Factor: a general R with k > LatticeMaxK: the product method applied to
 //     the closest one-factor structure λλ' (Hsu 1992, J. Comput. Graph. Stat.
 //     1, 151–168). This is an approximation; Error reports NaN for it, and
@@ -202,7 +204,6 @@ func (d *ManyToOne) Quantile(alpha float64, twoSided bool) float64 {
 	}
 	return (lo + hi) / 2
 }
-
 
 // ---- product structure ----
 
