@@ -62,7 +62,10 @@ type Result struct {
 	// withheld (Warnings says so); Options.Unprotected gives them anyway.
 	LSDLettersGiven bool
 
-	Pairs       []Pair
+	Pairs []Pair
+	// VsCheck compares every treatment with one check (Dunnett); nil
+	// unless asked for with CompareWithCheck.
+	VsCheck     *CheckComparison
 	Diagnostics Diagnostics
 	Warnings    []string // plain-language readings and notes
 

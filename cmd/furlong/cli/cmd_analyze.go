@@ -8,6 +8,7 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"math"
 	"os"
 	"sort"
 	"strconv"
@@ -29,6 +30,8 @@ type analyzeOptions struct {
 	responses                                                       stringList
 	alpha                                                           float64
 	unprotected, decimalComma                                       bool
+	check                                                           string
+	lowerBetter                                                     bool
 }
 
 type stringList []string
@@ -70,6 +73,8 @@ for the fields) or csv (one row per treatment mean).`,
 			fs.StringVar(&o.format, "format", "text", "output format: text, json or csv")
 			fs.StringVar(&o.transform, "transform", "", "analyse transformed values: log, sqrt or arcsin")
 			fs.BoolVar(&o.unprotected, "unprotected", false, "give LSD letters even when the treatment F test is not significant")
+			fs.StringVar(&o.check, "check", "", "compare every treatment with this check `code` (Dunnett); default: the trial's one check")
+			fs.BoolVar(&o.lowerBetter, "lower-is-better", false, "CSV: lower values are better (for the one-sided comparison with the check)")
 			fs.BoolVar(&o.decimalComma, "decimal-comma", false, "CSV: the comma-separated file has decimal commas in quoted cells (\"5,23\")")
 			return fs, func(ctx context.Context, args []string) error {
 				if len(args) != 1 {
@@ -93,6 +98,9 @@ func runAnalyze(ctx context.Context, o analyzeOptions) error {
 	}
 	if !(o.alpha > 0 && o.alpha < 1) {
 		return usagef("analyze: --alpha must be between 0 and 1, for example 0.05")
+	}
+	if o.lowerBetter && !isCSV(path) {
+		return usagef("analyze: --lower-is-better is for CSV tables; a trial's trait says which way is better")
 	}
 	tf, err := parseTransform(o.transform)
 	if err != nil {
@@ -121,6 +129,9 @@ func runAnalyze(ctx context.Context, o analyzeOptions) error {
 		outcomes, err = analysis.AnalyzeAll(ctx, t, keys, opts)
 	}
 	if err != nil {
+		return err
+	}
+	if err := compareWithChecks(outcomes, o.check, o.lowerBetter && isCSV(path)); err != nil {
 		return err
 	}
 	switch o.format {
@@ -316,7 +327,28 @@ type jsonTrait struct {
 	HSD         *float64         `json:"hsd"`
 	Pairs       []jsonPair       `json:"pairs"`
 	Diagnostics *jsonDiagnostics `json:"diagnostics"`
+	VsCheck     []jsonVsCheck    `json:"vs_check,omitempty"`
+	VsCheckInfo *jsonVsCheckInfo `json:"vs_check_method,omitempty"`
 	Warnings    []string         `json:"warnings"`
+}
+
+type jsonVsCheck struct {
+	Treatment string  `json:"treatment"`
+	Diff      float64 `json:"diff"`
+	SE        float64 `json:"se"`
+	Lower     float64 `json:"lower"`
+	Upper     float64 `json:"upper"`
+	PTwoSided float64 `json:"p_two_sided"`
+	PBetter   float64 `json:"p_better"`
+	Verdict   string  `json:"verdict"`
+}
+
+type jsonVsCheckInfo struct {
+	Check        string   `json:"check"`
+	Method       string   `json:"method"`
+	Error        *float64 `json:"error"`
+	Critical     float64  `json:"critical_t"`
+	HigherBetter bool     `json:"higher_is_better"`
 }
 
 func fp(v float64) *float64 { return &v }
@@ -377,12 +409,65 @@ func toJSON(oc analysis.Outcome) jsonTrait {
 	return jt
 }
 
+// compareWithChecks adds the comparisons with the check to every result:
+// the check given, or the one check of the trial. A check given that a
+// trait cannot be compared with is an error; a trial's own check that
+// cannot be used becomes a warning.
+func compareWithChecks(outcomes []analysis.Outcome, check string, lowerBetter bool) error {
+	for _, oc := range outcomes {
+		r := oc.Result
+		if r == nil {
+			continue
+		}
+		if lowerBetter {
+			r.HigherBetter = false
+		}
+		code := check
+		if code == "" {
+			code = analysis.CheckOf(r)
+		}
+		if code == "" {
+			continue
+		}
+		vc, err := analysis.CompareWithCheck(r, code)
+		if err != nil {
+			if check != "" {
+				return err
+			}
+			r.Warnings = append(r.Warnings, "No comparison with the check: "+Message(err))
+			continue
+		}
+		r.VsCheck = vc
+	}
+	return nil
+}
+
+func vsCheckJSON(vc *analysis.CheckComparison) ([]jsonVsCheck, *jsonVsCheckInfo) {
+	if vc == nil {
+		return nil, nil
+	}
+	rows := make([]jsonVsCheck, len(vc.Rows))
+	for i, r := range vc.Rows {
+		rows[i] = jsonVsCheck{Treatment: r.Treatment, Diff: r.Diff, SE: r.SE, Lower: r.Lower, Upper: r.Upper,
+			PTwoSided: r.PTwoSided, PBetter: r.PBetter, Verdict: r.Verdict}
+	}
+	info := &jsonVsCheckInfo{Check: vc.Check, Method: string(vc.Method), Critical: vc.Critical, HigherBetter: vc.HigherBetter}
+	if !math.IsNaN(vc.Error) {
+		info.Error = fp(vc.Error)
+	}
+	return rows, info
+}
+
 func writeAnalysisJSON(w io.Writer, outcomes []analysis.Outcome) error {
 	doc := struct {
 		Traits []jsonTrait `json:"traits"`
 	}{Traits: []jsonTrait{}}
 	for _, oc := range outcomes {
-		doc.Traits = append(doc.Traits, toJSON(oc))
+		jt := toJSON(oc)
+		if oc.Result != nil {
+			jt.VsCheck, jt.VsCheckInfo = vsCheckJSON(oc.Result.VsCheck)
+		}
+		doc.Traits = append(doc.Traits, jt)
 	}
 	enc := json.NewEncoder(w)
 	enc.SetIndent("", "  ")
@@ -548,6 +633,20 @@ func writeResultTables(w io.Writer, r *analysis.Result) {
 			parts = append(parts, fmt.Sprintf("non-additivity F %.3f, p %s", *d.NonAdditivityF, stats.FormatP(*d.NonAdditivityP)))
 		}
 		fmt.Fprintf(w, "Diagnostics: %s\n", strings.Join(parts, "; "))
+	}
+	if vc := r.VsCheck; vc != nil {
+		better := "higher"
+		if !vc.HigherBetter {
+			better = "lower"
+		}
+		fmt.Fprintf(w, "\nAgainst the check %s (Dunnett, single-step; %g%% simultaneous intervals; better = %s):\n", vc.Check, 100*(1-vc.Alpha), better)
+		tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
+		fmt.Fprintln(tw, "treatment\tdifference\tSE\tlower\tupper\tp (two-sided)\tp (better)\t\t")
+		for _, row := range vc.Rows {
+			fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t\n", row.Treatment, num(row.Diff, dec), num(row.SE, dec), num(row.Lower, dec), num(row.Upper, dec),
+				stats.FormatP(row.PTwoSided), stats.FormatP(row.PBetter), row.Verdict)
+		}
+		tw.Flush()
 	}
 	for _, s := range r.Warnings {
 		fmt.Fprintf(w, "Note: %s\n", s)
