@@ -19,3 +19,15 @@ const CautionShort = "One site-year is not a recommendation · follow product la
 
 // CautionText is Cautions as one paragraph.
 func CautionText() string { return strings.Join(Cautions, " ") }
+
+// EconomicCautions go with every economic output (optimum rates, margins,
+// returns): prices are the user's and change, one trial is not a
+// recommendation, and nutrient and product rules come first.
+var EconomicCautions = []string{
+	"Prices change, and the optimum moves with the price ratio.",
+	"The optimum from one trial is not a recommendation.",
+	"Follow local nutrient-management rules and regulations, the product label, and licensed advice.",
+}
+
+// EconomicCautionText is EconomicCautions as one paragraph.
+func EconomicCautionText() string { return strings.Join(EconomicCautions, " ") }

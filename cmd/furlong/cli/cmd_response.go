@@ -12,6 +12,7 @@ import (
 	"strconv"
 	"strings"
 
+	"furlong/export"
 	"furlong/stats"
 	"furlong/trial"
 	"furlong/trial/analysis"
@@ -30,10 +31,6 @@ type responseOptions struct {
 	LeaveOut   string // treatment codes left out of the trend
 	Format     string
 }
-
-// responseCaution is printed with every economic output.
-const responseCaution = "Prices change, and the optimum from one trial is not a recommendation: " +
-	"follow local nutrient-management rules and regulations, the product label, and licensed advice."
 
 func init() {
 	register(&command{
@@ -333,7 +330,7 @@ func fillResponse(r *responseJSON, s responseSeries, ratio float64) {
 	r.Notes = append(r.Notes, notes...)
 	if ratio > 0 {
 		r.PriceRatio = &ratio
-		r.Caution = responseCaution
+		r.Caution = export.EconomicCautionText()
 	}
 	bestAIC := math.Inf(1)
 	var best *stats.ResponseModel
