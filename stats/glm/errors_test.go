@@ -121,6 +121,14 @@ func TestNoNaN(t *testing.T) {
 		for i := range r.Residuals {
 			bad("residual", r.Residuals[i]+r.Fitted[i])
 		}
+		if (tc.s != Factorial) != (len(r.UnitResiduals) > 0) {
+			t.Errorf("%v: %d unit residual sets", tc.s, len(r.UnitResiduals))
+		}
+		for _, u := range r.UnitResiduals {
+			for _, v := range u.Values {
+				bad(u.Stratum+" unit residual", v)
+			}
+		}
 		if len(r.Residuals) != r.N || r.N != len(m.Response)-tc.missing {
 			t.Errorf("%v: %d residuals for %d plots", tc.s, len(r.Residuals), r.N)
 		}

@@ -280,6 +280,104 @@ func (st *strata) errorTerms(blk int) [][]term {
 	return out
 }
 
+// order lists the terms of the strata model: block, then per stratum its
+// treatment terms and its error terms; kind says what each is (−1 block,
+// k ≥ 0 treatment term k, −2−s an error term of stratum s).
+func (st *strata) order(d *design, trt []term) ([]term, []int) {
+	ets := st.errorTerms(d.block())
+	order := []term{{d.block()}}
+	kind := []int{-1}
+	for s := range len(st.units) + 1 {
+		for k, t := range trt {
+			if st.stratum[k] == s {
+				order = append(order, t)
+				kind = append(kind, k)
+			}
+		}
+		if s < len(st.units) {
+			for _, et := range ets[s] {
+				order = append(order, et)
+				kind = append(kind, -2-s)
+			}
+		}
+	}
+	return order, kind
+}
+
+// unitResiduals fills the residuals of the higher strata: for stratum s,
+// the fit of the strata model up to and including error s minus the fit
+// without error s's terms. Every term involved is constant within a unit
+// of s (a main plot, a strip), so this is one value per unit: the
+// main-plot residual ȳ_ik − ȳ_i − ȳ_k + ȳ of a balanced split plot.
+func unitResiduals(d *design, st strata, order []term, kind []int, res *Result) {
+	for s, u := range st.units {
+		var with, without []term
+		last := -1
+		for k := range order {
+			if kind[k] == -2-s {
+				last = k
+			}
+		}
+		for k := 0; k <= last; k++ {
+			with = append(with, order[k])
+			if kind[k] != -2-s {
+				without = append(without, order[k])
+			}
+		}
+		fa := fitValues(d, with)
+		fb := fitValues(d, without)
+		if fa == nil || fb == nil {
+			continue
+		}
+		idx, cnt := d.unitIndex(u)
+		ur := UnitResiduals{Stratum: st.names[s], Unit: idx, Values: make([]float64, cnt)}
+		if l, ok := res.Line(st.names[s]); ok {
+			ur.DF = l.DF
+		}
+		for i := range d.n {
+			ur.Values[idx[i]] = fa[i] - fb[i]
+		}
+		if ur.DF == 0 {
+			ur.DF = rankOf(d, with) - rankOf(d, without)
+		}
+		res.UnitResiduals = append(res.UnitResiduals, ur)
+	}
+}
+
+// fitValues returns the least-squares fitted values of the terms.
+func fitValues(d *design, terms []term) []float64 {
+	mx := d.build(terms)
+	ne := mx.normal(d.y, d.ybar)
+	all := make([]int, mx.p)
+	for j := range all {
+		all[j] = j
+	}
+	f, err := ne.fit(all)
+	if err != nil {
+		return nil
+	}
+	out := make([]float64, d.n)
+	for i := range d.n {
+		row := mx.x[i*mx.p : (i+1)*mx.p]
+		v := d.ybar
+		for j, x := range row {
+			v += x * f.beta[j]
+		}
+		out[i] = v
+	}
+	return out
+}
+
+func rankOf(d *design, terms []term) int {
+	mx := d.build(terms)
+	ne := mx.normal(d.y, d.ybar)
+	all := make([]int, mx.p)
+	for j := range all {
+		all[j] = j
+	}
+	return ne.chol(all).k
+}
+
 // unitSize is the number of plots in each unit of term u (balanced data).
 func (d *design) unitSize(u term) float64 {
 	c := 1
@@ -319,24 +417,7 @@ func (d *design) unitIndex(u term) (idx []int, count int) {
 func fitStrata(d *design, mx *matrix, ne *normal, m *Model, trt []term, res *Result) (*inference, error) {
 	st := newStrata(d, m.Structure, trt)
 	ns := len(st.units) + 1
-	ets := st.errorTerms(d.block())
-	// Strata model: block, then per stratum its terms and its error terms.
-	order := []term{{d.block()}}
-	kind := []int{-1} // -1 block, ≥0 treatment term index, -2-k error k
-	for s := range ns {
-		for k, t := range trt {
-			if st.stratum[k] == s {
-				order = append(order, t)
-				kind = append(kind, k)
-			}
-		}
-		if s < len(st.units) {
-			for _, et := range ets[s] {
-				order = append(order, et)
-				kind = append(kind, -2-s)
-			}
-		}
-	}
+	order, kind := st.order(d, trt)
 	smx := d.build(order)
 	sne := smx.normal(d.y, d.ybar)
 	all := make([]int, smx.p)
@@ -488,6 +569,7 @@ func fitStrata(d *design, mx *matrix, ne *normal, m *Model, trt []term, res *Res
 	// Residuals within the lowest stratum.
 	stratumResiduals(d, smx, sne, res)
 	res.ResidualDF = dfs[ns-1]
+	unitResiduals(d, st, order, kind, res)
 	return in, nil
 }
 

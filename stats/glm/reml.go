@@ -418,25 +418,13 @@ func fitREML(d *design, mx *matrix, ne *normal, m *Model, trt []term, res *Resul
 		}
 		res.Lines = append(res.Lines, Line{Source: termName(t, d.names), Role: RoleTreatment, DF: ft.df, HasTest: true, F: ft.f, P: ft.p, DFDen: ft.dfDen})
 	}
-	// Residuals within the lowest stratum.
-	order := []term{{d.block()}}
-	order = append(order, trt...)
-	for _, ets := range st.errorTerms(d.block()) {
-		order = append(order, ets...)
-	}
+	// Residuals within the lowest stratum, and per unit of the higher ones.
+	order, kind := st.order(d, trt)
 	smx := d.build(order)
 	stratumResiduals(d, smx, smx.normal(d.y, d.ybar), res)
-	res.ResidualDF = d.n - smxRank(smx, d)
+	res.ResidualDF = d.n - rankOf(d, order)
+	unitResiduals(d, st, order, kind, res)
 	return in, nil
-}
-
-func smxRank(smx *matrix, d *design) int {
-	ne := smx.normal(d.y, d.ybar)
-	all := make([]int, smx.p)
-	for j := range all {
-		all[j] = j
-	}
-	return ne.chol(all).k
 }
 
 func unitWords(s Structure, nu int) string {

@@ -210,7 +210,24 @@ type Result struct {
 	Fitted     []float64
 	Residuals  []float64
 	ResidualDF int
-	Alpha      float64
+	// UnitResiduals are the residuals of the higher error strata of split
+	// and strip plots (main plots; sub-plots of a split-split plot;
+	// strips), one per unit, for diagnostics of error (a), (b).
+	UnitResiduals []UnitResiduals
+	Alpha         float64
+}
+
+// UnitResiduals are the residuals of one higher error stratum: the
+// least-squares fit with the stratum's error terms as fixed effects minus
+// the fit without them (Gomez & Gomez 1984, section 3.4: the block ×
+// main-plot interaction effects of a split plot).
+type UnitResiduals struct {
+	Stratum string // "error_a", "error_b"
+	// Unit numbers each plot analysed (following Result.Obs) with its
+	// unit; Values holds one residual per unit.
+	Unit   []int
+	Values []float64
+	DF     int // the stratum's degrees of freedom
 }
 
 // Line returns the line with the given source, if any.

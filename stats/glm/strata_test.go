@@ -296,3 +296,46 @@ func TestOatsSlices(t *testing.T) {
 	}
 	_ = mat.NewDense
 }
+
+// TestOatsUnitResiduals checks the main-plot residuals of the balanced
+// oats split plot against their definition ȳ_ik − ȳ_i − ȳ_k + ȳ (variety
+// i, block k) and their sum of squares, times the 4 subplots, against
+// error (a) of the R 4.2.2 strata analysis (testdata/oats-split.expected.json).
+func TestOatsUnitResiduals(t *testing.T) {
+	t.Parallel()
+	m := loadCSV(t, "oats-split.csv", []string{"variety", "nitrogen"}, "block", "yield")
+	m.Structure = SplitPlot
+	r, err := Fit(m)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(r.UnitResiduals) != 1 {
+		t.Fatalf("%d unit residual sets", len(r.UnitResiduals))
+	}
+	ur := r.UnitResiduals[0]
+	gm := r.GrandMean
+	mV, mK, mVK := cellMeans(m, []int{0}), cellMeans(m, []int{2}), cellMeans(m, []int{0, 2})
+	ss := 0.0
+	for k, i := range r.Obs {
+		v, b := m.Factors[0].Index[i], m.Block.Index[i]
+		want := mVK[key(v, b)] - mV[key(v)] - mK[key(b)] + gm
+		if got := ur.Values[ur.Unit[k]]; !near(got, want, 1e-9) {
+			t.Errorf("plot %d: main-plot residual %.10g, want %.10g", i+1, got, want)
+		}
+	}
+	for _, v := range ur.Values {
+		ss += 4 * v * v
+	}
+	ref := loadRef(t, "oats-split.expected.json")
+	if ur.Stratum != "error_a" || ur.DF != 10 || len(ur.Values) != 18 || !near(ss, *ref.Anova[2].SS, 1e-9) {
+		t.Errorf("%s df %d, %d units, 4·Σr² = %.10g, want error_a 10 18 %.10g", ur.Stratum, ur.DF, len(ur.Values), ss, *ref.Anova[2].SS)
+	}
+	// Within-stratum residuals sum to error (b) (same source).
+	sb := 0.0
+	for _, e := range r.Residuals {
+		sb += e * e
+	}
+	if !near(sb, *ref.Anova[5].SS, 1e-9) || r.ResidualDF != 45 {
+		t.Errorf("Σ residual² %.10g on %d, want %.10g on 45", sb, r.ResidualDF, *ref.Anova[5].SS)
+	}
+}
