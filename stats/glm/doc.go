@@ -102,5 +102,8 @@
 // Result.Residuals are within the lowest stratum: the response minus the
 // least-squares fit of all fixed terms and of every error unit as a fixed
 // effect, so main-plot (or strip) variation does not inflate them; for a
-// factorial they are the ordinary residuals.
+// factorial they are the ordinary residuals. Result.UnitResiduals holds
+// the residuals of each higher stratum, one per main plot (or sub-plot,
+// or strip): the fit with that stratum's error terms as fixed effects
+// minus the fit without them.
 package glm
