@@ -161,10 +161,10 @@ func fitFactorial(d *design, mx *matrix, ne *normal, trt []term, res *Result) (*
 		if df == 0 {
 			return nil, errorf(NotEstimable, "", -1, "the %s effect cannot be estimated with the plots that have data; check the missing plots", termName(t, d.names))
 		}
-		l := Line{Source: termName(t, d.names), Role: RoleTreatment, DF: df, HasSS: true, SS: ss, MS: ss / float64(df),
+		l := Line{Source: termName(t, d.names), Role: RoleTreatment, Factors: append([]int(nil), t...), DF: df, HasSS: true, SS: ss, MS: ss / float64(df),
 			HasTest: true, ErrorTerm: "error", DFDen: float64(dfe)}
 		if d.hasBlock() && k == 0 {
-			l.Role = RoleBlock
+			l.Role, l.Factors = RoleBlock, nil
 		}
 		l.F = l.MS / mse
 		l.P = fSurvival(l.F, float64(df), float64(dfe))
@@ -474,7 +474,7 @@ func fitStrata(d *design, mx *matrix, ne *normal, m *Model, trt []term, res *Res
 			res.Lines = append(res.Lines, Line{Source: d.names[d.block()], Role: RoleBlock, DF: lines[k].df, HasSS: true, SS: lines[k].ss, MS: lines[k].ss / float64(lines[k].df)})
 		case kind[k] >= 0:
 			s := st.stratum[kind[k]]
-			l := Line{Source: termName(t, d.names), Role: RoleTreatment, DF: lines[k].df, HasSS: true, SS: lines[k].ss,
+			l := Line{Source: termName(t, d.names), Role: RoleTreatment, Factors: append([]int(nil), t...), DF: lines[k].df, HasSS: true, SS: lines[k].ss,
 				MS: lines[k].ss / float64(lines[k].df), HasTest: true, ErrorTerm: st.names[s], DFDen: float64(dfs[s])}
 			l.F = l.MS / ms[s]
 			l.P = fSurvival(l.F, float64(l.DF), float64(dfs[s]))

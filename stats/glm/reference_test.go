@@ -13,6 +13,17 @@ func TestWarpbreaksFactorial(t *testing.T) {
 		t.Fatal(err)
 	}
 	checkAgainst(t, m, r, loadRef(t, "warpbreaks-factorial.expected.json"), 1e-9, 1e-9)
+	// Roles of the lines (common practice: main effects, interaction, one error).
+	for _, c := range []struct {
+		src                  string
+		role                 Role
+		interaction, stratum bool
+	}{{"wool", RoleTreatment, false, false}, {"wool:tension", RoleTreatment, true, false}, {"error", RoleError, false, false}, {"total", RoleTotal, false, false}} {
+		l, _ := r.Line(c.src)
+		if l.Role != c.role || l.Interaction() != c.interaction || l.Stratum() != c.stratum {
+			t.Errorf("%s: role %v interaction %v stratum %v", c.src, l.Role, l.Interaction(), l.Stratum())
+		}
+	}
 }
 
 // Yates (1935) oats split plot, R 4.2.2 aov with Error(block/variety) and
@@ -30,6 +41,15 @@ func TestOatsSplit(t *testing.T) {
 	// good to about 1e-6 relative (refdata README): hence the looser
 	// tolerance for them.
 	checkAgainst(t, m, r, ref, 1e-9, 1e-6)
+	if l, _ := r.Line("error_a"); !l.Stratum() || l.Role != RoleError {
+		t.Errorf("error_a is not a stratum error line: %+v", l)
+	}
+	if l, _ := r.Line("variety:nitrogen"); !l.Interaction() || l.ErrorTerm != "error_b" {
+		t.Errorf("variety:nitrogen: %+v", l)
+	}
+	if l, _ := r.Line("variety"); l.Interaction() || l.ErrorTerm != "error_a" {
+		t.Errorf("variety: %+v", l)
+	}
 	for k, v := range ref.SED {
 		s, ok := r.SED(k)
 		if !ok || !near(s.SED, v, 1e-9) || s.Min != s.Max && !near(s.Min, s.Max, 1e-9) {

@@ -416,7 +416,7 @@ func fitREML(d *design, mx *matrix, ne *normal, m *Model, trt []term, res *Resul
 		if !ft.ok {
 			continue
 		}
-		res.Lines = append(res.Lines, Line{Source: termName(t, d.names), Role: RoleTreatment, DF: ft.df, HasTest: true, F: ft.f, P: ft.p, DFDen: ft.dfDen})
+		res.Lines = append(res.Lines, Line{Source: termName(t, d.names), Role: RoleTreatment, Factors: append([]int(nil), t...), DF: ft.df, HasTest: true, F: ft.f, P: ft.p, DFDen: ft.dfDen})
 	}
 	// Residuals within the lowest stratum, and per unit of the higher ones.
 	order, kind := st.order(d, trt)

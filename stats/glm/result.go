@@ -1,6 +1,9 @@
 package glm
 
-// Role says what a line of the analysis of variance is.
+// Role says what a line of the analysis of variance is. For package
+// stats's roles: a treatment line with one factor is a factor main effect,
+// with two or three an interaction; an error line other than "error" is
+// the error of one stratum (Line.Stratum).
 type Role int
 
 // The roles of a Line.
@@ -52,9 +55,12 @@ func (m Method) String() string {
 type Line struct {
 	Source string // "block", "A", "A:B", "A:B:C", "error", "error_a", "error_b", "error_c", "total"
 	Role   Role
-	DF     int // degrees of freedom (numerator df for a test)
-	HasSS  bool
-	SS, MS float64
+	// Factors are the treatment factors of a treatment line (indices into
+	// Model.Factors): one for a main effect, more for an interaction.
+	Factors []int
+	DF      int // degrees of freedom (numerator df for a test)
+	HasSS   bool
+	SS, MS  float64
 	// HasTest is true for lines with an F test; DFDen is its denominator
 	// df (whole for sums of squares, Satterthwaite for REML) and
 	// ErrorTerm the line it is tested against ("" for REML).
@@ -66,6 +72,15 @@ type Line struct {
 	HasCV     bool
 	CVPercent float64
 }
+
+// Interaction reports whether the line is an interaction of two or more
+// treatment factors.
+func (l Line) Interaction() bool { return l.Role == RoleTreatment && len(l.Factors) > 1 }
+
+// Stratum reports whether the line is the error of one stratum of a split
+// or strip plot ("error_a", ...), rather than the single error of a
+// factorial.
+func (l Line) Stratum() bool { return l.Role == RoleError && l.Source != "error" }
 
 // Component is an estimated variance component.
 type Component struct {
