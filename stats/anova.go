@@ -12,6 +12,11 @@ type ANOVA struct {
 
 	GrandMean float64 // arithmetic mean of all observations
 	MSE       float64 // error mean square
+	// RootMSE is √MSE, computed before MSE is scaled back to the data's
+	// unit, so it keeps full precision even where MSE itself (the square of
+	// very small data) falls below the float64 range. Use it for
+	// standardised residuals.
+	RootMSE float64
 	DFError   int
 	CVPercent float64 // 100·√MSE / GrandMean
 	RSquared  float64 // 1 − SS(error)/SS(total)
@@ -44,6 +49,20 @@ type ANOVA struct {
 	Leverage []float64
 
 	pairSE func(i, j int) float64
+	meanW  []float64 // least-squares means on the standardised scale
+	unit   float64   // that scale's unit in the data's unit
+}
+
+// MeanDiff is the difference of the least-squares means of treatment
+// levels i and j, Means[i].Mean − Means[j].Mean, computed on the centred
+// scale of the fit: exact to rounding even when the means share a large
+// offset (1e15 + small differences) that the means themselves cannot hold
+// to the last digit. It panics when i or j is not a treatment level.
+func (a *ANOVA) MeanDiff(i, j int) float64 {
+	if a.meanW == nil {
+		return a.Means[i].Mean - a.Means[j].Mean
+	}
+	return a.unit * (a.meanW[i] - a.meanW[j])
 }
 
 // PairSE is the standard error of the difference of the least-squares means

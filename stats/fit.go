@@ -62,8 +62,7 @@ type fitResult struct {
 }
 
 func fit(m Model, forceQR bool) (*ANOVA, error) {
-	y := m.Response
-	n := len(y)
+	n := len(m.Response)
 	trt := prepFactor(m.Treatment, n, "treatment")
 	trt.role = RoleTreatment
 	nuis := make([]factorInfo, len(m.Nuisance))
@@ -77,17 +76,11 @@ func fit(m Model, forceQR bool) (*ANOVA, error) {
 	if n == 0 {
 		return nil, &InputError{Kind: NoData, Level: -1, Obs: -1, Reason: ErrNoData.Reason}
 	}
-	maxAbs := 0.0
-	for i, v := range y {
+	for i, v := range m.Response {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
 			return nil, &InputError{Kind: NonFiniteValue, Level: -1, Obs: i,
 				Reason: fmt.Sprintf("value number %d is not a finite number; mark it as missing instead", i+1)}
 		}
-		maxAbs = math.Max(maxAbs, math.Abs(v))
-	}
-	if maxAbs > 1e150 {
-		return nil, &InputError{Kind: NonFiniteValue, Level: -1, Obs: -1,
-			Reason: "the values are too large to analyse; record them in a larger unit"}
 	}
 	if err := checkLevels(trt, nuis); err != nil {
 		return nil, err
@@ -103,6 +96,21 @@ func fit(m Model, forceQR bool) (*ANOVA, error) {
 			Reason: "there are too few observations to estimate the experimental error: each treatment needs more replicates, or fewer plots may be missing"}
 	}
 	balanced := isBalanced(trt, nuis, n)
+
+	// Fit the data centred and scaled to [-1, 1], so that the analysis is
+	// the same whatever the unit and origin of the values.
+	y, sc := standardise(m.Response)
+	if sc.spread == 0 {
+		return nil, &InputError{Kind: ZeroErrorVariance, Level: -1, Obs: -1, Reason: sameValueReason}
+	}
+	if sc.spread > maxSpread {
+		return nil, &InputError{Kind: NonFiniteValue, Level: -1, Obs: -1,
+			Reason: "the values differ by too much to analyse (their squares cannot be represented); record them in a larger unit"}
+	}
+	maxAbs := 0.0
+	for _, v := range y {
+		maxAbs = math.Max(maxAbs, math.Abs(v))
+	}
 
 	gm := mean(y)
 	d := make([]float64, n)
@@ -131,8 +139,7 @@ func fit(m Model, forceQR bool) (*ANOVA, error) {
 	floor := float64(n) * math.Pow(32*eps*maxAbs, 2)
 	switch {
 	case sst <= floor:
-		return nil, &InputError{Kind: ZeroErrorVariance, Level: -1, Obs: -1,
-			Reason: "every plot has exactly the same value, so there is no variation to analyse; check that the data were entered for this trait"}
+		return nil, &InputError{Kind: ZeroErrorVariance, Level: -1, Obs: -1, Reason: sameValueReason}
 	case r.sse <= floor:
 		reason := "every plot of a treatment has exactly the same value, so there is no experimental error to test against; check that values were not copied from plot to plot"
 		if len(nuis) > 0 {
@@ -140,7 +147,111 @@ func fit(m Model, forceQR bool) (*ANOVA, error) {
 		}
 		return nil, &InputError{Kind: ZeroErrorVariance, Level: -1, Obs: -1, Reason: reason}
 	}
-	return assemble(r, trt, nuis, n, dfe, gm, sst, balanced), nil
+	a := assemble(r, trt, nuis, n, dfe, gm, sst, balanced)
+	sc.restore(a)
+	return a, nil
+}
+
+const sameValueReason = "every plot has exactly the same value, so there is no variation to analyse; check that the data were entered for this trait"
+
+// maxSpread is the largest spread of the values Fit accepts: sums of
+// squares of larger differences would overflow float64.
+const maxSpread = 1e150
+
+// scaling maps the responses to y = s1·(c + s2·w), with s1 and s2 powers of
+// two (so that dividing by them is exact) and w centred in [-1, 1].
+type scaling struct {
+	s1, c, s2 float64
+	spread    float64 // s1·s2: the unit of w in the data's own unit
+}
+
+// standardise returns the responses centred and scaled as scaling
+// describes. Dividing by a power of two is exact; subtracting the centre
+// from nearby values is exact too (Sterbenz), so the differences between
+// the values survive intact even when they are tiny compared with the
+// values themselves (1e15 + small differences). spread is 0 when every
+// value is the same.
+func standardise(y []float64) ([]float64, scaling) {
+	maxAbs := 0.0
+	for _, v := range y {
+		maxAbs = math.Max(maxAbs, math.Abs(v))
+	}
+	if maxAbs == 0 {
+		return make([]float64, len(y)), scaling{s1: 1, s2: 1}
+	}
+	s1 := pow2Above(maxAbs)
+	z := make([]float64, len(y))
+	for i, v := range y {
+		z[i] = v / s1
+	}
+	c := mean(z)
+	dev := 0.0
+	for i := range z {
+		z[i] -= c
+		dev = math.Max(dev, math.Abs(z[i]))
+	}
+	if dev == 0 {
+		return z, scaling{s1: s1, c: c, s2: 1}
+	}
+	s2 := pow2Above(dev)
+	for i := range z {
+		z[i] /= s2
+	}
+	return z, scaling{s1: s1, c: c, s2: s2, spread: s1 * s2}
+}
+
+// pow2Above is the smallest power of two not below v > 0.
+func pow2Above(v float64) float64 {
+	f, e := math.Frexp(v) // v = f·2^e, 0.5 ≤ f < 1
+	if f == 0.5 {
+		return math.Ldexp(1, e-1)
+	}
+	return math.Ldexp(1, e)
+}
+
+// level is a value of the standardised scale in the data's unit.
+func (s scaling) level(w float64) float64 { return s.s1 * (s.c + s.s2*w) }
+
+// restore puts the results of a fit to the standardised responses back in
+// the data's unit: levels (means, fitted values) through level, differences
+// (residuals, standard errors) times spread, sums of squares times spread².
+// F, p, R², CV%, leverages and the relative efficiency do not depend on the
+// unit and are left as they are. Sums of squares of data smaller than about
+// 1e-154 fall below the float64 range and lose digits (or become 0); the
+// tests and standard errors, computed on the standardised scale, do not.
+func (s scaling) restore(a *ANOVA) {
+	d, d2 := s.spread, s.spread*s.spread
+	// CV% from the standardised fit: 100·√MSE / |grand mean|, unit free.
+	gmz := s.c + s.s2*a.GrandMean
+	a.CVPercent = 0
+	if gmz != 0 {
+		a.CVPercent = 100 * s.s2 * math.Sqrt(a.MSE) / math.Abs(gmz)
+	}
+	a.RootMSE = d * math.Sqrt(a.MSE)
+	a.GrandMean = s.s1 * gmz
+	a.MSE *= d2
+	for i := range a.Sources {
+		a.Sources[i].SS *= d2
+		a.Sources[i].MS *= d2
+	}
+	a.meanW = make([]float64, len(a.Means))
+	a.unit = d
+	for i := range a.Means {
+		m := &a.Means[i]
+		a.meanW[i] = m.Mean
+		m.Mean, m.RawMean, m.SE = s.level(m.Mean), s.level(m.RawMean), m.SE*d
+	}
+	for _, p := range []*float64{a.SEMean, a.SED} {
+		if p != nil {
+			*p *= d
+		}
+	}
+	for i := range a.Fitted {
+		a.Fitted[i] = s.level(a.Fitted[i])
+		a.Residuals[i] *= d
+	}
+	inner := a.pairSE
+	a.pairSE = func(i, j int) float64 { return d * inner(i, j) }
 }
 
 const eps = 0x1p-52
@@ -551,9 +662,6 @@ func assemble(r *fitResult, trt factorInfo, nuis []factorInfo, n, dfe int, gm, s
 		Fitted:    r.fitted,
 		Residuals: r.resid,
 		Leverage:  r.lev,
-	}
-	if gm != 0 {
-		a.CVPercent = 100 * math.Sqrt(mse) / math.Abs(gm)
 	}
 	p := r.p
 	w := r.w

@@ -46,14 +46,18 @@ func residualsOf(t *trial.Trial, r *analysis.Result) (residualData, error) {
 	n := len(a.Residuals)
 	d := residualData{fitted: a.Fitted, std: make([]float64, n), labels: make([]string, n)}
 	own := r.Diagnostics.StandardizedResiduals
+	root := a.RootMSE // √MSE with full digits (MSE of tiny data underflows)
+	if root == 0 && a.MSE > 0 {
+		root = math.Sqrt(a.MSE)
+	}
 	for i := range d.std {
 		switch {
 		case len(own) == n:
 			d.std[i] = own[i]
-		case len(a.Leverage) == n && a.MSE > 0 && a.Leverage[i] < 1:
-			d.std[i] = a.Residuals[i] / math.Sqrt(a.MSE*(1-a.Leverage[i]))
-		case a.MSE > 0:
-			d.std[i] = a.Residuals[i] / math.Sqrt(a.MSE)
+		case len(a.Leverage) == n && root > 0 && a.Leverage[i] < 1:
+			d.std[i] = a.Residuals[i] / (root * math.Sqrt(1-a.Leverage[i]))
+		case root > 0:
+			d.std[i] = a.Residuals[i] / root
 		default:
 			d.std[i] = 0
 		}

@@ -46,6 +46,9 @@ func TukeyNonAdditivity(values []float64, block, treatment []int, blocks, treatm
 	if err := checkFinite(test, values); err != nil {
 		return NonAdditivity{}, err
 	}
+	// F and p are unit free: test standardised values (see standardise) and
+	// give the sums of squares back in the values' unit.
+	values, unit := standardise(values)
 	y := make([]float64, b*t)
 	seen := make([]bool, b*t)
 	for i, v := range values {
@@ -105,5 +108,6 @@ func TukeyNonAdditivity(values []float64, block, treatment []int, blocks, treatm
 	}
 	f := ssn / (rem / float64(df2))
 	p := mathext.RegIncBeta(float64(df2)/2, 0.5, float64(df2)/(float64(df2)+f))
-	return NonAdditivity{SS: ssn, Remainder: rem, F: f, DF1: 1, DF2: df2, P: math.Min(p, 1)}, nil
+	u2 := unit * unit
+	return NonAdditivity{SS: ssn * u2, Remainder: rem * u2, F: f, DF1: 1, DF2: df2, P: math.Min(p, 1)}, nil
 }

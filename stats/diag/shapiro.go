@@ -74,10 +74,13 @@ func ShapiroWilk(x []float64) (ShapiroWilkResult, error) {
 			return ShapiroWilkResult{}, notApplicable("normality", "a residual is missing or infinite, so normality cannot be tested")
 		}
 	}
-	xs := slices.Clone(x)
+	// W does not depend on the unit or origin of x: work on standardised
+	// values so that tiny (1e-160) or huge (1e100) residuals are tested
+	// like any others.
+	xs, unit := standardise(x)
 	slices.Sort(xs)
 	rng := xs[n-1] - xs[0]
-	if rng < 1e-10*math.Max(1, math.Abs(xs[0])) {
+	if unit == 0 || !(rng > 0) {
 		return ShapiroWilkResult{}, notApplicable("normality", "all residuals are equal, so normality cannot be tested")
 	}
 

@@ -78,6 +78,7 @@ func Levene(values []float64, group []int, groups int, centre Centre) (FTest, er
 	if err := checkFinite("Levene", values); err != nil {
 		return FTest{}, err
 	}
+	values, _ = standardise(values) // F is unit free; see standardise
 	g := groupValues(values, group, groups)
 	k := len(g)
 	n := len(values)
@@ -132,6 +133,7 @@ func Bartlett(values []float64, group []int, groups int) (ChiSquareTest, error) 
 	if err := checkFinite("Bartlett", values); err != nil {
 		return ChiSquareTest{}, err
 	}
+	values, _ = standardise(values) // the statistic is unit free; see standardise
 	g := groupValues(values, group, groups)
 	k := len(g)
 	if k < 2 {

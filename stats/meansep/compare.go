@@ -13,6 +13,13 @@ type PairSEer interface {
 	PairSE(i, j int) float64
 }
 
+// MeanDiffer gives the difference of means i and j more precisely than the
+// means themselves can hold it (for example when all means share a large
+// offset). *stats.ANOVA satisfies it for its least-squares means.
+type MeanDiffer interface {
+	MeanDiff(i, j int) float64
+}
+
 // PairSEFunc adapts a function to PairSEer.
 type PairSEFunc func(i, j int) float64
 
@@ -92,6 +99,11 @@ func (r *Result) Pair(i, j int) Pair {
 // 1e-10) for up to 49 pairs, and from a precomputed dist.SurvivalTable
 // (absolute error below 1e-9) for 50 pairs (11 treatments) or more, which
 // keeps large trials fast. Memory is the Pairs slice.
+//
+// When se is also a MeanDiffer, each difference comes from it rather than
+// from subtracting two means, so means that share a large offset are
+// compared at full precision; means must then be the means se describes.
+// The tests depend only on Diff/SE, so they are the same in any unit.
 func Compare(means []float64, se PairSEer, df int, alpha float64) (*Result, error) {
 	k := len(means)
 	if k < 2 {
@@ -132,6 +144,9 @@ func Compare(means []float64, se PairSEer, df int, alpha float64) (*Result, erro
 				r.EqualSE = false
 			}
 			d := means[i] - means[j]
+			if md, ok := se.(MeanDiffer); ok {
+				d = md.MeanDiff(i, j)
+			}
 			t := d / s
 			tmax = math.Max(tmax, math.Abs(t))
 			r.Pairs = append(r.Pairs, Pair{

@@ -380,7 +380,14 @@ func diagnose(r *Result, d *Data, a *stats.ANOVA, ty, y []float64, trt, blk, plo
 			sum.HasNonAdditivity, sum.NonAdditivityP = true, na.P
 		}
 	}
-	if std, err := diag.StandardisedResiduals(a.Residuals, a.Leverage, a.MSE); err == nil {
+	// Residuals in units of √MSE (RootMSE keeps its digits where MSE, the
+	// square of very small data, does not), so the standardised residuals
+	// are the same in any unit of the data.
+	inRoot := make([]float64, len(a.Residuals))
+	for i, e := range a.Residuals {
+		inRoot[i] = e / a.RootMSE
+	}
+	if std, err := diag.StandardisedResiduals(inRoot, a.Leverage, 1); a.RootMSE > 0 && err == nil {
 		dg.StandardizedResiduals = std
 		outs := diag.Outliers(std, 0)
 		for i := range outs {
