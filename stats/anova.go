@@ -16,7 +16,7 @@ type ANOVA struct {
 	// unit, so it keeps full precision even where MSE itself (the square of
 	// very small data) falls below the float64 range. Use it for
 	// standardised residuals.
-	RootMSE float64
+	RootMSE   float64
 	DFError   int
 	CVPercent float64 // 100·√MSE / GrandMean
 	RSquared  float64 // 1 − SS(error)/SS(total)
