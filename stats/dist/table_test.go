@@ -5,7 +5,6 @@ import (
 	"math/rand/v2"
 	"sync"
 	"testing"
-	"time"
 )
 
 // TestSurvivalTableAgainstDirect checks the table against the direct double
@@ -131,31 +130,4 @@ func TestSurvivalTableConcurrent(t *testing.T) {
 		}()
 	}
 	wg.Wait()
-}
-
-// TestSurvivalTableSpeed measures the whole Tukey workload of the
-// mean-separation code (k = 300 means, df = 880: build plus 44,850 pair
-// evaluations; and k = 1000, df = 3000: build plus 499,500 evaluations).
-// It only logs the timings: the machine is shared, so limits live in the
-// benchmarks.
-func TestSurvivalTableSpeed(t *testing.T) {
-	if testing.Short() {
-		t.Skip("timing only")
-	}
-	for _, c := range []struct {
-		k, nu float64
-		pairs int
-	}{{300, 880, 44850}, {1000, 3000, 499500}} {
-		start := time.Now()
-		tb := NewSurvivalTable(c.k, c.nu)
-		built := time.Since(start)
-		var sum float64
-		for i := 0; i < c.pairs; i++ {
-			sum += tb.Survival(0.5 + 7*float64(i)/float64(c.pairs))
-		}
-		t.Logf("k=%v nu=%v: build %v, %d evaluations %v (total %v)", c.k, c.nu, built, c.pairs, time.Since(start)-built, time.Since(start))
-		if math.IsNaN(sum) {
-			t.Fatal("NaN survival")
-		}
-	}
 }
