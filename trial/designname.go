@@ -2,12 +2,20 @@ package trial
 
 import (
 	"fmt"
-	"slices"
 	"strings"
 )
 
+// DesignKinds lists the designs Furlong knows, in the order they are offered.
+func DesignKinds() []DesignKind { return []DesignKind{CRD, RCBD, Latin} }
+
 // Known reports whether k is one of DesignKinds.
-func (k DesignKind) Known() bool { return slices.Contains(DesignKinds, k) }
+func (k DesignKind) Known() bool {
+	switch k {
+	case CRD, RCBD, Latin:
+		return true
+	}
+	return false
+}
 
 // ParseDesignKind reads a design kind as typed on the command line
 // ("crd", "rcbd", "latin", in any case); false when it is none of them.

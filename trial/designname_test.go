@@ -32,7 +32,7 @@ func TestDesignNames(t *testing.T) {
 	if p, ok := ParseDesignKind("RCBD"); !ok || p != RCBD {
 		t.Errorf("ParseDesignKind is case-sensitive: %q %v", p, ok)
 	}
-	for _, k := range DesignKinds {
+	for _, k := range DesignKinds() {
 		if !k.Known() {
 			t.Errorf("%s listed but not known", k)
 		}

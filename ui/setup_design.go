@@ -34,7 +34,7 @@ var designExplain = map[trial.DesignKind]string{
 }
 
 // designKinds are the designs offered, labelled by designLabels.
-var designKinds = trial.DesignKinds
+var designKinds = trial.DesignKinds()
 
 var designLabels = func() []string {
 	l := make([]string, len(designKinds))

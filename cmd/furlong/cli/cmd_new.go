@@ -275,7 +275,7 @@ func parseTraits(s string) ([]trial.Trait, error) {
 
 // designChoices lists the --design values: "crd, rcbd or latin".
 func designChoices() string {
-	ks := trial.DesignKinds
+	ks := trial.DesignKinds()
 	names := make([]string, len(ks))
 	for i, k := range ks {
 		names[i] = k.CLIName()
