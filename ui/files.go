@@ -43,7 +43,7 @@ func (u *App) save(asNew bool, then func()) {
 		return
 	}
 	if u.doc.conflict {
-		u.showConflict()
+		u.askAboutDisk()
 		return
 	}
 	u.saveTo(u.doc.path, then)

@@ -3,6 +3,8 @@ package ui
 import (
 	"errors"
 	"fmt"
+	"io/fs"
+	"os"
 	"path/filepath"
 	"strconv"
 	"time"
@@ -118,11 +120,44 @@ func (u *App) onOutsideChange(epoch uint64, path string, id trialfile.Identity) 
 	if d == nil || d.epoch != epoch || d.path != path || d.conflict || id.Same(d.disk) {
 		return
 	}
+	if id.IsZero() {
+		// Removed or renamed: nothing to load or merge; the window's copy
+		// is all there is. It goes to the recovery copy until saved again.
+		d.conflict = true
+		u.saver.submit(u.job(false))
+		u.status.SetText(filepath.Base(d.path) + " was removed or renamed by another program. File › Save puts it back.")
+		u.showFileGone()
+		return
+	}
 	if !d.dirty {
 		u.reloadFromDisk(true)
 		return
 	}
 	u.changedOnDisk(false)
+}
+
+// showFileGone asks what to do when the trial's file was removed or
+// renamed while open: write it again where it was, or somewhere else.
+func (u *App) showFileGone() {
+	d := u.doc
+	text := widget.NewLabel("The trial file " + d.path + " was removed or renamed by another program while open here. " +
+		"This window still holds the whole trial; it is kept in a recovery copy until you save it.")
+	text.Wrapping = fyne.TextWrapWord
+	var dlg *dialog.CustomDialog
+	again := widget.NewButton("Save it again there", func() {
+		dlg.Hide()
+		u.saver.setKnown(d.path, trialfile.Identity{}) // a new file: refused if one appeared meanwhile
+		d.disk, d.conflict = trialfile.Identity{}, false
+		u.saveTo(d.path, nil)
+	})
+	again.Importance = widget.HighImportance
+	elsewhere := widget.NewButton("Save as…", func() { dlg.Hide(); u.saveAsDialog(nil) })
+	later := widget.NewButton("Decide later", func() { dlg.Hide() })
+	dlg = dialog.NewCustomWithoutButtons("The trial file is gone", container.NewVBox(text,
+		container.NewHBox(layout.NewSpacer(), later, elsewhere, again)), u.win)
+	dlg.Resize(fyne.NewSize(560, 200))
+	dlg.Show()
+	closeOnEscape(u.win, dlg)
 }
 
 // changedOnDisk: the file changed on disk while the window holds edits
@@ -138,6 +173,16 @@ func (u *App) changedOnDisk(explicit bool) {
 		u.saver.submit(u.job(false)) // the edits go to the recovery copy at once
 	}
 	u.status.SetText(filepath.Base(d.path) + " was changed by another program; nothing was saved over it. Choose what to do.")
+	u.askAboutDisk()
+}
+
+// askAboutDisk puts the file's change to the user: a file removed or
+// renamed, or a file changed.
+func (u *App) askAboutDisk() {
+	if _, err := os.Stat(u.doc.path); errors.Is(err, fs.ErrNotExist) {
+		u.showFileGone()
+		return
+	}
 	u.showConflict()
 }
 

@@ -66,7 +66,12 @@ func fileYield(t *testing.T, path string) []float64 {
 // a channel that receives once per outside change the window dealt with.
 func watchNow(u *App) chan struct{} {
 	ch := make(chan struct{}, 8)
-	u.outside = func() { ch <- struct{}{} }
+	u.outside = func() {
+		select {
+		case ch <- struct{}{}:
+		default: // the watcher keeps reporting a lasting change; one is enough
+		}
+	}
 	u.opts.pollEvery = 20 * time.Millisecond
 	u.unwatch()
 	u.watch()
@@ -351,5 +356,32 @@ func TestPresenceMarker(t *testing.T) {
 	}
 	if !strings.Contains(u.status.Text, "Took over an old open-trial marker") {
 		t.Errorf("status %q does not note the stale marker", u.status.Text)
+	}
+}
+
+// A trial file removed while open is noticed; the window keeps the trial
+// and writes it again where it was once the user says so.
+func TestFileRemovedWhileOpen(t *testing.T) {
+	u, w := newTestApp(t, 0)
+	path := savedTrial(t, u)
+	typeValue(t, u, 0, "4.5")
+	seen := watchNow(u)
+	if err := os.Remove(path); err != nil {
+		t.Fatal(err)
+	}
+	waitFor(t, seen, "removed file")
+	u.saver.sync()
+	if _, err := os.Stat(path); err == nil {
+		t.Fatal("the removed file was written back without asking")
+	}
+	if rt, err := loadFile(u.doc.recovery); err != nil || rt.Traits[0].Values[0] != 4.5 {
+		t.Fatalf("the trial is not in the recovery copy: %v", err)
+	}
+	dialogButton(t, w, "Save it again there").OnTapped()
+	if v := fileYield(t, path); v[0] != 4.5 {
+		t.Fatalf("saved again with %v", v[0])
+	}
+	if u.doc.conflict || u.doc.dirty {
+		t.Errorf("conflict %v, dirty %v", u.doc.conflict, u.doc.dirty)
 	}
 }
