@@ -177,7 +177,10 @@ func (u *App) openDocument(t *trial.Trial, path string, id trialfile.Identity) {
 	u.doc.recovery = u.recoveryPath(path)
 	u.doc.onChange = u.onChange
 	u.lastSaved = 0
-	if path != "" {
+	if path == "" {
+		u.status.SetText("This trial has no file yet: changes are kept in a recovery copy until File › Save as….")
+	} else {
+		u.status.SetText("Every change is saved to " + filepath.Base(path) + " within two seconds.")
 		u.doc.disk, u.doc.base = id, cloneTrial(t)
 		u.saver.setKnown(path, id)
 		u.markOpen(path)

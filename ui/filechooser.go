@@ -118,7 +118,7 @@ func (c *fileChooser) hint() string {
 		kinds = strings.Join(c.o.exts, ", ") + " files"
 	}
 	if c.o.save {
-		return "Type a name, or a path such as ~/trials/" + c.o.name + ". Double-click a folder to open it. " +
+		return "Type a name, or a path such as ~/trials/plan" + c.ext() + ". Double-click a folder to open it. " +
 			"A name without an ending gets " + c.ext() + "."
 	}
 	return "Double-click a file or a folder, or type a path and press Enter. Only folders and " + kinds + " are listed."
