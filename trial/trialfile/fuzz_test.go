@@ -26,6 +26,9 @@ func FuzzDecode(f *testing.F) {
 	f.Add([]byte(`{"format":"furlong-trial","version":1,"trial":{"created":"0000-01-01T00:00:00+01:00"}}`))
 	f.Add([]byte("\xef\xbb\xbf[[[[[[[[[[{"))
 	f.Add([]byte(`{"format":"furlong-trial","version":1,"trial":{"randomization":{"seed":"18446744073709551615"}}}`))
+	f.Add([]byte(`{"format":"furlong-trial","version":1,"trial":{"title":"a","Title":"b","ti\u0074le":"c"}}`))
+	f.Add([]byte(`{"format":"furlong-trial","version":1,"trial":{"design":{"kind":"xyz"},"plots":[{"number":1,"block":0,"row":100000000000}]}}`))
+	f.Add([]byte(`{"format":"furlong-trial","version":1,"trial":{"traits":[{"key":"a","decimals":10000000,"higher_better":tru`))
 	if v0, err := os.ReadFile("testdata/v0-sample.furlong"); err == nil {
 		f.Add(v0)
 	}

@@ -49,6 +49,9 @@ func TestBounds(t *testing.T) {
 		{"plot length", func(tr *trial.Trial) { tr.Layout.PlotLength = -3 }, "trial.layout.plot_length", "plot length", ErrOutOfRange},
 		{"latitude", func(tr *trial.Trial) { v := 91.0; tr.Site.Latitude = &v }, "trial.site.latitude", "latitude", ErrOutOfRange},
 		{"standard moisture", func(tr *trial.Trial) { tr.Traits[5].Derived.StandardMoisture = 100 }, "trial.traits[5].derived.standard_moisture", "below 100", ErrOutOfRange},
+		{"trait kind", func(tr *trial.Trial) { tr.Traits[0].Kind = "zzz" }, "trial.traits[0].kind", `kind "zzz"`, ErrWrongType},
+		{"formula kind", func(tr *trial.Trial) { tr.Traits[5].Derived.Kind = "zzz" }, "trial.traits[5].derived.kind", `formula "zzz"`, ErrWrongType},
+		{"formula source", func(tr *trial.Trial) { tr.Traits[5].Derived.MoistureTrait = "nosuch" }, "trial.traits[5].derived.moisture_trait", `from trait "nosuch"`, ErrUnknownTrait},
 		{"unknown design", func(tr *trial.Trial) { tr.Design.Kind = "xyz" }, "trial.design.kind", `the design kind "xyz" is not one Furlong knows ("crd", "rcbd", "latin")`, ErrUnknownDesign},
 		{"no design with plots", func(tr *trial.Trial) { tr.Design.Kind = "" }, "trial.design.kind", "does not say which design", ErrUnknownDesign},
 	}

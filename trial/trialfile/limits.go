@@ -98,7 +98,20 @@ func checkBounds(t *trial.Trial) *problem {
 		if tr.Decimals < 0 || tr.Decimals > MaxDecimals {
 			return &problem{path + "decimals", errorf(ErrOutOfRange, "trait %q is shown with %d decimals; use 0 to %d", tr.Key, tr.Decimals, MaxDecimals)}
 		}
+		switch tr.Kind {
+		case "", trial.Continuous, trial.Count, trial.Percent, trial.Score:
+		default:
+			return &problem{path + "kind", errorf(ErrWrongType, "trait %q is of kind %q, which Furlong does not know (continuous, count, percent or score)", tr.Key, string(tr.Kind))}
+		}
 		if dv := tr.Derived; dv != nil {
+			if dv.Kind != trial.AdjustedYield {
+				return &problem{path + "derived.kind", errorf(ErrWrongType, "trait %q is computed by the formula %q, which Furlong does not know (%q)", tr.Key, string(dv.Kind), string(trial.AdjustedYield))}
+			}
+			for _, src := range []struct{ name, key string }{{"weight_trait", dv.WeightTrait}, {"moisture_trait", dv.MoistureTrait}} {
+				if st := t.Trait(src.key); st == nil || st.Derived != nil {
+					return &problem{path + "derived." + src.name, errorf(ErrUnknownTrait, "trait %q is computed from trait %q, which the trial does not record", tr.Key, src.key)}
+				}
+			}
 			if !(dv.StandardMoisture >= 0 && dv.StandardMoisture < 100) {
 				return &problem{path + "derived.standard_moisture", errorf(ErrOutOfRange, "the standard moisture of trait %q must be from 0 %% to below 100 %%, not %s %%", tr.Key, fmtNum(dv.StandardMoisture))}
 			}
