@@ -30,9 +30,14 @@ func explain(action string, err error) message {
 	var verr *trial.ValidationError
 	var perr *fs.PathError
 	switch {
-	case errors.Is(err, trial.ErrHasData):
+	case isExactly(err, trial.ErrHasData):
 		return message{action + ": the trial already holds recorded data, and randomising again would move treatments away from their values.",
 			"Keep the current layout, or save a copy of the trial under a new name and start the copy afresh."}
+	case errors.Is(err, trial.ErrHasData):
+		// Another edit refused for the same reason (treatments, design,
+		// field arrangement): the trial package's message names the edit.
+		return message{action + ": " + lowerFirst(err.Error()),
+			"Keep the trial as it is, or save a copy of it under a new name and make the change in the copy."}
 	case errors.Is(err, trial.ErrUnknownMethod):
 		return message{action + ": the trial was randomised by a method this version of Furlong does not know.",
 			"Open the trial with the version of Furlong that made it, or update Furlong."}
@@ -61,6 +66,30 @@ func explain(action string, err error) message {
 	}
 	return message{action + ": " + lowerFirst(err.Error()),
 		"If the problem remains, note what you were doing and report it together with the file."}
+}
+
+// isExactly reports whether target itself is in err's chain, not only an
+// error that calls itself target (errors.Is follows Is methods too).
+func isExactly(err, target error) bool {
+	for err != nil {
+		if err == target {
+			return true
+		}
+		switch u := err.(type) {
+		case interface{ Unwrap() error }:
+			err = u.Unwrap()
+		case interface{ Unwrap() []error }:
+			for _, e := range u.Unwrap() {
+				if isExactly(e, target) {
+					return true
+				}
+			}
+			return false
+		default:
+			return false
+		}
+	}
+	return false
 }
 
 // lowerFirst makes a sentence continue after a colon.

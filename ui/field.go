@@ -230,7 +230,11 @@ func (f *fieldStep) showDetails(i int) {
 	}
 	p := t.Plots[i]
 	var b strings.Builder
-	fmt.Fprintf(&b, "Plot %d\n%s %d · field row %d, column %d\n", p.Number, blockWord(t), p.Block, p.Row, p.Column)
+	if t.Design.Kind == trial.CRD { // no blocks
+		fmt.Fprintf(&b, "Plot %d\nfield row %d, column %d\n", p.Number, p.Row, p.Column)
+	} else {
+		fmt.Fprintf(&b, "Plot %d\n%s %d · field row %d, column %d\n", p.Number, blockWord(t), p.Block, p.Row, p.Column)
+	}
 	if tr := t.Treatment(p.Treatment); tr != nil {
 		fmt.Fprintf(&b, "%s  %s", tr.Code, tr.Name)
 		if tr.Role == trial.RoleCheck {

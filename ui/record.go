@@ -41,6 +41,7 @@ type recordStep struct {
 	hasSel  bool
 	derived map[int][]float64 // trait index → computed values, for derived traits
 	widths  []float32         // of each column, as setWidths set them
+	nfixed  int               // plot, block (not for CRD) and treatment columns
 	loaded  string            // the text loadEntry put in the entry
 	// returning is set while the grid goes back to a cell whose typed
 	// text could not be stored.
@@ -61,7 +62,6 @@ func newRecordStep(u *App) *recordStep {
 	r.table = newGridTable(r.length, newGridCell, r.updateCell)
 	r.table.onRune = r.typeInto
 	r.table.ShowHeaderColumn = false
-	r.table.StickyColumnCount = fixedCols
 	r.table.CreateHeader = func() fyne.CanvasObject {
 		l := widget.NewLabel("")
 		l.TextStyle = fyne.TextStyle{Bold: true}
@@ -144,10 +144,11 @@ func (r *recordStep) refresh(c change) {
 		}
 	}
 	if c&changeStructure != 0 {
+		before := r.nfixed
 		r.setWidths()
 		if r.hasSel {
 			rows, cols := r.length()
-			if r.sel.Row >= rows || r.sel.Col >= cols {
+			if r.sel.Row >= rows || r.sel.Col >= cols || r.nfixed != before {
 				r.hasSel = false
 				r.table.UnselectAll()
 			}
@@ -163,9 +164,9 @@ func (r *recordStep) refresh(c change) {
 
 func (r *recordStep) onSelected(id widget.TableCellID) {
 	t := r.trial()
-	if id.Col < fixedCols && len(t.Traits) > 0 {
+	if id.Col < r.nfixed && len(t.Traits) > 0 {
 		// Plot, block and treatment are fixed: go to the first trait.
-		id.Col = fixedCols
+		id.Col = r.nfixed
 		r.table.Select(id)
 		return
 	}
@@ -221,7 +222,7 @@ func (r *recordStep) moveBy(dRow, dCol int) {
 		return
 	}
 	rows, cols := r.length()
-	next := widget.TableCellID{Row: min(max(r.sel.Row+dRow, 0), rows-1), Col: min(max(r.sel.Col+dCol, fixedCols), cols-1)}
+	next := widget.TableCellID{Row: min(max(r.sel.Row+dRow, 0), rows-1), Col: min(max(r.sel.Col+dCol, r.nfixed), cols-1)}
 	r.table.Select(next)
 }
 
@@ -230,7 +231,7 @@ func (r *recordStep) selTrait() int {
 	if !r.hasSel {
 		return -1
 	}
-	j := r.sel.Col - fixedCols
+	j := r.sel.Col - r.nfixed
 	if j < 0 || j >= len(r.trial().Traits) {
 		return -1
 	}
@@ -250,6 +251,9 @@ func (r *recordStep) loadEntry() {
 		name = tr.Name
 	}
 	where := fmt.Sprintf("Plot %d · %s %d · %s %s", p.Number, blockWord(t), p.Block, p.Treatment, name)
+	if t.Design.Kind == trial.CRD {
+		where = fmt.Sprintf("Plot %d · %s %s", p.Number, p.Treatment, name)
+	}
 	if j < 0 {
 		r.where.SetText(where)
 		r.entry.replace("", false)

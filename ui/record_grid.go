@@ -14,26 +14,46 @@ import (
 
 func (r *recordStep) length() (int, int) {
 	t := r.trial()
-	return len(t.Plots), fixedCols + len(t.Traits) + 1
+	return len(t.Plots), r.nfixed + len(t.Traits) + 1
 }
 
 func (r *recordStep) setWidths() {
 	t := r.trial()
 	r.widths = r.widths[:0]
-	set := func(col int, w float32) {
-		r.table.SetColumnWidth(col, w)
+	set := func(w float32) {
+		r.table.SetColumnWidth(len(r.widths), w)
 		r.widths = append(r.widths, w)
 	}
-	set(colPlot, 70)
-	set(colBlock, 60)
-	set(colTreatment, r.colWidth(colTreatment))
+	// A completely randomised trial has no blocks: no block column.
+	r.nfixed = fixedCols
+	if t.Design.Kind == trial.CRD {
+		r.nfixed = fixedCols - 1
+	}
+	r.table.StickyColumnCount = r.nfixed
+	set(70)
+	if r.nfixed == fixedCols {
+		set(60)
+	}
+	set(210)
 	pad := 4 * theme.Padding()
 	for j := range t.Traits {
 		head := traitLabel(&t.Traits[j]) + " ="
 		w := fyne.MeasureText(head, theme.TextSize(), fyne.TextStyle{Bold: true}).Width + pad
-		set(fixedCols+j, min(max(w, 90), 240))
+		set(min(max(w, 90), 240))
 	}
-	set(fixedCols+len(t.Traits), r.colWidth(fixedCols+len(t.Traits)))
+	set(260)
+}
+
+// kind is what column col shows: colPlot, colBlock, colTreatment, or
+// fixedCols for a trait or the notes column.
+func (r *recordStep) kind(col int) int {
+	if col >= r.nfixed {
+		return fixedCols
+	}
+	if r.nfixed < fixedCols && col >= colBlock {
+		return col + 1 // no block column
+	}
+	return col
 }
 
 // colWidthAt is the width setWidths gave column col.
@@ -63,15 +83,16 @@ func (r *recordStep) value(i, j int) float64 {
 func (r *recordStep) updateHeader(id widget.TableCellID, o fyne.CanvasObject) {
 	l := o.(*widget.Label)
 	t := r.trial()
+	k := r.kind(id.Col)
 	switch {
-	case id.Col == colPlot:
+	case k == colPlot:
 		l.SetText("Plot")
-	case id.Col == colBlock:
+	case k == colBlock:
 		l.SetText(blockWord(t))
-	case id.Col == colTreatment:
+	case k == colTreatment:
 		l.SetText("Treatment")
-	case id.Col-fixedCols < len(t.Traits):
-		tr := &t.Traits[id.Col-fixedCols]
+	case id.Col-r.nfixed < len(t.Traits):
+		tr := &t.Traits[id.Col-r.nfixed]
 		s := traitLabel(tr)
 		if tr.Derived != nil {
 			s += " ="
@@ -114,18 +135,19 @@ func (r *recordStep) updateCell(id widget.TableCellID, o fyne.CanvasObject) {
 	text := ""
 	align := fyne.TextAlignLeading
 	italic := false
+	k := r.kind(id.Col)
 	switch {
-	case id.Col == colPlot:
+	case k == colPlot:
 		text = strconv.Itoa(p.Number)
-	case id.Col == colBlock:
+	case k == colBlock:
 		text = strconv.Itoa(p.Block)
-	case id.Col == colTreatment:
+	case k == colTreatment:
 		text = p.Treatment
 		if tr := t.Treatment(p.Treatment); tr != nil && tr.Name != "" && tr.Name != tr.Code {
 			text += "  " + tr.Name
 		}
-	case id.Col-fixedCols < len(t.Traits):
-		j := id.Col - fixedCols
+	case id.Col-r.nfixed < len(t.Traits):
+		j := id.Col - r.nfixed
 		tr := &t.Traits[j]
 		v := r.value(id.Row, j)
 		text = formatValue(v, tr.Decimals)
@@ -139,7 +161,7 @@ func (r *recordStep) updateCell(id widget.TableCellID, o fyne.CanvasObject) {
 	default:
 		text = exclusionText(t, p)
 	}
-	if len(p.Exclusions) > 0 && id.Col < fixedCols {
+	if len(p.Exclusions) > 0 && id.Col < r.nfixed {
 		for _, e := range p.Exclusions {
 			if e.Trait == "" {
 				fill = colorNameExcluded
@@ -152,23 +174,14 @@ func (r *recordStep) updateCell(id widget.TableCellID, o fyne.CanvasObject) {
 		bg.FillColor = theme.Color(fill)
 	}
 	bg.Refresh()
-	if id.Col == colTreatment || id.Col >= fixedCols+len(t.Traits) {
-		text = fitText(text, r.colWidth(id.Col), theme.TextSize())
+	if k == colTreatment || id.Col >= r.nfixed+len(t.Traits) {
+		text = fitText(text, r.colWidthAt(id.Col), theme.TextSize())
 	}
 	l.Alignment = align
 	l.TextStyle = fyne.TextStyle{Italic: italic}
 	l.Color = theme.Color(theme.ColorNameForeground)
 	l.Text = text
 	l.Refresh()
-}
-
-// colWidth is the width given to a column.
-func (r *recordStep) colWidth(col int) float32 {
-	switch col {
-	case colTreatment:
-		return 210
-	}
-	return 260
 }
 
 // fitText shortens s with an ellipsis to fit width at text size ts.

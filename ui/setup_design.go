@@ -2,6 +2,7 @@ package ui
 
 import (
 	"errors"
+	"fmt"
 	"slices"
 	"strconv"
 	"strings"
@@ -21,16 +22,17 @@ type designTab struct {
 	u       *App
 	content fyne.CanvasObject
 
-	designSel *widget.RadioGroup
-	reps      *widget.Entry
-	designMsg *widget.Label
+	designSel  *widget.RadioGroup
+	reps       *widget.Entry
+	designMsg  *widget.Label
+	designDone *widget.Label // what Apply design changed
 }
 
 // designExplain says in one line what each design is for.
 var designExplain = map[trial.DesignKind]string{
 	trial.CRD:   "Completely randomised: every plot gets a treatment at random. For uniform ground, pots or glasshouse benches.",
 	trial.RCBD:  "Randomised complete blocks: each block holds every treatment once, randomised within the block. For fields with a slope or gradient: lay blocks across it.",
-	trial.Latin: "Latin square: each treatment once in every field row and every column. For gradients in two directions; needs as many replicates as treatments (4 to 8).",
+	trial.Latin: fmt.Sprintf("Latin square: each treatment once in every field row and every column. For gradients in two directions; needs as many replicates as treatments (%d to %d treatments).", trial.MinLatin, trial.MaxLatin),
 }
 
 // designKinds are the designs offered, labelled by designLabels.
@@ -54,6 +56,9 @@ func newDesignTab(u *App) *designTab {
 func (s *designTab) build() fyne.CanvasObject {
 	s.designMsg = widget.NewLabel("")
 	s.designMsg.Wrapping = fyne.TextWrapWord
+	s.designDone = widget.NewLabel("")
+	s.designDone.Wrapping = fyne.TextWrapWord
+	s.designDone.Importance = widget.SuccessImportance
 	s.designSel = widget.NewRadioGroup(designLabels, nil)
 	// A second click on the chosen design must not unset it.
 	s.designSel.Required = true
@@ -78,7 +83,7 @@ func (s *designTab) build() fyne.CanvasObject {
 	apply := widget.NewButtonWithIcon("Apply design", theme.ConfirmIcon(), s.applyDesign)
 	apply.Importance = widget.HighImportance
 	form := widget.NewForm(widget.NewFormItem("Design", s.designSel), widget.NewFormItem("Replicates", s.reps))
-	return container.NewVScroll(container.NewPadded(container.NewVBox(form, s.designMsg, container.NewHBox(apply))))
+	return container.NewVScroll(container.NewPadded(container.NewVBox(form, s.designMsg, container.NewHBox(apply), s.designDone)))
 }
 
 // applyDesign sets the design chosen in the Design tab.
@@ -96,7 +101,23 @@ func (s *designTab) applyDesign() {
 	if d.Kind == trial.Latin {
 		d.Reps = len(s.t().Treatments)
 	}
-	s.structural("The design could not be changed", func(t *trial.Trial) error { return t.SetDesign(d) })
+	if d == s.t().Design {
+		s.designDone.SetText("Nothing to change: the trial is already a " + d.Describe() + ".")
+		return
+	}
+	hadPlots := len(s.t().Plots) > 0
+	if !s.structural("The design could not be changed", func(t *trial.Trial) error { return t.SetDesign(d) }) {
+		s.designDone.SetText("")
+		return
+	}
+	msg := "Design changed to a " + d.Describe() + "."
+	switch {
+	case len(s.t().Plots) > 0:
+		msg += fmt.Sprintf(" The %s are laid out again in standard order: randomise them in the Field step before sowing.", plural(len(s.t().Plots), "plot", "plots"))
+	case hadPlots:
+		msg += " The plots were removed: the trial cannot be laid out until the Setup step is complete."
+	}
+	s.designDone.SetText(msg + " Undo (Ctrl+Z) takes it back.")
 }
 
 func (s *designTab) loadDesign() {

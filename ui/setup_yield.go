@@ -69,17 +69,24 @@ func (s *traitsTab) yieldDialog() {
 		if !ok || weight.SelectedIndex() < 0 || moist.SelectedIndex() < 0 {
 			return
 		}
-		m, err := trial.ParseNumber(std.Text, trial.PointOrComma)
-		if err != nil {
-			showError(s.u.win, "Could not add adjusted yield", "The standard moisture must be a number", err)
-			return
-		}
-		tr := trial.AdjustedYieldTrait(strings.TrimSpace(key.Text), keys[weight.SelectedIndex()], keys[moist.SelectedIndex()], t.Crop, unit.Selected)
-		tr.Derived.StandardMoisture = m
-		tr.Name = fmt.Sprintf("Yield at %g %% moisture", m) // the basis typed, not the crop's default
-		s.structural("The adjusted yield could not be added", func(t *trial.Trial) error { return t.AddTrait(tr) })
+		s.addAdjustedYield(key.Text, keys[weight.SelectedIndex()], keys[moist.SelectedIndex()], std.Text, unit.Selected)
 	}, s.u.win)
 	d.Resize(fyne.NewSize(520, 400))
 	d.Show()
 	closeOnEscape(s.u.win, d)
+}
+
+// addAdjustedYield adds the derived yield key from the weight and moisture
+// traits at the standard moisture typed in std (read as every typed
+// number is, trial.ParseNumber: "15,5" is 15.5), in unit.
+func (s *traitsTab) addAdjustedYield(key, weight, moisture, std, unit string) bool {
+	m, err := trial.ParseNumber(std, trial.PointOrComma)
+	if err != nil {
+		showError(s.u.win, "Could not add adjusted yield", "The standard moisture must be a number", err)
+		return false
+	}
+	tr := trial.AdjustedYieldTrait(strings.TrimSpace(key), weight, moisture, s.t().Crop, unit)
+	tr.Derived.StandardMoisture = m
+	tr.Name = fmt.Sprintf("Yield at %g %% moisture", m) // the basis typed, not the crop's default
+	return s.structural("The adjusted yield could not be added", func(t *trial.Trial) error { return t.AddTrait(tr) })
 }

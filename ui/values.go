@@ -88,3 +88,4 @@ func traitLabel(tr *trial.Trait) string {
 	}
 	return tr.Name + " (" + tr.Unit + ")"
 }
+
