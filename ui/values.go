@@ -88,4 +88,3 @@ func traitLabel(tr *trial.Trait) string {
 	}
 	return tr.Name + " (" + tr.Unit + ")"
 }
-
