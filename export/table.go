@@ -13,6 +13,7 @@ import (
 	"strings"
 
 	"furlong/stats"
+	"furlong/stats/meansep"
 	"furlong/trial"
 	"furlong/trial/analysis"
 )
@@ -44,7 +45,7 @@ func Reason(o analysis.Outcome) string {
 // one column per trait with the mean and its letters, and the lines of
 // statistics under the means.
 type Summary struct {
-	Method analysis.Method
+	Method meansep.Method
 	Alpha  float64
 	Traits []SummaryTrait
 	Rows   []SummaryRow
@@ -95,25 +96,25 @@ type SummaryCell struct {
 
 // MSDLabel names the minimum significant difference of the method:
 // "LSD (0.05)" or "HSD (0.05)".
-func MSDLabel(m analysis.Method, alpha float64) string {
+func MSDLabel(m meansep.Method, alpha float64) string {
 	name := "LSD"
-	if m == analysis.Tukey {
+	if m == meansep.Tukey {
 		name = "HSD"
 	}
 	return fmt.Sprintf("%s (%s)", name, strconv.FormatFloat(alpha, 'f', -1, 64))
 }
 
 // Letters returns the letters of mean m by method.
-func Letters(m analysis.Mean, method analysis.Method) string {
-	if method == analysis.Tukey {
+func Letters(m analysis.Mean, method meansep.Method) string {
+	if method == meansep.Tukey {
 		return m.LettersTukey
 	}
 	return m.LettersLSD
 }
 
 // MSD returns the LSD or HSD of r by method, nil when replication is unequal.
-func MSD(r *analysis.Result, method analysis.Method) *float64 {
-	if method == analysis.Tukey {
+func MSD(r *analysis.Result, method meansep.Method) *float64 {
+	if method == meansep.Tukey {
 		return r.HSD
 	}
 	return r.LSD
@@ -171,7 +172,7 @@ func LookupOutcome(results []analysis.Outcome, key string) (analysis.Outcome, bo
 // (every trait when empty) from their results, separating means by method.
 // A trait with no result, or whose result carries an error, has a column
 // with no means and its Reason set.
-func NewSummary(t *trial.Trial, results []analysis.Outcome, keys []string, method analysis.Method, alpha float64) *Summary {
+func NewSummary(t *trial.Trial, results []analysis.Outcome, keys []string, method meansep.Method, alpha float64) *Summary {
 	traits := ReportTraits(t, keys)
 	s := &Summary{Method: method, Alpha: alpha, Yield: YieldTrait(traits)}
 	s.Traits = make([]SummaryTrait, len(traits))

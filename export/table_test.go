@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"furlong/stats"
+	"furlong/stats/meansep"
 	"furlong/trial"
 	"furlong/trial/analysis"
 )
@@ -51,7 +52,7 @@ func TestSummaryPercentOfCheck(t *testing.T) {
 			{Treatment: "D", BackMean: 4.0, LettersLSD: "ab", LettersTukey: "a"},
 		}}
 	outs := []analysis.Outcome{{Key: "yield", Result: res}, {Key: "ht", Err: errors.New(NoValues)}}
-	s := NewSummary(tr, outs, nil, analysis.LSD, 0.05)
+	s := NewSummary(tr, outs, nil, meansep.LSD, 0.05)
 	if !s.HasCheck || s.CheckMean != 4.0 || s.Yield != 0 {
 		t.Fatalf("check mean %v (has %v), yield trait %d", s.CheckMean, s.HasCheck, s.Yield)
 	}
@@ -70,10 +71,10 @@ func TestSummaryPercentOfCheck(t *testing.T) {
 		t.Errorf("trait without values %+v", st)
 	}
 	// Tukey: HSD absent (unequal n) gives a nil MSD.
-	if s := NewSummary(tr, outs, []string{"yield"}, analysis.Tukey, 0.05); s.Traits[0].MSD != nil || s.Rows[0].Cells[0].Letters != "a" {
+	if s := NewSummary(tr, outs, []string{"yield"}, meansep.Tukey, 0.05); s.Traits[0].MSD != nil || s.Rows[0].Cells[0].Letters != "a" {
 		t.Error("Tukey summary")
 	}
-	if got := MSDLabel(analysis.Tukey, 0.01); got != "HSD (0.01)" {
+	if got := MSDLabel(meansep.Tukey, 0.01); got != "HSD (0.01)" {
 		t.Errorf("MSDLabel = %q", got)
 	}
 }

@@ -12,8 +12,8 @@ import (
 	"gonum.org/v1/plot"
 
 	"furlong/export/chart"
+	"furlong/stats/meansep"
 	"furlong/trial"
-	"furlong/trial/analysis"
 )
 
 // chartMinSize is the smallest a chart is shown: its text stays at the
@@ -25,7 +25,7 @@ var chartMinSize = fyne.NewSize(500, 380)
 // order (the Order of means preference). It runs on the analyser's
 // goroutine and touches only the snapshot; the charts are drawn to pixels
 // by chartView at the size they are shown.
-func drawCharts(t *trial.Trial, tr traitResult, m analysis.Method, order chart.Order) []chartImage {
+func drawCharts(t *trial.Trial, tr traitResult, m meansep.Method, order chart.Order) []chartImage {
 	if tr.res == nil {
 		return nil
 	}

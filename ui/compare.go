@@ -15,6 +15,7 @@ import (
 
 	"furlong/export"
 	"furlong/stats"
+	"furlong/stats/meansep"
 	"furlong/trial"
 	"furlong/trial/analysis"
 )
@@ -25,7 +26,7 @@ type compareStep struct {
 	u *App
 
 	traitKey string
-	method   analysis.Method
+	method   meansep.Method
 	alpha    float64
 
 	traitSel  *widget.Select
@@ -64,10 +65,10 @@ func newCompareStep(u *App) *compareStep {
 		c.show(c.shown)
 		u.compute.settingsChanged()
 	})
-	c.methodSel = widget.NewRadioGroup([]string{methodLabel(analysis.LSD), methodLabel(analysis.Tukey)}, func(s string) {
-		m := analysis.LSD
-		if s == methodLabel(analysis.Tukey) {
-			m = analysis.Tukey
+	c.methodSel = widget.NewRadioGroup([]string{methodLabel(meansep.LSD), methodLabel(meansep.Tukey)}, func(s string) {
+		m := meansep.LSD
+		if s == methodLabel(meansep.Tukey) {
+			m = meansep.Tukey
 		}
 		if m == c.method {
 			return
@@ -297,7 +298,7 @@ func (c *compareStep) showResult(r *analysis.Result) {
 		add("Grand mean", fixed(a.GrandMean, r.Decimals+1)+" "+r.Unit)
 		add("CV %", fixed(a.CVPercent, 1))
 		v := r.LSD
-		if c.method == analysis.Tukey {
+		if c.method == meansep.Tukey {
 			v = r.HSD
 		}
 		level := export.MSDLabel(c.method, r.Alpha) // the report's words too
@@ -432,7 +433,7 @@ func (c *compareStep) meanText(row, col int) string {
 	case 3:
 		return fixed(m.SE, c.shownDecimals+2)
 	case 4:
-		if c.method == analysis.Tukey {
+		if c.method == meansep.Tukey {
 			return m.LettersTukey
 		}
 		return m.LettersLSD
@@ -468,7 +469,7 @@ func (c *compareStep) showCharts(cs []chartImage) {
 // sheet (export.NewSummary): one row per treatment with each trait's mean
 // and letters and the percentage of the check, then the lines of
 // statistics.
-func summaryTable(s *resultSet, method analysis.Method) (head []string, rows [][]string) {
+func summaryTable(s *resultSet, method meansep.Method) (head []string, rows [][]string) {
 	outs := make([]analysis.Outcome, 0, len(s.traits))
 	keys := make([]string, 0, len(s.traits))
 	for _, tr := range s.traits {

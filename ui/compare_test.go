@@ -9,7 +9,7 @@ import (
 	"fyne.io/fyne/v2/test"
 	"fyne.io/fyne/v2/widget"
 
-	"furlong/trial/analysis"
+	"furlong/stats/meansep"
 )
 
 // Switching to Tukey shows the Tukey letters of the same analysis, and a
@@ -40,7 +40,7 @@ func TestCompareControls(t *testing.T) {
 	if got, want := cell(0, 4), c.meanRows[0].LettersLSD; got != want {
 		t.Errorf("LSD letters shown %q, want %q", got, want)
 	}
-	waitAnalysis(t, u, func() { c.methodSel.SetSelected(methodLabel(analysis.Tukey)) })
+	waitAnalysis(t, u, func() { c.methodSel.SetSelected(methodLabel(meansep.Tukey)) })
 	if got, want := cell(0, 4), c.meanRows[0].LettersTukey; got != want {
 		t.Errorf("Tukey letters shown %q, want %q", got, want)
 	}

@@ -11,7 +11,7 @@ import (
 	"fyne.io/fyne/v2/widget"
 
 	"furlong/export"
-	"furlong/trial/analysis"
+	"furlong/stats/meansep"
 )
 
 // Shortcuts use the platform's usual modifier: Ctrl on Linux and Windows,
@@ -192,13 +192,13 @@ func (u *App) showPreferences() {
 		}
 	})
 	alpha.SetSelected(strconv.FormatFloat(p.alpha, 'g', -1, 64))
-	method := widget.NewRadioGroup([]string{methodLabel(analysis.LSD), methodLabel(analysis.Tukey)}, nil)
+	method := widget.NewRadioGroup([]string{methodLabel(meansep.LSD), methodLabel(meansep.Tukey)}, nil)
 	method.SetSelected(methodLabel(p.method))
 	method.OnChanged = func(s string) {
-		if s == methodLabel(analysis.Tukey) {
-			p.onMethodChanged(analysis.Tukey)
+		if s == methodLabel(meansep.Tukey) {
+			p.onMethodChanged(meansep.Tukey)
 		} else {
-			p.onMethodChanged(analysis.LSD)
+			p.onMethodChanged(meansep.LSD)
 		}
 	}
 	order := widget.NewRadioGroup([]string{"Best mean first", "Trial order"}, nil)
@@ -233,8 +233,8 @@ func (u *App) showPreferences() {
 // alphaChoices are the significance levels offered.
 var alphaChoices = []string{"0.01", "0.05", "0.1"}
 
-func methodLabel(m analysis.Method) string {
-	if m == analysis.Tukey {
+func methodLabel(m meansep.Method) string {
+	if m == meansep.Tukey {
 		return "Tukey HSD"
 	}
 	return "Fisher's LSD"

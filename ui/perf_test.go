@@ -11,6 +11,7 @@ import (
 	"fyne.io/fyne/v2/test"
 
 	"furlong/sampledata"
+	"furlong/stats/meansep"
 	"furlong/trial"
 	"furlong/trial/analysis"
 	"furlong/trial/trialfile"
@@ -82,7 +83,7 @@ func BenchmarkCharts1200(b *testing.B) {
 	t := bigTrial(b, 1200)
 	tr := analyzeTrait(t, "yield", analysis.Options{Alpha: 0.05})
 	for b.Loop() {
-		drawCharts(t, tr, analysis.LSD, chart.ByMean)
+		drawCharts(t, tr, meansep.LSD, chart.ByMean)
 	}
 }
 
@@ -93,7 +94,7 @@ func BenchmarkChartsDemo(b *testing.B) {
 	}
 	tr := analyzeTrait(t, "yield", analysis.Options{Alpha: 0.05})
 	for b.Loop() {
-		drawCharts(t, tr, analysis.LSD, chart.ByMean)
+		drawCharts(t, tr, meansep.LSD, chart.ByMean)
 	}
 }
 

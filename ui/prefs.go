@@ -3,7 +3,7 @@ package ui
 import (
 	"fyne.io/fyne/v2"
 
-	"furlong/trial/analysis"
+	"furlong/stats/meansep"
 )
 
 // Preference keys. Every key Furlong stores is named here.
@@ -43,7 +43,7 @@ type prefs struct {
 	recent                    []string
 	units                     string
 	alpha                     float64
-	method                    analysis.Method
+	method                    meansep.Method
 	meansOrder                string
 }
 
@@ -62,9 +62,9 @@ func loadPrefs(p fyne.Preferences) *prefs {
 	if s.alpha <= 0 || s.alpha >= 0.5 {
 		s.alpha = 0.05
 	}
-	s.method = analysis.Method(p.StringWithFallback(keyMethod, string(analysis.LSD)))
-	if s.method != analysis.Tukey {
-		s.method = analysis.LSD
+	s.method = meansep.Method(p.StringWithFallback(keyMethod, string(meansep.LSD)))
+	if s.method != meansep.Tukey {
+		s.method = meansep.LSD
 	}
 	s.meansOrder = p.StringWithFallback(keyMeansOrder, orderBestFirst)
 	if s.meansOrder != orderTrial {
@@ -121,7 +121,7 @@ func (s *prefs) onAlphaChanged(a float64) {
 	s.store.SetFloat(keyAlpha, a)
 }
 
-func (s *prefs) onMethodChanged(m analysis.Method) {
+func (s *prefs) onMethodChanged(m meansep.Method) {
 	s.method = m
 	s.store.SetString(keyMethod, string(m))
 }

@@ -15,6 +15,7 @@ import (
 	"furlong/export"
 	"furlong/export/chart"
 	"furlong/export/xlsx"
+	"furlong/stats/meansep"
 	"furlong/trial"
 	"furlong/trial/analysis"
 )
@@ -44,7 +45,7 @@ func newReportStep(u *App) *reportStep {
 	r.traits = widget.NewCheckGroup(nil, r.traitsChanged)
 	r.charts = widget.NewCheck("A chart of the means on each trait sheet", nil)
 	r.charts.SetChecked(true)
-	r.method = widget.NewRadioGroup([]string{methodLabel(analysis.LSD), methodLabel(analysis.Tukey)}, nil)
+	r.method = widget.NewRadioGroup([]string{methodLabel(meansep.LSD), methodLabel(meansep.Tukey)}, nil)
 	r.method.SetSelected(methodLabel(u.prefs.method))
 	r.method.Horizontal = true
 	r.alpha = widget.NewSelect(alphaChoices, nil)
@@ -153,9 +154,9 @@ func (r *reportStep) reportOptions() (xlsx.ReportOptions, []string) {
 			keys = append(keys, tr.Key)
 		}
 	}
-	m := analysis.LSD
-	if r.method.Selected == methodLabel(analysis.Tukey) {
-		m = analysis.Tukey
+	m := meansep.LSD
+	if r.method.Selected == methodLabel(meansep.Tukey) {
+		m = meansep.Tukey
 	}
 	a, err := strconv.ParseFloat(r.alpha.Selected, 64)
 	if err != nil {

@@ -10,6 +10,7 @@ import (
 	"strconv"
 	"testing"
 
+	"furlong/stats/meansep"
 	"furlong/trial"
 	"furlong/trial/analysis"
 )
@@ -77,7 +78,7 @@ func TestMeansFromAnalysisBarley(t *testing.T) {
 	if err := json.Unmarshal(b, &want); err != nil {
 		t.Fatal(err)
 	}
-	bars, _, _, err := meanBars(r, MeansOptions{ErrorBars: ConfidenceInterval, Letters: analysis.Tukey})
+	bars, _, _, err := meanBars(r, MeansOptions{ErrorBars: ConfidenceInterval, Letters: meansep.Tukey})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -97,7 +98,7 @@ func TestMeansFromAnalysisBarley(t *testing.T) {
 			t.Errorf("%s: %g in [%g, %g], want %g ± %g", got.code, got.y, got.low, got.top, w.LSMean, half)
 		}
 	}
-	p, err := Means(tr, r, MeansOptions{ErrorBars: ConfidenceInterval, Letters: analysis.Tukey})
+	p, err := Means(tr, r, MeansOptions{ErrorBars: ConfidenceInterval, Letters: meansep.Tukey})
 	if err != nil {
 		t.Fatal(err)
 	}

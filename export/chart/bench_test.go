@@ -4,14 +4,14 @@ import (
 	"io"
 	"testing"
 
-	"furlong/trial/analysis"
+	"furlong/stats/meansep"
 )
 
 func BenchmarkMeans300PNG(b *testing.B) {
 	tr, r := bigFixture(300, 2)
 	w, h := A4Landscape()
 	for b.Loop() {
-		p, err := Means(tr, r, MeansOptions{Letters: analysis.Tukey})
+		p, err := Means(tr, r, MeansOptions{Letters: meansep.Tukey})
 		if err != nil {
 			b.Fatal(err)
 		}

@@ -6,7 +6,7 @@ import (
 
 	"gonum.org/v1/plot"
 
-	"furlong/trial/analysis"
+	"furlong/stats/meansep"
 )
 
 // TestDebugRender writes sample charts for a person to look at when
@@ -18,9 +18,9 @@ func TestDebugRender(t *testing.T) {
 	}
 	tr, r := fixtureTrial(), fixtureResult()
 	mk := map[string]func() (*plot.Plot, error){
-		"means": func() (*plot.Plot, error) { return Means(tr, r, MeansOptions{Letters: analysis.Tukey}) },
+		"means": func() (*plot.Plot, error) { return Means(tr, r, MeansOptions{Letters: meansep.Tukey}) },
 		"meansci": func() (*plot.Plot, error) {
-			return Means(tr, r, MeansOptions{Letters: analysis.LSD, ErrorBars: ConfidenceInterval, Points: true})
+			return Means(tr, r, MeansOptions{Letters: meansep.LSD, ErrorBars: ConfidenceInterval, Points: true})
 		},
 		"dots":     func() (*plot.Plot, error) { return Spread(tr, "yield", SpreadOptions{ShowExcluded: true, Seed: 7}) },
 		"box":      func() (*plot.Plot, error) { return Spread(tr, "yield", SpreadOptions{Kind: BoxPlot}) },
@@ -30,7 +30,7 @@ func TestDebugRender(t *testing.T) {
 		"qq":       func() (*plot.Plot, error) { return QQ(tr, r) },
 		"big": func() (*plot.Plot, error) {
 			bt, br := bigFixture(60, 3)
-			return Means(bt, br, MeansOptions{Letters: analysis.Tukey})
+			return Means(bt, br, MeansOptions{Letters: meansep.Tukey})
 		},
 		"bigmap": func() (*plot.Plot, error) { bt, _ := bigFixture(60, 3); return FieldMap(bt, FieldMapOptions{}) },
 		"bigheat": func() (*plot.Plot, error) {

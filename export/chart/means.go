@@ -14,6 +14,7 @@ import (
 	"gonum.org/v1/plot/vg/draw"
 
 	"furlong/stats"
+	"furlong/stats/meansep"
 	"furlong/trial"
 	"furlong/trial/analysis"
 )
@@ -36,8 +37,8 @@ const (
 type MeansOptions struct {
 	ErrorBars ErrorBars
 	// Letters is the mean separation whose letters are written above each
-	// mean: analysis.LSD, analysis.Tukey, or "" for none.
-	Letters analysis.Method
+	// mean: meansep.LSD, meansep.Tukey, or "" for none.
+	Letters meansep.Method
 	Order   Order
 	// Points draws a point per mean instead of a bar.
 	Points bool
@@ -249,7 +250,7 @@ func Means(t *trial.Trial, r *analysis.Result, opt MeansOptions) (*plot.Plot, er
 	}
 	if lettersShown {
 		method := "LSD"
-		if opt.Letters == analysis.Tukey {
+		if opt.Letters == meansep.Tukey {
 			method = "Tukey HSD"
 		}
 		panel.entries = append(panel.entries, panelEntry{
@@ -297,9 +298,9 @@ func meanBars(r *analysis.Result, opt MeansOptions) (bars []meanBar, notes []str
 			b.low, b.top = back(m.Mean-k*m.SE), back(m.Mean+k*m.SE)
 		}
 		switch opt.Letters {
-		case analysis.LSD:
+		case meansep.LSD:
 			b.letters = m.LettersLSD
-		case analysis.Tukey:
+		case meansep.Tukey:
 			b.letters = m.LettersTukey
 		case "":
 		default:
@@ -332,7 +333,7 @@ func meanBars(r *analysis.Result, opt MeansOptions) (bars []meanBar, notes []str
 	}
 	pct := formatPercent(alpha)
 	switch {
-	case opt.Letters == analysis.LSD && !r.LSDLettersGiven:
+	case opt.Letters == meansep.LSD && !r.LSDLettersGiven:
 		notes = append(notes, fmt.Sprintf("LSD letters withheld: the treatment F test is not significant at α = %s", pct))
 	case opt.Letters != "" && !lettersShown:
 		notes = append(notes, "No mean separation letters are available for this analysis")

@@ -8,7 +8,7 @@ import (
 	"testing"
 
 	"furlong/stats"
-	"furlong/trial/analysis"
+	"furlong/stats/meansep"
 )
 
 // hexEntry and hexCheck are the bar fills of entries and checks as the SVG
@@ -21,7 +21,7 @@ const (
 func TestMeansChartSVG(t *testing.T) {
 	t.Parallel()
 	tr, r := fixtureTrial(), fixtureResult()
-	p, err := Means(tr, r, MeansOptions{Letters: analysis.Tukey})
+	p, err := Means(tr, r, MeansOptions{Letters: meansep.Tukey})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -117,7 +117,7 @@ func TestMeansLettersWithheld(t *testing.T) {
 	for i := range r.Means {
 		r.Means[i].LettersLSD = ""
 	}
-	p, err := Means(fixtureTrial(), r, MeansOptions{Letters: analysis.LSD})
+	p, err := Means(fixtureTrial(), r, MeansOptions{Letters: meansep.LSD})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -226,7 +226,7 @@ func TestMeansNoData(t *testing.T) {
 func TestMeansManyTreatments(t *testing.T) {
 	t.Parallel()
 	tr, r := bigFixture(300, 2)
-	p, err := Means(tr, r, MeansOptions{Letters: analysis.LSD})
+	p, err := Means(tr, r, MeansOptions{Letters: meansep.LSD})
 	if err != nil {
 		t.Fatal(err)
 	}

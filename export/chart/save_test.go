@@ -11,12 +11,12 @@ import (
 
 	"gonum.org/v1/plot/vg"
 
-	"furlong/trial/analysis"
+	"furlong/stats/meansep"
 )
 
 func TestSavePNGSize(t *testing.T) {
 	t.Parallel()
-	p, err := Means(fixtureTrial(), fixtureResult(), MeansOptions{Letters: analysis.Tukey})
+	p, err := Means(fixtureTrial(), fixtureResult(), MeansOptions{Letters: meansep.Tukey})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -88,7 +88,7 @@ func TestSavePDFText(t *testing.T) {
 	t.Parallel()
 	tr := fixtureTrial()
 	tr.Title = "Essai de maïs, Ferme Brûlée 2026" // invented; accented letters
-	p, err := Means(tr, fixtureResult(), MeansOptions{Letters: analysis.Tukey})
+	p, err := Means(tr, fixtureResult(), MeansOptions{Letters: meansep.Tukey})
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -16,6 +16,7 @@ import (
 	"gonum.org/v1/plot/vg/vgimg"
 
 	"furlong/stats"
+	"furlong/stats/meansep"
 	"furlong/trial"
 	"furlong/trial/analysis"
 )
@@ -32,7 +33,7 @@ func allCharts(t *testing.T) map[string]*plot.Plot {
 		}
 		out[name] = p
 	}
-	p, err := Means(tr, r, MeansOptions{Letters: analysis.LSD})
+	p, err := Means(tr, r, MeansOptions{Letters: meansep.LSD})
 	add("means", p, err)
 	p, err = HeatMap(tr, "yield", HeatMapOptions{PlotNumbers: true})
 	add("heat", p, err)

@@ -17,14 +17,15 @@ import (
 
 	"furlong/export"
 	"furlong/stats"
+	"furlong/stats/meansep"
 	"furlong/trial"
 	"furlong/trial/analysis"
 )
 
 // ReportOptions control WriteReport.
 type ReportOptions struct {
-	Method analysis.Method // mean separation shown: analysis.LSD (default) or analysis.Tukey
-	Alpha  float64         // significance level of the letters and LSD/HSD, default 0.05
+	Method meansep.Method // mean separation shown: meansep.LSD (default) or meansep.Tukey
+	Alpha  float64        // significance level of the letters and LSD/HSD, default 0.05
 	// Traits lists the keys of the traits to report, in order; empty for
 	// every trait of the trial.
 	Traits  []string
@@ -66,7 +67,7 @@ type report struct {
 // report. It returns the context's error when cancelled.
 func WriteReport(w io.Writer, t *trial.Trial, results []analysis.Outcome, opts ReportOptions) error {
 	if opts.Method == "" {
-		opts.Method = analysis.LSD
+		opts.Method = meansep.LSD
 	}
 	if opts.Alpha <= 0 || opts.Alpha >= 1 {
 		opts.Alpha = 0.05
@@ -320,7 +321,7 @@ func traitLabel(name, unit string) string {
 
 func (r *report) methodNote() string {
 	level := strconv.FormatFloat(100*r.opts.Alpha, 'f', -1, 64) + "%"
-	if r.opts.Method == analysis.Tukey {
+	if r.opts.Method == meansep.Tukey {
 		return "Means followed by the same letter do not differ at the " + level + " level (Tukey's HSD)."
 	}
 	return "Means followed by the same letter do not differ at the " + level + " level (Fisher's protected LSD)."

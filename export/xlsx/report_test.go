@@ -14,6 +14,7 @@ import (
 
 	"furlong/export"
 	"furlong/stats"
+	"furlong/stats/meansep"
 	"furlong/trial"
 	"furlong/trial/analysis"
 )
@@ -22,8 +23,8 @@ func TestReportSummaryNumbers(t *testing.T) {
 	t.Parallel()
 	tr, exp := barleyTrial(t)
 	res := barleyResults(t, tr)
-	f, _ := writeReport(t, tr, res, ReportOptions{Method: analysis.LSD, Version: "test"})
-	sum := export.NewSummary(tr, res, nil, analysis.LSD, 0.05)
+	f, _ := writeReport(t, tr, res, ReportOptions{Method: meansep.LSD, Version: "test"})
+	sum := export.NewSummary(tr, res, nil, meansep.LSD, 0.05)
 	yield := res[0].Result
 	yieldTrt, _ := yield.ANOVA.Treatment()
 
@@ -131,7 +132,7 @@ func TestReportTraitSheet(t *testing.T) {
 	t.Parallel()
 	tr, exp := barleyTrial(t)
 	res := barleyResults(t, tr)
-	f, _ := writeReport(t, tr, res, ReportOptions{Method: analysis.Tukey})
+	f, _ := writeReport(t, tr, res, ReportOptions{Method: meansep.Tukey})
 	r := res[0].Result
 	sh := "Yield"
 	head := findRow(t, f, sh, 1, "Source")
@@ -513,7 +514,7 @@ func TestReportProgressCancel(t *testing.T) {
 func TestReportCharts(t *testing.T) {
 	t.Parallel()
 	tr, _ := barleyTrial(t)
-	f, _ := writeReport(t, tr, barleyResults(t, tr), ReportOptions{Charts: true, Method: analysis.Tukey})
+	f, _ := writeReport(t, tr, barleyResults(t, tr), ReportOptions{Charts: true, Method: meansep.Tukey})
 	for _, sh := range []string{"Yield", "收获"} {
 		c := cell(chartCol, findRow(t, f, sh, 1, "Treatment"))
 		pics, err := f.GetPictures(sh, c)

@@ -4,21 +4,34 @@ import (
 	"fmt"
 	"math"
 	"strconv"
+	"strings"
 )
 
-// Method is a test for separating means.
-type Method int
+// Method is a test for separating means. Its value is the name trial
+// files, the JSON output and the command line use ("lsd", "tukey"); the
+// zero value "" names no method.
+type Method string
 
 const (
 	// LSD is Fisher's least significant difference: unadjusted t tests,
 	// protected by the treatment F test (see Result.LSDLetters).
-	LSD Method = iota
+	LSD Method = "lsd"
 	// Tukey is Tukey's honestly significant difference (Tukey–Kramer with
 	// unequal standard errors), controlling the familywise error rate.
-	Tukey
+	Tukey Method = "tukey"
 )
 
-// String returns the usual name of the method.
+// ParseMethod returns the method named s ("lsd" or "tukey", any case), and
+// false for any other name.
+func ParseMethod(s string) (Method, bool) {
+	switch m := Method(strings.ToLower(strings.TrimSpace(s))); m {
+	case LSD, Tukey:
+		return m, true
+	}
+	return "", false
+}
+
+// String returns the usual name of the method: "LSD", "Tukey HSD".
 func (m Method) String() string {
 	switch m {
 	case LSD:
@@ -26,7 +39,7 @@ func (m Method) String() string {
 	case Tukey:
 		return "Tukey HSD"
 	}
-	return "Method(" + strconv.Itoa(int(m)) + ")"
+	return "Method(" + strconv.Quote(string(m)) + ")"
 }
 
 // Significant returns the predicate "treatments i and j differ at level

@@ -10,14 +10,6 @@ import (
 	"furlong/trial"
 )
 
-// Method is a mean separation procedure.
-type Method string
-
-const (
-	LSD   Method = "lsd"   // Fisher's protected least significant difference
-	Tukey Method = "tukey" // Tukey's HSD (Tukey–Kramer when unbalanced)
-)
-
 // Options control an analysis.
 type Options struct {
 	Alpha float64 // significance level, default 0.05

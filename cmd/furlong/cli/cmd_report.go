@@ -13,6 +13,7 @@ import (
 	"furlong/export"
 	"furlong/export/chart"
 	"furlong/export/xlsx"
+	"furlong/stats/meansep"
 	"furlong/trial"
 	"furlong/trial/analysis"
 	"furlong/trial/trialfile"
@@ -186,7 +187,7 @@ func runChart(ctx context.Context, o chartOptions) error {
 	default:
 		return usagef("chart: --order must be mean or code")
 	}
-	var letters analysis.Method
+	var letters meansep.Method
 	switch o.kind {
 	case "means":
 		if o.method != "none" {
@@ -293,12 +294,12 @@ func imageFormat(out string) (string, error) {
 	return "", usagef("the output must end in .png, .svg or .pdf")
 }
 
-func parseMethod(s string) (analysis.Method, error) {
+func parseMethod(s string) (meansep.Method, error) {
 	switch strings.ToLower(s) {
 	case "lsd":
-		return analysis.LSD, nil
+		return meansep.LSD, nil
 	case "tukey", "hsd":
-		return analysis.Tukey, nil
+		return meansep.Tukey, nil
 	}
 	return "", usagef("--method must be lsd or tukey, not %q", s)
 }
