@@ -49,27 +49,39 @@ type Summary struct {
 	Alpha  float64
 	Traits []SummaryTrait
 	Rows   []SummaryRow
-	// Yield is the index in Traits of the trait used for the percentage of
-	// the check, -1 when there is none (see YieldTrait).
-	Yield int
-	// CheckMean is the mean of the check entries for the yield trait; valid
-	// when HasCheck.
-	CheckMean float64
-	HasCheck  bool
+}
+
+// HasPercentOfCheck reports whether any trait of the summary shows its means
+// as percentages of the check.
+func (s *Summary) HasPercentOfCheck() bool {
+	for _, st := range s.Traits {
+		if st.CheckMean != nil {
+			return true
+		}
+	}
+	return false
 }
 
 // SummaryTrait is one trait column of a Summary.
 type SummaryTrait struct {
 	Key, Name, Unit string
-	Decimals        int
+	Decimals        int              // of the recorded values
+	MeanDecimals    int              // of its means (analysis.MeanDecimals)
 	Result          *analysis.Result // nil when the trait could not be analysed
 	Reason          string           // why there is no Result
+	// CheckMean is the mean of the check entries when the trait shows
+	// percentages of the check (the user's choice, trial.Trial.
+	// ShowsPercentOfCheck), nil otherwise; the cells then carry them.
+	CheckMean *float64
 
 	GrandMean float64
 	CVPercent float64
 	// MSD is the least significant difference (LSD) or honestly significant
 	// difference (HSD) at Alpha, by Method; nil when replication is unequal.
 	MSD *float64
+	// MSDRange is the range of the pairwise LSDs or HSDs, the yardstick
+	// when replication is unequal; nil when there is no comparison.
+	MSDRange *analysis.Range
 	// P is the p-value of the treatment F test; HasP is false when the
 	// ANOVA has no treatment test.
 	P    float64
@@ -82,9 +94,6 @@ type SummaryRow struct {
 	Name      string
 	Check     bool
 	Cells     []SummaryCell // one per Summary.Traits
-	// PercentOfCheck is the entry's yield as a percentage of the check mean,
-	// nil when the summary has no yield trait or no check.
-	PercentOfCheck *float64
 }
 
 // SummaryCell is the mean of one treatment for one trait.
@@ -92,6 +101,28 @@ type SummaryCell struct {
 	OK      bool    // false when the trait has no analysis or no mean for the treatment
 	Mean    float64 // on the original scale (back-transformed when the analysis was transformed)
 	Letters string  // mean separation letters by the summary's method; "" when withheld
+	// PercentOfCheck is the mean as a percentage of the trait's check mean,
+	// nil when the trait does not show it.
+	PercentOfCheck *float64
+}
+
+// MSDText writes a least significant difference for a table: the single
+// value with dec decimals, or for unequal replication the range of the
+// pairwise values, "0.48–0.55 (unequal n)", so that the reader keeps a
+// yardstick; "–" when there is neither.
+func MSDText(msd *float64, rng *analysis.Range, dec int) string {
+	f := func(v float64) string { return strconv.FormatFloat(v, 'f', dec, 64) }
+	switch {
+	case msd != nil && finite(*msd):
+		return f(*msd)
+	case rng != nil && finite(rng.Min) && finite(rng.Max):
+		lo, hi := f(rng.Min), f(rng.Max)
+		if lo == hi {
+			return lo + " (unequal n)"
+		}
+		return lo + "–" + hi + " (unequal n)"
+	}
+	return "–"
 }
 
 // MSDLabel names the minimum significant difference of the method:
@@ -118,6 +149,14 @@ func MSD(r *analysis.Result, method meansep.Method) *float64 {
 		return r.HSD
 	}
 	return r.LSD
+}
+
+// MSDRange returns the range of the pairwise LSDs or HSDs of r by method.
+func MSDRange(r *analysis.Result, method meansep.Method) *analysis.Range {
+	if method == meansep.Tukey {
+		return r.HSDRange
+	}
+	return r.LSDRange
 }
 
 // YieldTrait returns the index in traits of the trial's yield trait, -1
@@ -169,15 +208,21 @@ func LookupOutcome(results []analysis.Outcome, key string) (analysis.Outcome, bo
 }
 
 // NewSummary builds the summary table of the traits of t listed in keys
-// (every trait when empty) from their results, separating means by method.
-// A trait with no result, or whose result carries an error, has a column
-// with no means and its Reason set.
+// (every trait when empty) from their results, separating means by method
+// ("" for the trial's remembered method). A trait with no result, or whose
+// result carries an error, has a column with no means and its Reason set.
+// Percentages of the check come from the results (analysis.Result.
+// CheckMean), for the traits the user chose.
 func NewSummary(t *trial.Trial, results []analysis.Outcome, keys []string, method meansep.Method, alpha float64) *Summary {
+	if method == "" {
+		method = meansep.Method(t.MeanSeparation())
+	}
 	traits := ReportTraits(t, keys)
-	s := &Summary{Method: method, Alpha: alpha, Yield: YieldTrait(traits)}
+	s := &Summary{Method: method, Alpha: alpha}
 	s.Traits = make([]SummaryTrait, len(traits))
 	for j, tr := range traits {
-		st := SummaryTrait{Key: tr.Key, Name: tr.Name, Unit: tr.Unit, Decimals: tr.Decimals}
+		st := SummaryTrait{Key: tr.Key, Name: tr.Name, Unit: tr.Unit, Decimals: tr.Decimals,
+			MeanDecimals: analysis.MeanDecimals(tr.Decimals)}
 		if st.Name == "" {
 			st.Name = tr.Key
 		}
@@ -194,6 +239,8 @@ func NewSummary(t *trial.Trial, results []analysis.Outcome, keys []string, metho
 				st.CVPercent = a.CVPercent
 			}
 			st.MSD = MSD(r.Result, method)
+			st.MSDRange = MSDRange(r.Result, method)
+			st.CheckMean = r.Result.CheckMean
 			if src, ok := r.Result.ANOVA.Treatment(); ok && src.HasTest {
 				st.P, st.HasP = src.P, true
 			}
@@ -212,7 +259,7 @@ func NewSummary(t *trial.Trial, results []analysis.Outcome, keys []string, metho
 			for _, m := range st.Result.Means {
 				if m.Treatment == tm.Code {
 					if finite(m.BackMean) {
-						row.Cells[j] = SummaryCell{OK: true, Mean: m.BackMean, Letters: Letters(m, method)}
+						row.Cells[j] = SummaryCell{OK: true, Mean: m.BackMean, Letters: Letters(m, method), PercentOfCheck: m.PercentOfCheck}
 					}
 					break
 				}
@@ -221,79 +268,10 @@ func NewSummary(t *trial.Trial, results []analysis.Outcome, keys []string, metho
 		s.Rows[i] = row
 	}
 
-	if s.Yield >= 0 && s.Traits[s.Yield].Result != nil {
-		var sum float64
-		var n int
-		for _, row := range s.Rows {
-			if c := row.Cells[s.Yield]; row.Check && c.OK {
-				sum += c.Mean
-				n++
-			}
-		}
-		if n > 0 && sum != 0 {
-			s.CheckMean, s.HasCheck = sum/float64(n), true
-			for i := range s.Rows {
-				if c := s.Rows[i].Cells[s.Yield]; c.OK {
-					p := 100 * c.Mean / s.CheckMean
-					s.Rows[i].PercentOfCheck = &p
-				}
-			}
-		}
-	}
 	return s
 }
 
 func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
-
-// DiagnosticAlpha is the level at which the model checks are read. The 5%
-// level is the usual convention for assumption tests (common practice).
-const DiagnosticAlpha = 0.05
-
-// Diagnostics reads the model checks of r in plain words, one sentence each:
-// normality of the residuals (Shapiro–Wilk), equality of variances (Levene,
-// Bartlett), additivity of blocks and treatments (Tukey's test) and large
-// residuals.
-func Diagnostics(r *analysis.Result) []string {
-	d := r.Diagnostics
-	var out []string
-	if d.ShapiroW != nil && d.ShapiroP != nil {
-		s := fmt.Sprintf("Normality of residuals (Shapiro–Wilk): W = %.3f, p = %s: ", *d.ShapiroW, stats.FormatP(*d.ShapiroP))
-		if *d.ShapiroP < DiagnosticAlpha {
-			s += "the residuals depart from a normal distribution; look for outliers or consider a transformation."
-		} else {
-			s += "no evidence against normally distributed residuals."
-		}
-		out = append(out, s)
-	}
-	variance := func(test, stat string, v, p *float64) {
-		if v == nil || p == nil {
-			return
-		}
-		s := fmt.Sprintf("Equal variances among treatments (%s): %s = %.3f, p = %s: ", test, stat, *v, stats.FormatP(*p))
-		if *p < DiagnosticAlpha {
-			s += "the spread differs between treatments; means of the more variable treatments are less certain."
-		} else {
-			s += "no evidence that the spread differs between treatments."
-		}
-		out = append(out, s)
-	}
-	variance("Levene, median-centred", "F", d.LeveneF, d.LeveneP)
-	variance("Bartlett", "K²", d.BartlettK2, d.BartlettP)
-	if d.NonAdditivityF != nil && d.NonAdditivityP != nil {
-		s := fmt.Sprintf("Additivity of blocks and treatments (Tukey's one-degree-of-freedom test): F = %.3f, p = %s: ", *d.NonAdditivityF, stats.FormatP(*d.NonAdditivityP))
-		if *d.NonAdditivityP < DiagnosticAlpha {
-			s += "treatment differences change from block to block; a log transformation may help."
-		} else {
-			s += "no evidence that treatment differences change from block to block."
-		}
-		out = append(out, s)
-	}
-	for _, o := range d.Outliers {
-		out = append(out, fmt.Sprintf("Plot %d (%s): value %s lies far from its expected value (standardised residual %.2f); check the field record.",
-			o.Plot, o.Treatment, strconv.FormatFloat(o.Value, 'f', max(r.Decimals, 0), 64), o.StdResidual))
-	}
-	return out
-}
 
 // ExclusionReason returns why plot p is left out of the analysis of the
 // trait with key, "" when it is not. Reasons of several exclusions are

@@ -2,7 +2,6 @@ package export
 
 import (
 	"errors"
-	"strings"
 	"testing"
 
 	"furlong/stats"
@@ -32,9 +31,8 @@ func TestYieldTrait(t *testing.T) {
 	}
 }
 
-// TestSummaryPercentOfCheck checks the percentage of the check on a small
-// worked case: check mean 4.0 (two checks 3.5 and 4.5, averaged, common
-// practice), an entry at 5.0 is 125%.
+// TestSummaryPercentOfCheck: the summary carries each trait's percentages
+// of the check from its result (computed and checked in trial/analysis).
 func TestSummaryPercentOfCheck(t *testing.T) {
 	t.Parallel()
 	tr := &trial.Trial{
@@ -46,18 +44,18 @@ func TestSummaryPercentOfCheck(t *testing.T) {
 	res := &analysis.Result{TraitKey: "yield", LSD: fp(0.7), HSD: nil,
 		ANOVA: &stats.ANOVA{GrandMean: 4.25, CVPercent: 9.5, Sources: stats.Table{{Name: "treatment", Role: stats.RoleTreatment, HasTest: true, P: 0.012}, {Name: "error", Role: stats.RoleError}}},
 		Means: []analysis.Mean{
-			{Treatment: "A", BackMean: 3.5, LettersLSD: "b", LettersTukey: "a"},
-			{Treatment: "B", BackMean: 4.5, LettersLSD: "ab", LettersTukey: "a"},
-			{Treatment: "C", BackMean: 5.0, LettersLSD: "a", LettersTukey: "a"},
-			{Treatment: "D", BackMean: 4.0, LettersLSD: "ab", LettersTukey: "a"},
-		}}
+			{Treatment: "A", BackMean: 3.5, LettersLSD: "b", LettersTukey: "a", PercentOfCheck: fp(87.5)},
+			{Treatment: "B", BackMean: 4.5, LettersLSD: "ab", LettersTukey: "a", PercentOfCheck: fp(112.5)},
+			{Treatment: "C", BackMean: 5.0, LettersLSD: "a", LettersTukey: "a", PercentOfCheck: fp(125)},
+			{Treatment: "D", BackMean: 4.0, LettersLSD: "ab", LettersTukey: "a", PercentOfCheck: fp(100)},
+		}, CheckMean: fp(4)}
 	outs := []analysis.Outcome{{Key: "yield", Result: res}, {Key: "ht", Err: errors.New(NoValues)}}
 	s := NewSummary(tr, outs, nil, meansep.LSD, 0.05)
-	if !s.HasCheck || s.CheckMean != 4.0 || s.Yield != 0 {
-		t.Fatalf("check mean %v (has %v), yield trait %d", s.CheckMean, s.HasCheck, s.Yield)
+	if !s.HasPercentOfCheck() || s.Traits[0].CheckMean == nil || *s.Traits[0].CheckMean != 4.0 || s.Traits[1].CheckMean != nil {
+		t.Fatalf("check mean %v / %v", s.Traits[0].CheckMean, s.Traits[1].CheckMean)
 	}
 	for i, want := range []float64{87.5, 112.5, 125, 100} {
-		if p := s.Rows[i].PercentOfCheck; p == nil || *p != want {
+		if p := s.Rows[i].Cells[0].PercentOfCheck; p == nil || *p != want {
 			t.Errorf("row %d %% of check = %v, want %v", i, p, want)
 		}
 	}
@@ -79,26 +77,23 @@ func TestSummaryPercentOfCheck(t *testing.T) {
 	}
 }
 
-func TestDiagnosticsWords(t *testing.T) {
+// TestMSDText: a single LSD, or the range of the pairwise ones when plots
+// are missing, so that the reader keeps a yardstick.
+func TestMSDText(t *testing.T) {
 	t.Parallel()
-	r := &analysis.Result{Decimals: 1}
-	r.Diagnostics.ShapiroW, r.Diagnostics.ShapiroP = fp(0.9517), fp(0.0187)
-	r.Diagnostics.NonAdditivityF, r.Diagnostics.NonAdditivityP = fp(1.2), fp(0.28)
-	r.Diagnostics.LeveneF, r.Diagnostics.LeveneP = fp(3.1), fp(0.0004)
-	r.Diagnostics.Outliers = []analysis.Outlier{{Plot: 203, Treatment: "T4", Value: 12.34, StdResidual: 3.4}}
-	got := strings.Join(Diagnostics(r), "\n")
-	for _, want := range []string{
-		"Shapiro–Wilk): W = 0.952, p = 0.019: the residuals depart",
-		"Levene, median-centred): F = 3.100, p = <0.001: the spread differs",
-		"p = 0.280: no evidence that treatment differences change",
-		"Plot 203 (T4): value 12.3",
+	for _, c := range []struct {
+		msd  *float64
+		rng  *analysis.Range
+		want string
+	}{
+		{fp(0.512), &analysis.Range{Min: 0.512, Max: 0.512}, "0.51"},
+		{nil, &analysis.Range{Min: 0.4791, Max: 0.5533}, "0.48–0.55 (unequal n)"},
+		{nil, &analysis.Range{Min: 0.5, Max: 0.5001}, "0.50 (unequal n)"},
+		{nil, nil, "–"},
 	} {
-		if !strings.Contains(got, want) {
-			t.Errorf("diagnostics lack %q:\n%s", want, got)
+		if got := MSDText(c.msd, c.rng, 2); got != c.want {
+			t.Errorf("MSDText(%v, %v) = %q, want %q", c.msd, c.rng, got, c.want)
 		}
-	}
-	if strings.Contains(got, "Bartlett") {
-		t.Error("a test that was not run is described")
 	}
 }
 

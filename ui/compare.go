@@ -295,18 +295,18 @@ func (c *compareStep) showResult(r *analysis.Result) {
 		}
 		a := r.ANOVA
 		add := func(k, v string) { c.statsBox.Add(cell(k, false)); c.statsBox.Add(cell(v, true)) }
-		add("Grand mean", fixed(a.GrandMean, r.Decimals+1)+" "+r.Unit)
+		add("Grand mean", fixed(a.GrandMean, analysis.MeanDecimals(r.Decimals))+" "+r.Unit)
 		add("CV %", fixed(a.CVPercent, 1))
 		v := r.LSD
 		if c.method == meansep.Tukey {
 			v = r.HSD
 		}
 		level := export.MSDLabel(c.method, r.Alpha) // the report's words too
-		if v != nil {
-			add(level, fixed(*v, r.Decimals+1))
-		} else {
-			add(level, "differs by pair (unequal plots)")
+		rng := r.LSDRange
+		if c.method == meansep.Tukey {
+			rng = r.HSDRange
 		}
+		add(level, export.MSDText(v, rng, analysis.MeanDecimals(r.Decimals)))
 		add("R²", fixed(a.RSquared, 3))
 		if a.RelativeEfficiency != nil {
 			re := fixed(*a.RelativeEfficiency, 2)
@@ -429,9 +429,9 @@ func (c *compareStep) meanText(row, col int) string {
 	case 1:
 		return strconv.Itoa(m.N)
 	case 2:
-		return fixed(m.BackMean, c.shownDecimals+1)
+		return fixed(m.BackMean, analysis.MeanDecimals(c.shownDecimals))
 	case 3:
-		return fixed(m.SE, c.shownDecimals+2)
+		return fixed(m.SE, analysis.MeanDecimals(c.shownDecimals))
 	case 4:
 		if c.method == meansep.Tukey {
 			return m.LettersTukey
@@ -484,9 +484,9 @@ func summaryTable(s *resultSet, method meansep.Method) (head []string, rows [][]
 			h += " (" + st.Unit + ")"
 		}
 		head = append(head, h)
-	}
-	if sum.HasCheck {
-		head = append(head, "% of check")
+		if st.CheckMean != nil {
+			head = append(head, st.Name+" % of check")
+		}
 	}
 	for _, r := range sum.Rows {
 		row := []string{r.Treatment + "  " + r.Name}
@@ -494,17 +494,19 @@ func summaryTable(s *resultSet, method meansep.Method) (head []string, rows [][]
 			row[0] += " (check)"
 		}
 		for i, c := range r.Cells {
-			if !c.OK {
+			st := sum.Traits[i]
+			switch {
+			case !c.OK:
 				row = append(row, "–")
-				continue
+			default:
+				row = append(row, strings.TrimSpace(fixed(c.Mean, st.MeanDecimals)+" "+c.Letters))
 			}
-			row = append(row, strings.TrimSpace(fixed(c.Mean, sum.Traits[i].Decimals+1)+" "+c.Letters))
-		}
-		if sum.HasCheck {
-			if r.PercentOfCheck != nil {
-				row = append(row, fixed(*r.PercentOfCheck, 0))
-			} else {
-				row = append(row, "–")
+			if st.CheckMean != nil {
+				if c.PercentOfCheck != nil {
+					row = append(row, fixed(*c.PercentOfCheck, 0))
+				} else {
+					row = append(row, "–")
+				}
 			}
 		}
 		rows = append(rows, row)
@@ -514,22 +516,19 @@ func summaryTable(s *resultSet, method meansep.Method) (head []string, rows [][]
 		for _, st := range sum.Traits {
 			if st.Result == nil {
 				row = append(row, "")
-				continue
+			} else {
+				row = append(row, f(st))
 			}
-			row = append(row, f(st))
-		}
-		if sum.HasCheck {
-			row = append(row, "")
+			if st.CheckMean != nil {
+				row = append(row, "")
+			}
 		}
 		rows = append(rows, row)
 	}
-	line("Mean", func(st export.SummaryTrait) string { return fixed(st.GrandMean, st.Decimals+1) })
+	line("Mean", func(st export.SummaryTrait) string { return fixed(st.GrandMean, st.MeanDecimals) })
 	line("CV %", func(st export.SummaryTrait) string { return fixed(st.CVPercent, 1) })
 	line(export.MSDLabel(method, s.alpha), func(st export.SummaryTrait) string {
-		if st.MSD == nil {
-			return "unequal plots"
-		}
-		return fixed(*st.MSD, st.Decimals+1)
+		return export.MSDText(st.MSD, st.MSDRange, st.MeanDecimals)
 	})
 	line("P (treatments)", func(st export.SummaryTrait) string {
 		if !st.HasP {

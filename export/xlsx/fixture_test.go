@@ -45,6 +45,7 @@ type barleyExpected struct {
 		SE        float64 `json:"se"`
 	} `json:"means"`
 	LSD     float64           `json:"lsd_05"`
+	TCrit   float64           `json:"t_crit_975"`
 	HSD     float64           `json:"hsd_05"`
 	Letters map[string]string `json:"letters_tukey_example"`
 	Shapiro struct {

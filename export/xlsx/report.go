@@ -24,8 +24,10 @@ import (
 
 // ReportOptions control WriteReport.
 type ReportOptions struct {
-	Method meansep.Method // mean separation shown: meansep.LSD (default) or meansep.Tukey
-	Alpha  float64        // significance level of the letters and LSD/HSD, default 0.05
+	// Method is the mean separation shown; "" for the trial's remembered
+	// method (trial.Trial.MeanSeparation), the one Compare shows.
+	Method meansep.Method
+	Alpha  float64 // significance level of the letters and LSD/HSD, default 0.05
 	// Traits lists the keys of the traits to report, in order; empty for
 	// every trait of the trial.
 	Traits  []string
@@ -67,7 +69,7 @@ type report struct {
 // report. It returns the context's error when cancelled.
 func WriteReport(w io.Writer, t *trial.Trial, results []analysis.Outcome, opts ReportOptions) error {
 	if opts.Method == "" {
-		opts.Method = meansep.LSD
+		opts.Method = meansep.Method(t.MeanSeparation())
 	}
 	if opts.Alpha <= 0 || opts.Alpha >= 1 {
 		opts.Alpha = 0.05
@@ -327,128 +329,187 @@ func (r *report) methodNote() string {
 	return "Means followed by the same letter do not differ at the " + level + " level (Fisher's protected LSD)."
 }
 
+// Colours of the summary sheet: a pale band behind each trait's group of
+// columns, a deeper one for its header.
+const (
+	bandFill = "EEF3F8"
+	headFill = "D5E1EE"
+)
+
+// writeSummary writes the all-traits sheet: one row per treatment; per trait
+// a group of columns (mean, the letters in a column of their own headed
+// "group", and the percentage of the check when the trait shows it), then a
+// statistics block with one row per trait (grand mean, CV%, LSD or HSD or
+// its range, p of the treatment F test and its reading).
 func (r *report) writeSummary(name string) error {
 	sum := r.sum
 	s := newSheet(r.f, r.st, name)
-	s.textNoWidth(1, 1, "Summary of treatment means", titleStyle)
-	s.textNoWidth(1, 2, r.methodNote(), noteStyle)
-	const head = 4
-	s.text(1, head, "Treatment", headStyle)
-	s.text(2, head, "Name", headStyle)
-	s.text(3, head, "Role", headStyle)
+	s.textNoWidth(1, 1, "All traits: treatment means", titleStyle)
+	s.textNoWidth(1, 2, r.methodNote()+" Letters are in the group column beside each mean.", noteStyle)
+	const top, sub = 4, 5 // trait names, then the column heads under them
+	headLeft := styleKey{bold: true, wrap: true, valign: "center", fill: headFill}
+	headRight := headLeft
+	headRight.halign = "right"
+	headCentre := headLeft
+	headCentre.halign = "center"
+	for c, h := range []string{"Treatment", "Name", "Role"} {
+		s.text(1+c, sub, h, withBottom(headLeft))
+		s.setStyle(1+c, top, headLeft)
+	}
+	type group struct{ mean, letters, pct int }
+	groups := make([]group, len(sum.Traits))
 	col := 4
-	traitCol := make([]int, len(sum.Traits))
-	// A trait's header spans its mean and letters columns and wraps; the
-	// header row is made tall enough for the longest.
 	lines := 1.0
 	for j, st := range sum.Traits {
-		traitCol[j] = col
-		label := traitLabel(st.Name, st.Unit)
-		s.textNoWidth(col, head, label, headStyle)
-		s.textNoWidth(col+1, head, "", headStyle)
-		if s.err == nil {
-			s.fail(r.f.MergeCell(name, cellName(col, head), cellName(col+1, head)))
+		g := group{mean: col, letters: col + 1}
+		last := col + 1
+		if st.CheckMean != nil {
+			g.pct = col + 2
+			last = col + 2
 		}
-		s.track(col, 8)
-		s.track(col+1, 4)
-		lines = math.Max(lines, math.Ceil(displayWidth(label)*1.1/(8+4+4)))
-		col += 2
-	}
-	pctCol := 0
-	if sum.Yield >= 0 && sum.HasCheck {
-		pctCol = col
-		label := sum.Traits[sum.Yield].Name + " % of check"
-		s.textNoWidth(pctCol, head, label, headStyle)
-		s.track(pctCol, 10)
-		lines = math.Max(lines, math.Ceil(displayWidth(label)*1.1/12))
+		groups[j] = g
+		label := traitLabel(st.Name, st.Unit)
+		s.textNoWidth(col, top, label, headCentre)
+		for c := col + 1; c <= last; c++ {
+			s.setStyle(c, top, headCentre)
+		}
+		if s.err == nil && last > col {
+			s.fail(r.f.MergeCell(name, cellName(col, top), cellName(last, top)))
+		}
+		s.text(g.mean, sub, "mean", withBottom(headRight))
+		s.text(g.letters, sub, "group", withBottom(headCentre))
+		if g.pct > 0 {
+			s.text(g.pct, sub, "% check", withBottom(headRight))
+		}
+		lines = math.Max(lines, math.Ceil(displayWidth(label)*1.1/float64(8*(last-col+1))))
+		col = last + 1
 	}
 	if s.err == nil {
-		s.fail(r.f.SetRowHeight(name, head, 15*math.Min(lines, 6)))
+		s.fail(r.f.SetRowHeight(name, top, 15*math.Min(lines, 6)))
 	}
 	s.widths[1] = math.Max(s.widths[1], 9)
-	row := head + 1
-	for _, tr := range sum.Rows {
-		s.text(1, row, tr.Treatment, styleKey{})
-		s.text(2, row, tr.Name, styleKey{})
-		if tr.Check {
-			s.text(3, row, "check", styleKey{bold: true})
-		} else {
-			s.text(3, row, "entry", styleKey{})
+	row := sub + 1
+	for i, tr := range sum.Rows {
+		band := styleKey{}
+		if i%2 == 1 {
+			band.fill = bandFill // every other row shaded, to follow a row across many traits
 		}
+		s.text(1, row, tr.Treatment, band)
+		s.text(2, row, tr.Name, withBold(band, tr.Check))
+		role := "entry"
+		if tr.Check {
+			role = "check"
+		}
+		s.text(3, row, role, withBold(band, tr.Check))
 		for j, st := range sum.Traits {
-			c := tr.Cells[j]
+			c, g := tr.Cells[j], groups[j]
 			if !c.OK {
-				s.text(traitCol[j], row, dash, dashStyle)
+				s.text(g.mean, row, dash, withFill(dashStyle, band.fill))
+				s.setStyle(g.letters, row, band)
+				if g.pct > 0 {
+					s.setStyle(g.pct, row, band)
+				}
 				continue
 			}
-			s.num(traitCol[j], row, c.Mean, numStyle(st.Decimals))
-			s.text(traitCol[j]+1, row, c.Letters, styleKey{})
-		}
-		if pctCol > 0 {
-			if tr.PercentOfCheck != nil {
-				s.num(pctCol, row, *tr.PercentOfCheck, styleKey{numFmt: percentFormat})
-			} else {
-				s.text(pctCol, row, dash, dashStyle)
+			s.num(g.mean, row, c.Mean, withFill(numStyle(st.MeanDecimals), band.fill))
+			s.text(g.letters, row, c.Letters, styleKey{halign: "center", italic: true, fill: band.fill})
+			if g.pct > 0 {
+				if c.PercentOfCheck != nil {
+					s.num(g.pct, row, *c.PercentOfCheck, withFill(styleKey{numFmt: percentFormat}, band.fill))
+				} else {
+					s.text(g.pct, row, dash, withFill(dashStyle, band.fill))
+				}
 			}
 		}
 		row++
 	}
-	top := styleKey{bold: true, border: [4]int{0, 1, 0, 0}}
-	statRows := []string{"Grand mean", "CV%", export.MSDLabel(r.opts.Method, r.opts.Alpha), "p (treatments)"}
-	for i, label := range statRows {
-		k := labelStyle
-		if i == 0 {
-			k = top
-			for c := 2; c < col || (pctCol > 0 && c <= pctCol); c++ {
-				s.setStyle(c, row, styleKey{border: [4]int{0, 1, 0, 0}})
-			}
+	row++
+
+	// The statistics block: one row per trait.
+	s.textNoWidth(1, row, "Statistics of each trait", sectionStyle)
+	row++
+	msdHead := export.MSDLabel(sum.Method, sum.Alpha)
+	for c, h := range []string{"Trait", "", "", "Grand mean", "CV%", msdHead, "p (treatments)", "F test"} {
+		k := withBottom(headLeft)
+		if c >= 3 && c <= 6 {
+			k = withBottom(headRight)
 		}
-		s.text(1, row+i, label, k)
+		if h != "" || c < 3 {
+			s.textNoWidth(1+c, row, h, k)
+		}
 	}
-	for j, st := range sum.Traits {
-		c := traitCol[j]
+	if s.err == nil {
+		s.fail(r.f.MergeCell(name, cellName(1, row), cellName(3, row)))
+	}
+	row++
+	level := strconv.FormatFloat(sum.Alpha, 'f', -1, 64)
+	for _, st := range sum.Traits {
+		s.textNoWidth(1, row, traitLabel(st.Name, st.Unit), labelStyle)
 		if st.Result == nil {
-			for i := range statRows {
-				s.text(c, row+i, dash, withTop(dashStyle, i == 0))
-			}
+			s.textNoWidth(4, row, "no analysis: "+st.Reason+".", noteStyle)
+			row++
 			continue
 		}
-		s.numOrDash(c, row, st.GrandMean, withTop(numStyle(st.Decimals), true))
-		s.numOrDash(c, row+1, st.CVPercent, numStyle(1))
+		dec := st.MeanDecimals
+		s.numOrDash(4, row, st.GrandMean, numStyle(dec))
+		s.numOrDash(5, row, st.CVPercent, numStyle(1))
 		switch {
+		case st.Result.Transform != stats.NoTransform:
+			// On the analysis scale: the difference of two back-transformed
+			// means has no single yardstick.
+			s.text(6, row, export.MSDText(st.MSD, st.MSDRange, analysis.TransformedDecimals)+" ("+st.Result.Transform.Scale()+" scale)", styleKey{halign: "right"})
 		case st.MSD != nil && finiteF(*st.MSD):
-			s.num(c, row+2, *st.MSD, numStyle(st.Decimals+1))
-			if st.Result.Transform != stats.NoTransform {
-				s.textNoWidth(c+1, row+2, string(st.Result.Transform)+" scale", noteStyle)
-			}
+			s.num(6, row, *st.MSD, numStyle(dec))
 		default:
-			s.text(c, row+2, "unequal n", noteStyle)
+			s.text(6, row, export.MSDText(st.MSD, st.MSDRange, dec), styleKey{halign: "right"})
 		}
 		if st.HasP {
-			s.num(c, row+3, st.P, pStyle)
-			if st.P >= r.opts.Alpha {
-				s.text(c+1, row+3, "ns", noteStyle)
+			s.num(7, row, st.P, pStyle)
+			verdict := "not significant at " + level
+			if st.P < sum.Alpha {
+				verdict = "significant at " + level
 			}
+			s.textNoWidth(8, row, verdict, noteStyle)
 		} else {
-			s.text(c, row+3, dash, dashStyle)
+			s.text(7, row, dash, dashStyle)
 		}
-	}
-	row += len(statRows) + 1
-	for _, st := range sum.Traits {
-		if st.Result == nil {
-			s.textNoWidth(1, row, st.Name+": "+st.Reason+".", noteStyle)
-			row++
-		}
-	}
-	if pctCol > 0 {
-		s.textNoWidth(1, row, fmt.Sprintf("%% of check: each entry's %s as a percentage of the mean of the check entries.", sum.Traits[sum.Yield].Name), noteStyle)
 		row++
 	}
-	s.freeze(head, 2)
+	row++
+	for _, st := range sum.Traits {
+		if st.CheckMean != nil {
+			s.textNoWidth(1, row, "% check: each entry's mean as a percentage of the mean of the check entries, for the traits chosen in the trial's analysis settings.", noteStyle)
+			row++
+			break
+		}
+	}
+	for _, st := range sum.Traits {
+		if st.Result != nil && st.MSD == nil && st.MSDRange != nil {
+			s.textNoWidth(1, row, "Unequal n: some plots are missing, so each pair of means has its own "+msdHead[:3]+"; the smallest and largest are given (each pair's value is on the trait's sheet).", noteStyle)
+			row++
+			break
+		}
+	}
+	s.freeze(sub, 2)
 	s.fitColumns(4, 40)
 	s.printSetup(r.opts.Paper, true, r.t.Title)
-	s.printTitles(head)
+	s.printTitles(sub)
 	return s.err
+}
+
+func withBottom(k styleKey) styleKey {
+	k.border[3] = 1
+	return k
+}
+
+func withBold(k styleKey, b bool) styleKey {
+	k.bold = k.bold || b
+	return k
+}
+
+func withFill(k styleKey, fill string) styleKey {
+	k.fill = fill
+	return k
 }
 
 func withTop(k styleKey, top bool) styleKey {

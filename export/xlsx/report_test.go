@@ -32,12 +32,25 @@ func TestReportSummaryNumbers(t *testing.T) {
 	if head == 0 {
 		t.Fatal("summary has no header row")
 	}
-	// Trait columns start at D, two columns (mean, letters) per trait.
+	// Trait groups start at D: mean and letters ("group"), and % of check
+	// for the traits that show it, under the trait's name.
+	groupCol := make([]int, len(sum.Traits))
+	col := 4
 	for j, st := range sum.Traits {
-		col := 4 + 2*j
-		if got := textAt(t, f, SummarySheet, cell(col, head)); got != traitLabel(st.Name, st.Unit) {
+		groupCol[j] = col
+		if got := textAt(t, f, SummarySheet, cell(col, head-1)); got != traitLabel(st.Name, st.Unit) {
 			t.Errorf("header of trait %d = %q, want %q", j, got, traitLabel(st.Name, st.Unit))
 		}
+		if got := textAt(t, f, SummarySheet, cell(col+1, head)); got != "group" {
+			t.Errorf("letters column of trait %d headed %q", j, got)
+		}
+		col += 2
+		if st.CheckMean != nil {
+			col++
+		}
+	}
+	if sum.Traits[0].CheckMean == nil || sum.Traits[1].CheckMean != nil {
+		t.Fatal("by default only the yield shows % of check")
 	}
 	checkMean := 0.0
 	for _, m := range yield.Means {
@@ -67,16 +80,20 @@ func TestReportSummaryNumbers(t *testing.T) {
 			t.Errorf("%s role %q, check %v", m.Treatment, role, m.Check)
 		}
 		// Yield as % of the check: 100 × mean / check mean (common practice).
-		pctCol := 4 + 2*len(sum.Traits)
+		pctCol := 6
 		if got, want := numberAt(t, f, SummarySheet, cell(pctCol, row)), 100*m.Mean/checkMean; !near(got, want, 1e-14) {
 			t.Errorf("%s %% of check = %v, want %v", m.Treatment, got, want)
 		}
 		// The all-missing trait (column after the three analysed ones) shows a dash.
-		if got := textAt(t, f, SummarySheet, cell(4+2*4, row)); got != "—" {
+		if got := textAt(t, f, SummarySheet, cell(groupCol[4], row)); got != "—" {
 			t.Errorf("all-missing trait shows %q, want a dash", got)
 		}
 	}
-	stat := head + 1 + len(yield.Means)
+	// The statistics block: one row per trait, a column per statistic.
+	stat := findRow(t, f, SummarySheet, 1, "Statistics of each trait") + 2
+	if got := textAt(t, f, SummarySheet, cell(1, stat)); got != traitLabel(sum.Traits[0].Name, sum.Traits[0].Unit) {
+		t.Fatalf("first statistics row is %q", got)
+	}
 	for i, want := range []struct {
 		label string
 		v     float64
@@ -87,10 +104,10 @@ func TestReportSummaryNumbers(t *testing.T) {
 		{"LSD (0.05)", *yield.LSD, exp.LSD},
 		{"p (treatments)", yieldTrt.P, *exp.ANOVA[1].P},
 	} {
-		if got := textAt(t, f, SummarySheet, cell(1, stat+i)); got != want.label {
-			t.Errorf("statistics row %d: %q, want %q", i, got, want.label)
+		if got := textAt(t, f, SummarySheet, cell(4+i, stat-1)); got != want.label {
+			t.Errorf("statistics column %d: %q, want %q", i, got, want.label)
 		}
-		got := numberAt(t, f, SummarySheet, cell(4, stat+i))
+		got := numberAt(t, f, SummarySheet, cell(4+i, stat))
 		if got != want.v {
 			t.Errorf("%s = %v, want %v", want.label, got, want.v)
 		}
@@ -98,15 +115,16 @@ func TestReportSummaryNumbers(t *testing.T) {
 			t.Errorf("%s = %v, R gives %v", want.label, got, want.ref)
 		}
 	}
-	// Number formats: the trait's 2 decimals, and <0.001 for p.
-	if got := cellFormat(t, f, SummarySheet, cell(4, head+1)); got != "0.00" {
-		t.Errorf("mean number format %q, want 0.00", got)
+	// Number formats: means one decimal finer than the trait's 2 (common
+	// practice), and <0.001 for p.
+	if got := cellFormat(t, f, SummarySheet, cell(4, head+1)); got != "0.000" {
+		t.Errorf("mean number format %q, want 0.000", got)
 	}
-	if got := cellFormat(t, f, SummarySheet, cell(4, stat+3)); got != PFormat {
+	if got := cellFormat(t, f, SummarySheet, cell(7, stat)); got != PFormat {
 		t.Errorf("p number format %q, want %q", got, PFormat)
 	}
 	// The shown value through excelize's own formatter (RawCellValue off).
-	if got, _ := f.GetCellValue(SummarySheet, cell(4, head+1)); got != strconv.FormatFloat(yield.Means[0].BackMean, 'f', 2, 64) {
+	if got, _ := f.GetCellValue(SummarySheet, cell(4, head+1)); got != strconv.FormatFloat(yield.Means[0].BackMean, 'f', 3, 64) {
 		t.Errorf("shown mean %q", got)
 	}
 }
@@ -176,10 +194,15 @@ func TestReportTraitSheet(t *testing.T) {
 		if got := textAt(t, f, sh, cell(1, row)); got != m.Treatment {
 			t.Fatalf("means row %d = %q", i, got)
 		}
-		for c, want := range []float64{float64(m.N), m.Mean, m.RawMean, m.SE} {
-			if got := numberAt(t, f, sh, cell(3+c, row)); got != want {
-				t.Errorf("%s column %d = %v, want %v", m.Treatment, 3+c, got, want)
+		for c, want := range map[int]float64{3: float64(m.N), 4: m.BackMean, 5: *m.Lower, 6: *m.Upper, 8: m.RawMean, 9: m.SE} {
+			if got := numberAt(t, f, sh, cell(c, row)); got != want {
+				t.Errorf("%s column %d = %v, want %v", m.Treatment, c, got, want)
 			}
+		}
+		// The limits are the LS mean ± t(0.975, error df)·SE (t from the R
+		// reference file, testdata).
+		if lo := m.Mean - exp.TCrit*m.SE; !near(*m.Lower, lo, 1e-9) {
+			t.Errorf("%s lower limit %v, want %v", m.Treatment, *m.Lower, lo)
 		}
 		if got := textAt(t, f, sh, cell(7, row)); got != m.LettersTukey {
 			t.Errorf("%s letters %q", m.Treatment, got)
@@ -475,7 +498,7 @@ func TestReportPrintSetup(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if !panes.Freeze || panes.YSplit != 4 {
+	if !panes.Freeze || panes.YSplit != 5 {
 		t.Errorf("summary panes %+v", panes)
 	}
 	// Column widths fit: the name column of the summary is at least as wide
@@ -541,17 +564,25 @@ func TestReportTransformed(t *testing.T) {
 		t.Fatal(err)
 	}
 	f, _ := writeReport(t, tr, []analysis.Outcome{{Key: "yield", Result: r}}, ReportOptions{Traits: []string{"yield"}})
+	// Back-transformed means with back-transformed limits lead; the log
+	// scale LS mean, raw mean and SE come after the % of check.
 	mh := findRow(t, f, "Yield", 1, "Treatment")
-	if got := textAt(t, f, "Yield", cell(8, mh)); got != "Back-transformed mean" {
-		t.Fatalf("column H header %q", got)
+	for c, want := range map[int]string{4: "Mean", 5: "Lower 95%", 6: "Upper 95%", 8: "% of check", 9: "LS mean (log)", 11: "SE (log)"} {
+		if got := textAt(t, f, "Yield", cell(c, mh)); got != want {
+			t.Errorf("column %d header %q, want %q", c, got, want)
+		}
 	}
 	head := findRow(t, f, SummarySheet, 1, "Treatment")
 	for i, m := range r.Means {
-		if got := numberAt(t, f, "Yield", cell(4, mh+1+i)); got != m.Mean {
+		if got := numberAt(t, f, "Yield", cell(9, mh+1+i)); got != m.Mean {
 			t.Errorf("%s LS mean (log scale) %v, want %v", m.Treatment, got, m.Mean)
 		}
-		if got := numberAt(t, f, "Yield", cell(8, mh+1+i)); got != m.BackMean {
+		if got := numberAt(t, f, "Yield", cell(4, mh+1+i)); got != m.BackMean {
 			t.Errorf("%s back-transformed %v, want %v", m.Treatment, got, m.BackMean)
+		}
+		// exp(LS mean ± t·SE) on the log scale (no offset: no zeros).
+		if got := numberAt(t, f, "Yield", cell(6, mh+1+i)); !near(got, math.Exp(m.Mean+(m.Mean-math.Log(*m.Lower))), 1e-9) || got != *m.Upper {
+			t.Errorf("%s upper limit %v", m.Treatment, got)
 		}
 		// The summary leads with the original scale.
 		if got := numberAt(t, f, SummarySheet, cell(4, head+1+i)); got != m.BackMean {
@@ -613,11 +644,14 @@ func TestReportDerivedLatin(t *testing.T) {
 		}
 	}
 	head := findRow(t, f, SummarySheet, 1, "Treatment")
-	pct := textAt(t, f, SummarySheet, cell(4+2*3, head))
-	if !strings.HasSuffix(pct, "% of check") || !strings.Contains(pct, tr.Traits[2].Name) {
+	// The derived yield's group (after wt and mst) has mean, group, % check.
+	if name := textAt(t, f, SummarySheet, cell(4+2*2, head-1)); !strings.Contains(name, tr.Traits[2].Name) {
+		t.Errorf("third trait group headed %q", name)
+	}
+	if pct := textAt(t, f, SummarySheet, cell(4+2*2+2, head)); pct != "% check" {
 		t.Errorf("percentage column %q", pct)
 	}
-	if got := numberAt(t, f, SummarySheet, cell(4+2*3, head+1)); math.Abs(got-100) > 1e-12 {
+	if got := numberAt(t, f, SummarySheet, cell(4+2*2+2, head+1)); math.Abs(got-100) > 1e-12 {
 		t.Errorf("check at %v%% of itself", got)
 	}
 }

@@ -3,13 +3,16 @@ package xlsx
 import (
 	"errors"
 	"fmt"
+	"strconv"
 	"strings"
 
 	"github.com/xuri/excelize/v2"
 
 	"furlong/export"
 	"furlong/stats"
+	"furlong/stats/diag"
 	"furlong/trial"
+	"furlong/trial/analysis"
 )
 
 // Columns of the means table on a trait sheet.
@@ -47,7 +50,7 @@ func (r *report) writeTrait(name string, tr trial.Trait) error {
 		a.Design.Title(), tr.Key, a.N, a.Missing, len(a.Excluded)), noteStyle)
 	row := 3
 	if a.Transform != stats.NoTransform {
-		s.textNoWidth(1, row, "Analysed on the "+a.Transform.Scale()+" scale; the back-transformed means are on the original scale.", noteStyle)
+		s.textNoWidth(1, row, "Analysed on the "+a.Transform.Scale()+" scale (the trait's setting in the trial); means are shown back on the original scale.", noteStyle)
 		row++
 	}
 	row++
@@ -84,18 +87,33 @@ func (r *report) writeTrait(name string, tr trial.Trait) error {
 	}
 	row++
 
-	// Means.
-	meanDec := dec
-	if a.Transform != stats.NoTransform {
-		meanDec = dec + 2
+	// Means, on the original scale with their confidence limits; after a
+	// transformation the analysis-scale LS mean and SE follow at the right.
+	transformed := a.Transform != stats.NoTransform
+	meanDec := analysis.MeanDecimals(dec)
+	scaleDec := meanDec
+	if transformed {
+		scaleDec = analysis.TransformedDecimals
 	}
+	level := strconv.FormatFloat(100*(1-a.Alpha), 'f', -1, 64) + "%"
 	s.textNoWidth(1, row, "Treatment means", sectionStyle)
 	row++
 	s.textNoWidth(1, row, r.methodNote(), noteStyle)
 	row++
-	heads := []string{"Treatment", "Name", "n", "LS mean", "Raw mean", "SE", "Letters"}
-	if a.Transform != stats.NoTransform {
-		heads = append(heads, "Back-transformed mean")
+	if transformed {
+		s.textNoWidth(1, row, "Means and their "+level+" confidence limits are back-transformed to the original scale; the limits are not symmetric about the mean.", noteStyle)
+		row++
+	}
+	heads := []string{"Treatment", "Name", "n", "Mean", "Lower " + level, "Upper " + level, "Letters"}
+	if !transformed {
+		heads = append(heads, "Raw mean", "SE")
+	}
+	if a.CheckMean != nil {
+		heads = append(heads, "% of check")
+	}
+	if transformed {
+		sc := a.Transform.Scale()
+		heads = append(heads, "LS mean ("+sc+")", "Raw mean ("+sc+")", "SE ("+sc+")")
 	}
 	for i, h := range heads {
 		k := headStyle
@@ -117,14 +135,41 @@ func (r *report) writeTrait(name string, tr trial.Trait) error {
 		s.text(1, row, m.Treatment, styleKey{})
 		s.text(2, row, label, styleKey{bold: m.Check})
 		s.integer(3, row, m.N, styleKey{})
-		s.numOrDash(4, row, m.Mean, numStyle(meanDec))
-		// The raw mean is on the analysis scale, like the LS mean.
-		s.numOrDash(5, row, m.RawMean, numStyle(meanDec))
-		s.numOrDash(6, row, m.SE, numStyle(meanDec+1))
-		s.text(7, row, export.Letters(m, r.opts.Method), styleKey{halign: "center"})
-		if a.Transform != stats.NoTransform {
-			s.numOrDash(8, row, m.BackMean, numStyle(dec))
+		s.numOrDash(4, row, m.BackMean, numStyle(meanDec))
+		limit := func(col int, v *float64) {
+			if v == nil {
+				s.text(col, row, dash, dashStyle)
+				return
+			}
+			s.numOrDash(col, row, *v, numStyle(meanDec))
 		}
+		limit(5, m.Lower)
+		limit(6, m.Upper)
+		s.text(7, row, export.Letters(m, r.opts.Method), styleKey{halign: "center"})
+		c := 8
+		if !transformed {
+			s.numOrDash(c, row, m.RawMean, numStyle(meanDec))
+			s.numOrDash(c+1, row, m.SE, numStyle(meanDec))
+			c += 2
+		}
+		if a.CheckMean != nil {
+			if m.PercentOfCheck != nil {
+				s.num(c, row, *m.PercentOfCheck, styleKey{numFmt: percentFormat})
+			} else {
+				s.text(c, row, dash, dashStyle)
+			}
+			c++
+		}
+		if transformed {
+			s.numOrDash(c, row, m.Mean, numStyle(scaleDec))
+			s.numOrDash(c+1, row, m.RawMean, numStyle(scaleDec))
+			s.numOrDash(c+2, row, m.SE, numStyle(scaleDec))
+		}
+		row++
+	}
+	if a.CheckMean != nil {
+		s.textNoWidth(1, row, fmt.Sprintf("%% of check: each mean as a percentage of the mean of the check entries (%s).",
+			strconv.FormatFloat(*a.CheckMean, 'f', meanDec, 64)), noteStyle)
 		row++
 	}
 	row++
@@ -132,6 +177,10 @@ func (r *report) writeTrait(name string, tr trial.Trait) error {
 	// Statistics.
 	s.textNoWidth(1, row, "Statistics", sectionStyle)
 	row++
+	if transformed {
+		s.textNoWidth(1, row, "On the "+a.Transform.Scale()+" scale, except the grand mean.", noteStyle)
+		row++
+	}
 	stat := func(label string, v float64, ok bool, k styleKey, note string) {
 		s.text(1, row, label, labelStyle)
 		switch {
@@ -145,35 +194,40 @@ func (r *report) writeTrait(name string, tr trial.Trait) error {
 		row++
 	}
 	if an := a.ANOVA; an != nil {
-		stat("Grand mean", an.GrandMean, true, numStyle(meanDec), "")
+		stat("Grand mean", an.GrandMean, true, numStyle(scaleDec), "")
 		stat("CV%", an.CVPercent, true, numStyle(1), "")
 		stat("R²", an.RSquared, true, numStyle(3), "")
-		stat("SE of a mean", deref(an.SEMean), an.SEMean != nil, numStyle(meanDec+1), "unequal n: see the SE of each mean")
-		stat("SED", deref(an.SED), an.SED != nil, numStyle(meanDec+1), "unequal n: each pair has its own SED")
+		stat("SE of a mean", deref(an.SEMean), an.SEMean != nil, numStyle(scaleDec), "unequal n: see the SE of each mean")
+		stat("SED", deref(an.SED), an.SED != nil, numStyle(scaleDec), "unequal n: each pair has its own SED")
 	}
 	msd := export.MSD(a, r.opts.Method)
-	stat(export.MSDLabel(r.opts.Method, r.opts.Alpha), deref(msd), msd != nil, numStyle(meanDec+1), "unequal n: no single value; each pair of means has its own")
+	rangeNote := ""
+	if rng := export.MSDRange(a, r.opts.Method); rng != nil {
+		rangeNote = export.MSDText(nil, rng, scaleDec) + ": each pair of means has its own; smallest–largest"
+	}
+	stat(export.MSDLabel(r.opts.Method, r.opts.Alpha), deref(msd), msd != nil, numStyle(scaleDec), rangeNote)
 	if a.ANOVA != nil {
 		stat("Relative efficiency of blocking", deref(a.ANOVA.RelativeEfficiency), a.ANOVA.RelativeEfficiency != nil, numStyle(2), "not applicable")
 	}
 	row++
 
-	notes := append([]string(nil), a.Warnings...)
-	diag := export.Diagnostics(a)
-	if len(notes) > 0 {
+	if len(a.Notes) > 0 {
 		s.textNoWidth(1, row, "Notes", sectionStyle)
 		row++
-		for _, n := range notes {
+		for _, n := range a.Notes {
 			s.textNoWidth(1, row, n, proseStyle)
 			row++
 		}
 		row++
 	}
-	if len(diag) > 0 {
+	if len(a.Diagnostics.Readings) > 0 {
 		s.textNoWidth(1, row, "Model checks", sectionStyle)
 		row++
-		for _, n := range diag {
-			s.textNoWidth(1, row, n, proseStyle)
+		s.textNoWidth(1, row, fmt.Sprintf("Each check is read at the %s level (p < %s flags it).",
+			strconv.FormatFloat(100*diag.CheckAlpha, 'f', -1, 64)+"%", strconv.FormatFloat(diag.CheckAlpha, 'f', -1, 64)), noteStyle)
+		row++
+		for _, rd := range a.Diagnostics.Readings {
+			s.textNoWidth(1, row, rd.Text, styleKey{bold: rd.Flagged})
 			row++
 		}
 	}

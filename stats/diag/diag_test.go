@@ -460,34 +460,49 @@ func TestStandardisedResiduals(t *testing.T) {
 	}
 }
 
-// Readings: thresholds are common practice (see the constants).
+// Readings: one level (CheckAlpha, common practice) for every test, stated
+// in each sentence; the CV levels are common practice too.
 func TestReadings(t *testing.T) {
 	t.Parallel()
-	if w := Readings(Summary{HasCV: true, CVPercent: 12, HasNormality: true, NormalityP: 0.2}); w != nil {
-		t.Errorf("clean trial gave %q", w)
+	clean := Readings(Summary{HasCV: true, CVPercent: 12, HasNormality: true, NormalityW: 0.97, NormalityP: 0.2})
+	if len(clean) != 1 || clean[0].Flagged || !strings.Contains(clean[0].Text, "W = 0.970, p = 0.200 (not p < 0.05): no evidence") {
+		t.Errorf("clean trial gave %+v", clean)
 	}
 	w := Readings(Summary{
 		HasCV: true, CVPercent: 28.2,
-		HasNormality: true, NormalityP: 0.004,
-		HasEqualVariance: true, EqualVarianceP: 0.01,
-		HasNonAdditivity: true, NonAdditivityP: 0.03,
-		Outliers: []Outlier{{Index: 11, Std: 3.44}, {Index: 3, Plot: "plot 104", Std: -3.1}},
+		HasNormality: true, NormalityW: 0.91, NormalityP: 0.04, // flagged at 0.05 (it was not at the old 0.01)
+		VarianceOn: "residuals", HasEqualVariance: true, LeveneF: 3.2, EqualVarianceP: 0.0004,
+		HasBartlett: true, BartlettK2: 4.1, BartlettP: 0.39,
+		HasNonAdditivity: true, NonAdditivityF: 5.1, NonAdditivityP: 0.03,
+		Outliers: []Outlier{{Index: 11, Std: 3.44}, {Index: 3, Plot: "Plot 104 (T2, value 8.1)", Std: -3.1}},
 	})
-	want := []string{"CV is 28%: high for a yield trial", "plot 12 has a standardised residual of 3.4: check", "plot 104 has a standardised residual of -3.1", "residuals look non-normal", "variances differ between treatments", "treatment effects seem to change with block fertility"}
-	if len(w) != len(want) {
-		t.Fatalf("got %d readings %q, want %d", len(w), w, len(want))
+	want := []struct {
+		check, text string
+		flagged     bool
+	}{
+		{"cv", "CV is 28%, high for a yield trial (above 20%)", true},
+		{"normality", "W = 0.910, p = 0.040 (p < 0.05): the residuals depart", true},
+		{"levene", "on the residuals of the fitted model, grouped by treatment): F = 3.200, p < 0.001 (p < 0.05)", true},
+		{"bartlett", "K² = 4.100, p = 0.390 (not p < 0.05): no evidence", false},
+		{"additivity", "F = 5.100, p = 0.030 (p < 0.05): treatment differences change", true},
+		{"outlier", "Plot 12 lies far from its expected value (standardised residual 3.44, beyond ±3)", true},
+		{"outlier", "Plot 104 (T2, value 8.1) lies far from its expected value (standardised residual -3.10", true},
 	}
-	for i := range want {
-		if !strings.HasPrefix(w[i], want[i]) {
-			t.Errorf("reading %d = %q, want prefix %q", i, w[i], want[i])
+	if len(w) != len(want) {
+		t.Fatalf("got %d readings %+v, want %d", len(w), w, len(want))
+	}
+	for i, c := range want {
+		if w[i].Check != c.check || w[i].Flagged != c.flagged || !strings.Contains(w[i].Text, c.text) {
+			t.Errorf("reading %d = %+v, want %s %v containing %q", i, w[i], c.check, c.flagged, c.text)
 		}
 	}
-	if w := Readings(Summary{HasCV: true, CVPercent: 41.3}); len(w) != 1 || !strings.HasPrefix(w[0], "CV is 41%: very high") {
-		t.Errorf("CV 41%%: %q", w)
+	if w := Readings(Summary{HasCV: true, CVPercent: 41.3}); len(w) != 1 || !strings.HasPrefix(w[0].Text, "CV is 41%, very high") {
+		t.Errorf("CV 41%%: %+v", w)
 	}
-	// Values without their Has flag are ignored.
-	if w := Readings(Summary{CVPercent: 50, NormalityP: 0}); w != nil {
-		t.Errorf("unflagged values gave %q", w)
+	// Values without their Has flag are ignored; a p-value that is not a
+	// number gives no sentence (never "NaN").
+	if w := Readings(Summary{CVPercent: 50, NormalityP: 0, HasBartlett: true, BartlettP: math.NaN()}); w != nil {
+		t.Errorf("unflagged values gave %+v", w)
 	}
 }
 

@@ -8,10 +8,12 @@ import (
 	"runtime"
 	"slices"
 	"sort"
+	"strconv"
 	"strings"
 
 	"furlong/stats"
 	"furlong/stats/diag"
+	"furlong/stats/meansep"
 	"furlong/trial"
 )
 
@@ -25,6 +27,12 @@ type Data struct {
 	Decimals     int
 	HigherBetter bool
 	Kind         trial.TraitKind
+	// Transform is the scale the trait is analysed on (the trait's setting
+	// in the trial); Options.Transform, when set, overrides it.
+	Transform stats.Transform
+	// PercentOfCheck asks for each mean as a percentage of the mean of the
+	// check entries (Checks).
+	PercentOfCheck bool
 
 	Design trial.DesignKind
 	// Treatments are the treatment labels in report order; Names and
@@ -82,11 +90,16 @@ var ErrUnknownDesign = errors.New("the design is not one Furlong knows")
 // DefaultAlpha is the significance level used when Options.Alpha is zero.
 const DefaultAlpha = 0.05
 
-// Analyze analyses one trait of a trial with the ANOVA of its design.
+// Analyze analyses one trait of a trial with the ANOVA of its design, on
+// the trait's own scale (unless o.Transform says otherwise) and read with
+// the trial's mean-separation method (unless o.Method says otherwise).
 func Analyze(t *trial.Trial, key string, o Options) (*Result, error) {
 	d, err := FromTrial(t, key)
 	if err != nil {
 		return nil, err
+	}
+	if o.Method == "" {
+		o.Method = meansep.Method(t.MeanSeparation())
 	}
 	return AnalyzeData(d, o)
 }
@@ -99,7 +112,9 @@ type Outcome struct {
 }
 
 // AnalyzeAll analyses every trait of the trial (or those named in keys) and
-// returns the outcomes in that order. A trait that cannot be analysed gets
+// returns the outcomes in that order. It is the one loop behind every view
+// of a trial's results (the command line's report, the window's Compare
+// and Report steps); each trait is analysed as Analyze does. A trait that cannot be analysed gets
 // its error in the outcome; the others are unaffected. Traits are analysed
 // concurrently, one worker per processor; t must not change meanwhile. It
 // stops early when ctx is cancelled and returns ctx's error.
@@ -159,6 +174,7 @@ func FromTrial(t *trial.Trial, key string) (*Data, error) {
 	d := &Data{
 		TraitKey: tr.Key, TraitName: tr.Name, Unit: tr.Unit, Decimals: tr.Decimals,
 		HigherBetter: tr.HigherBetter, Kind: tr.Kind, Design: t.Design.Kind,
+		Transform: stats.Transform(tr.Transform), PercentOfCheck: t.ShowsPercentOfCheck(key),
 	}
 	for _, trt := range t.Treatments {
 		d.Treatments = append(d.Treatments, trt.Code)
@@ -236,10 +252,20 @@ func AnalyzeData(d *Data, o Options) (*Result, error) {
 	if !(o.Alpha > 0 && o.Alpha < 1) {
 		return nil, &Error{Trait: d.TraitKey, Msg: fmt.Sprintf("the significance level must be between 0 and 1, not %g", o.Alpha)}
 	}
+	if o.Transform == stats.NoTransform {
+		o.Transform = d.Transform
+	}
+	switch o.Method {
+	case "":
+		o.Method = meansep.LSD
+	case meansep.LSD, meansep.Tukey:
+	default:
+		return nil, &Error{Trait: d.TraitKey, Msg: fmt.Sprintf("the mean-separation method %q is not known; use lsd or tukey", string(o.Method))}
+	}
 	k := len(d.Treatments)
 	r := &Result{
 		TraitKey: d.TraitKey, TraitName: d.TraitName, Unit: d.Unit, Decimals: d.Decimals,
-		HigherBetter: d.HigherBetter, Design: d.Design, Alpha: o.Alpha, Transform: o.Transform,
+		HigherBetter: d.HigherBetter, Design: d.Design, Alpha: o.Alpha, Method: o.Method, Transform: o.Transform,
 		Excluded: d.Excluded,
 	}
 	// Keep the observations with values.
@@ -325,13 +351,67 @@ func AnalyzeData(d *Data, o Options) (*Result, error) {
 		r.Means[i] = mn
 		lsm[i] = lm.Mean
 	}
-	if err := separate(r, a, lsm, o); err != nil {
+	tcrit, err := separate(r, a, lsm, o)
+	if err != nil {
 		return fail(err.Error(), err)
+	}
+	for i := range r.Means {
+		mn := &r.Means[i]
+		if tcrit > 0 && finite(mn.SE) {
+			lo, hi := backLimits(o.Transform, mn.Mean-tcrit*mn.SE, mn.Mean+tcrit*mn.SE, offset)
+			mn.Lower, mn.Upper = &lo, &hi
+		}
+	}
+	if d.PercentOfCheck {
+		percentOfCheck(r)
 	}
 	diagnose(r, d, a, ty, y, trt, blk, plots)
 	notes(r, d, a)
 	return r, nil
 }
+
+// backLimits maps confidence limits on the analysis scale back to the
+// original scale. Limits outside the transformation's range are first
+// brought to its edge (a negative square root to 0, an angle to 0–90°):
+// common practice, since squaring a negative limit would turn it into a
+// positive one.
+func backLimits(t stats.Transform, lo, hi, offset float64) (float64, float64) {
+	switch t {
+	case stats.Sqrt:
+		lo, hi = math.Max(lo, 0), math.Max(hi, 0)
+	case stats.ArcsineSqrt:
+		lo, hi = math.Min(math.Max(lo, 0), 90), math.Min(math.Max(hi, 0), 90)
+	}
+	return stats.BackTransform(t, lo, offset), stats.BackTransform(t, hi, offset)
+}
+
+// percentOfCheck sets each mean as a percentage of the mean of the check
+// entries (the plain average of their back-transformed means, common
+// practice in variety trial reports), when there are checks and their mean
+// is above 0.
+func percentOfCheck(r *Result) {
+	var sum float64
+	var n int
+	for _, m := range r.Means {
+		if m.Check && finite(m.BackMean) {
+			sum += m.BackMean
+			n++
+		}
+	}
+	if n == 0 || !(sum > 0) {
+		return
+	}
+	cm := sum / float64(n)
+	r.CheckMean = &cm
+	for i := range r.Means {
+		if b := r.Means[i].BackMean; finite(b) {
+			p := 100 * b / cm
+			r.Means[i].PercentOfCheck = &p
+		}
+	}
+}
+
+func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
 
 // describeStatsError puts a stats input error in the trial's words.
 func describeStatsError(d *Data, err error, plots []int) string {
@@ -357,27 +437,33 @@ func describeStatsError(d *Data, err error, plots []int) string {
 }
 
 // diagnose runs the diagnostics on the analysed values ty (y before any
-// transformation) and adds their readings to the warnings.
+// transformation) and reads them in words (diag.Readings, at
+// diag.CheckAlpha). The variance tests group by treatment: the values of a
+// one-way layout, the residuals of a blocked design (its values also
+// differ by block and row or column, which the residuals have taken out).
 func diagnose(r *Result, d *Data, a *stats.ANOVA, ty, y []float64, trt, blk, plots []int) {
 	dg := &r.Diagnostics
 	sum := diag.Summary{HasCV: true, CVPercent: a.CVPercent}
 	if sw, err := diag.ShapiroWilk(a.Residuals); err == nil {
 		dg.ShapiroW, dg.ShapiroP = ptr(sw.W), ptr(sw.P)
-		sum.HasNormality, sum.NormalityP = true, sw.P
+		sum.HasNormality, sum.NormalityW, sum.NormalityP = true, sw.W, sw.P
 	}
-	if d.Design == trial.CRD {
-		if lv, err := diag.Levene(ty, trt, len(d.Treatments), diag.Median); err == nil {
-			dg.LeveneF, dg.LeveneP = ptr(lv.F), ptr(lv.P)
-			sum.HasEqualVariance, sum.EqualVarianceP = true, lv.P
-		}
-		if bt, err := diag.Bartlett(ty, trt, len(d.Treatments)); err == nil {
-			dg.BartlettK2, dg.BartlettP = ptr(bt.ChiSquare), ptr(bt.P)
-		}
+	grouped, on := ty, "values"
+	if d.Design != trial.CRD {
+		grouped, on = a.Residuals, "residuals"
+	}
+	if lv, err := diag.Levene(grouped, trt, len(d.Treatments), diag.Median); err == nil && finite(lv.F) && finite(lv.P) {
+		dg.LeveneF, dg.LeveneP, dg.VarianceOn = ptr(lv.F), ptr(lv.P), on
+		sum.HasEqualVariance, sum.LeveneF, sum.EqualVarianceP, sum.VarianceOn = true, lv.F, lv.P, on
+	}
+	if bt, err := diag.Bartlett(grouped, trt, len(d.Treatments)); err == nil && finite(bt.ChiSquare) && finite(bt.P) {
+		dg.BartlettK2, dg.BartlettP, dg.VarianceOn = ptr(bt.ChiSquare), ptr(bt.P), on
+		sum.HasBartlett, sum.BartlettK2, sum.BartlettP, sum.VarianceOn = true, bt.ChiSquare, bt.P, on
 	}
 	if d.Design == trial.RCBD && a.Balanced {
 		if na, err := diag.TukeyNonAdditivity(ty, blk, trt, d.Blocks, len(d.Treatments)); err == nil {
 			dg.NonAdditivityF, dg.NonAdditivityP = ptr(na.F), ptr(na.P)
-			sum.HasNonAdditivity, sum.NonAdditivityP = true, na.P
+			sum.HasNonAdditivity, sum.NonAdditivityF, sum.NonAdditivityP = true, na.F, na.P
 		}
 	}
 	// Residuals in units of √MSE (RootMSE keeps its digits where MSE, the
@@ -392,7 +478,9 @@ func diagnose(r *Result, d *Data, a *stats.ANOVA, ty, y []float64, trt, blk, plo
 		outs := diag.Outliers(std, 0)
 		for i := range outs {
 			o := &outs[i]
-			o.Plot = d.label(plots[o.Index])
+			lbl := d.label(plots[o.Index])
+			o.Plot = fmt.Sprintf("%s%s (%s, value %s)", strings.ToUpper(lbl[:1]), lbl[1:], d.Treatments[trt[o.Index]],
+				strconv.FormatFloat(y[o.Index], 'f', max(d.Decimals, 0), 64))
 			dg.Outliers = append(dg.Outliers, Outlier{
 				Plot: plots[o.Index], Treatment: d.Treatments[trt[o.Index]],
 				Value: y[o.Index], Residual: a.Residuals[o.Index], StdResidual: o.Std,
@@ -400,7 +488,7 @@ func diagnose(r *Result, d *Data, a *stats.ANOVA, ty, y []float64, trt, blk, plo
 		}
 		sum.Outliers = outs
 	}
-	r.Warnings = append(r.Warnings, diag.Readings(sum)...)
+	dg.Readings = diag.Readings(sum)
 }
 
 // notes puts the counts of missing and excluded plots, the adjusted-SS and
@@ -422,13 +510,19 @@ func notes(r *Result, d *Data, a *stats.ANOVA) {
 		w = append(w, "Some plots are missing, so each sum of squares is adjusted for the other terms of the model and the lines no longer add up to the total; means are least-squares means.")
 	}
 	if r.Transform != stats.NoTransform {
-		note := fmt.Sprintf("Analysed on the %s scale: means, raw means, standard errors, LSD and HSD are on that scale, and the back-transformed means beside them are on the original scale.", r.Transform.Scale())
+		note := fmt.Sprintf("Analysed on the %s scale: LS means, raw means, standard errors, LSD and HSD are on that scale; the back-transformed means and their %s confidence limits are on the original scale (the limits are not symmetric about the mean).", r.Transform.Scale(), percentText(1-r.Alpha))
 		if r.Offset != 0 {
 			note += fmt.Sprintf(" Because some values are 0, %g was added to every value before transforming (and taken off again after back-transforming).", r.Offset)
 		}
 		w = append(w, note)
 	}
-	r.Warnings = append(w, r.Warnings...)
+	r.Notes = append(w, r.Notes...)
+	r.Warnings = append([]string(nil), r.Notes...)
+	for _, rd := range r.Diagnostics.Readings {
+		if rd.Flagged {
+			r.Warnings = append(r.Warnings, rd.Text)
+		}
+	}
 }
 
 // label names an observation in messages: "plot 103" or "line 14".
@@ -447,3 +541,6 @@ func plural(n int, one, many string) string {
 }
 
 func ptr(v float64) *float64 { return &v }
+
+// percentText writes a level as a percentage: 0.95 → "95%".
+func percentText(v float64) string { return strconv.FormatFloat(100*v, 'g', 4, 64) + "%" }

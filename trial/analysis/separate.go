@@ -1,48 +1,64 @@
 package analysis
 
 import (
+	"math"
+
 	"furlong/stats"
 	"furlong/stats/meansep"
 )
 
 // separate compares all pairs of least-squares means and letters them by
-// both LSD (protected by the treatment F test) and Tukey's HSD.
-func separate(r *Result, a *stats.ANOVA, lsm []float64, o Options) error {
+// both LSD (protected by the treatment F test) and Tukey's HSD. It returns
+// the t quantile used (1 − Alpha/2 with the error df).
+func separate(r *Result, a *stats.ANOVA, lsm []float64, o Options) (float64, error) {
 	cmp, err := meansep.Compare(lsm, a, a.DFError, o.Alpha)
 	if err != nil {
-		return err
+		return 0, err
 	}
 	if cmp.EqualSE {
 		r.LSD, r.HSD = cmp.LSD, cmp.HSD
 	}
 	r.Pairs = make([]Pair, len(cmp.Pairs))
+	var lsd, hsd Range
 	for n, p := range cmp.Pairs {
-		r.Pairs[n] = Pair{
+		pr := Pair{
 			A: r.Means[p.I].Treatment, B: r.Means[p.J].Treatment,
 			Diff: p.Diff, SE: p.SE, Lower: p.Lower, Upper: p.Upper,
 			PLSD: p.PLSD, PTukey: p.PTukey,
+			// The least significant difference of one pair: t·SED for the
+			// LSD, q·SED/√2 for Tukey–Kramer (Kramer 1956, Biometrics 12).
+			LSD: cmp.TCrit * p.SE, HSD: cmp.QCrit * p.SE / math.Sqrt2,
 		}
+		r.Pairs[n] = pr
+		if n == 0 {
+			lsd, hsd = Range{pr.LSD, pr.LSD}, Range{pr.HSD, pr.HSD}
+			continue
+		}
+		lsd = Range{math.Min(lsd.Min, pr.LSD), math.Max(lsd.Max, pr.LSD)}
+		hsd = Range{math.Min(hsd.Min, pr.HSD), math.Max(hsd.Max, pr.HSD)}
+	}
+	if len(r.Pairs) > 0 && finite(lsd.Min) && finite(lsd.Max) && finite(hsd.Min) && finite(hsd.Max) {
+		r.LSDRange, r.HSDRange = &lsd, &hsd
 	}
 	lo := meansep.LetterOptions{LowerIsBetter: !r.HigherBetter}
 	trtLine, _ := a.Treatment()
-	fp := trtLine.P
-	lsd, err := cmp.LSDLetters(fp, o.Unprotected, lo)
+	lsdL, err := cmp.LSDLetters(trtLine.P, o.Unprotected, lo)
 	if err != nil {
-		return err
+		return 0, err
 	}
 	tk, err := cmp.TukeyLetters(lo)
 	if err != nil {
-		return err
+		return 0, err
 	}
-	r.LSDLettersGiven = !lsd.Withheld
-	if lsd.Withheld && lsd.Note != "" {
-		r.Warnings = append(r.Warnings, lsd.Note)
+	r.LSDLettersGiven = !lsdL.Withheld
+	if lsdL.Withheld && lsdL.Note != "" {
+		r.Notes = append(r.Notes, lsdL.Note)
 	}
 	for i := range r.Means {
-		if !lsd.Withheld {
-			r.Means[i].LettersLSD = lsd.Letters[i]
+		if !lsdL.Withheld {
+			r.Means[i].LettersLSD = lsdL.Letters[i]
 		}
 		r.Means[i].LettersTukey = tk.Letters[i]
 	}
-	return nil
+	return cmp.TCrit, nil
 }

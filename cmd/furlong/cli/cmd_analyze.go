@@ -268,14 +268,18 @@ type jsonANOVA struct {
 }
 
 type jsonMean struct {
-	Treatment    string   `json:"treatment"`
-	N            int      `json:"n"`
-	Mean         float64  `json:"mean"`
-	RawMean      float64  `json:"raw_mean"`
-	SE           float64  `json:"se"`
-	BackMean     *float64 `json:"back_transformed_mean,omitempty"`
-	LettersLSD   *string  `json:"letters_lsd"`
-	LettersTukey string   `json:"letters_tukey"`
+	Treatment string   `json:"treatment"`
+	N         int      `json:"n"`
+	Mean      float64  `json:"mean"`
+	RawMean   float64  `json:"raw_mean"`
+	SE        float64  `json:"se"`
+	BackMean  *float64 `json:"back_transformed_mean,omitempty"`
+	// Confidence limits of the mean on the original scale.
+	Lower          *float64 `json:"lower,omitempty"`
+	Upper          *float64 `json:"upper,omitempty"`
+	PercentOfCheck *float64 `json:"percent_of_check,omitempty"`
+	LettersLSD     *string  `json:"letters_lsd"`
+	LettersTukey   string   `json:"letters_tukey"`
 }
 
 type jsonPair struct {
@@ -285,6 +289,8 @@ type jsonPair struct {
 	SE     float64 `json:"se"`
 	PLSD   float64 `json:"p_lsd"`
 	PTukey float64 `json:"p_tukey"`
+	LSD    float64 `json:"lsd"`
+	HSD    float64 `json:"hsd"`
 }
 
 type jsonOutlier struct {
@@ -325,6 +331,8 @@ type jsonTrait struct {
 	Means       []jsonMean       `json:"means"`
 	LSD         *float64         `json:"lsd"`
 	HSD         *float64         `json:"hsd"`
+	LSDRange    []float64        `json:"lsd_range,omitempty"` // smallest and largest pairwise LSD
+	HSDRange    []float64        `json:"hsd_range,omitempty"`
 	Pairs       []jsonPair       `json:"pairs"`
 	Diagnostics *jsonDiagnostics `json:"diagnostics"`
 	VsCheck     []jsonVsCheck    `json:"vs_check,omitempty"`
@@ -391,11 +399,16 @@ func toJSON(oc analysis.Outcome) jsonTrait {
 		if r.Transform != stats.NoTransform {
 			jm.BackMean = fp(m.BackMean)
 		}
+		jm.Lower, jm.Upper, jm.PercentOfCheck = m.Lower, m.Upper, m.PercentOfCheck
 		jt.Means = append(jt.Means, jm)
 	}
 	jt.LSD, jt.HSD = r.LSD, r.HSD
+	if r.LSDRange != nil && r.HSDRange != nil {
+		jt.LSDRange = []float64{r.LSDRange.Min, r.LSDRange.Max}
+		jt.HSDRange = []float64{r.HSDRange.Min, r.HSDRange.Max}
+	}
 	for _, p := range r.Pairs {
-		jt.Pairs = append(jt.Pairs, jsonPair{A: p.A, B: p.B, Diff: p.Diff, SE: p.SE, PLSD: p.PLSD, PTukey: p.PTukey})
+		jt.Pairs = append(jt.Pairs, jsonPair{A: p.A, B: p.B, Diff: p.Diff, SE: p.SE, PLSD: p.PLSD, PTukey: p.PTukey, LSD: p.LSD, HSD: p.HSD})
 	}
 	d := r.Diagnostics
 	jd := &jsonDiagnostics{ShapiroW: d.ShapiroW, ShapiroP: d.ShapiroP, LeveneF: d.LeveneF, LeveneP: d.LeveneP,
@@ -541,9 +554,12 @@ func writeResultTables(w io.Writer, r *analysis.Result) {
 	}
 	fmt.Fprintln(w, title)
 	fmt.Fprintln(w, strings.Repeat("-", len([]rune(title))))
-	dec := r.Decimals
-	if dec < 2 {
-		dec = 2
+	// Means one decimal finer than the data; the analysis scale of a
+	// transformation at its own fixed decimals (analysis.MeanDecimals).
+	back := analysis.MeanDecimals(r.Decimals)
+	dec := back
+	if r.Transform != stats.NoTransform {
+		dec = analysis.TransformedDecimals
 	}
 	num := func(v float64, d int) string { return strconv.FormatFloat(v, 'f', d, 64) }
 	fmt.Fprintf(w, "%s, %d observations", r.Design.Title(), r.N)
@@ -585,7 +601,12 @@ func writeResultTables(w io.Writer, r *analysis.Result) {
 		line = append(line, fmt.Sprintf("HSD(%g) %s", r.Alpha, num(*r.HSD, dec)))
 	}
 	if r.LSD == nil && r.HSD == nil {
-		line = append(line, "replication is unequal: each pair has its own standard error")
+		if r.LSDRange != nil && r.HSDRange != nil {
+			line = append(line, fmt.Sprintf("unequal n: LSD(%g) %s–%s, HSD(%g) %s–%s by pair", r.Alpha, num(r.LSDRange.Min, dec), num(r.LSDRange.Max, dec),
+				r.Alpha, num(r.HSDRange.Min, dec), num(r.HSDRange.Max, dec)))
+		} else {
+			line = append(line, "replication is unequal: each pair has its own standard error")
+		}
 	}
 	if a.RelativeEfficiency != nil {
 		line = append(line, fmt.Sprintf("blocking efficiency vs CRD %.2f", *a.RelativeEfficiency))
@@ -596,7 +617,7 @@ func writeResultTables(w io.Writer, r *analysis.Result) {
 	tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	hdr := "Treatment\tn\tMean\tRaw mean\tSE\tLSD\tTukey\t"
 	if r.Transform != stats.NoTransform {
-		hdr = "Treatment\tn\tMean\tBack-transformed\tRaw mean\tSE\tLSD\tTukey\t"
+		hdr = "Treatment\tn\tBack-transformed\tLower\tUpper\tMean\tRaw mean\tSE\tLSD\tTukey\t"
 	}
 	fmt.Fprintln(tw, hdr)
 	order := meanOrder(r)
@@ -611,13 +632,20 @@ func writeResultTables(w io.Writer, r *analysis.Result) {
 			lsd = "-"
 		}
 		if r.Transform != stats.NoTransform {
-			fmt.Fprintf(tw, "%s\t%d\t%s\t%s\t%s\t%s\t%s\t%s\t\n", code, m.N, num(m.Mean, dec), num(m.BackMean, dec), num(m.RawMean, dec), num(m.SE, dec), lsd, m.LettersTukey)
+			lo, hi := "-", "-"
+			if m.Lower != nil && m.Upper != nil {
+				lo, hi = num(*m.Lower, back), num(*m.Upper, back)
+			}
+			fmt.Fprintf(tw, "%s\t%d\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t\n", code, m.N, num(m.BackMean, back), lo, hi, num(m.Mean, dec), num(m.RawMean, dec), num(m.SE, dec), lsd, m.LettersTukey)
 		} else {
 			fmt.Fprintf(tw, "%s\t%d\t%s\t%s\t%s\t%s\t%s\t\n", code, m.N, num(m.Mean, dec), num(m.RawMean, dec), num(m.SE, dec), lsd, m.LettersTukey)
 		}
 	}
 	tw.Flush()
 	fmt.Fprintf(w, "Means sharing a letter do not differ at the %g level.\n", r.Alpha)
+	if r.Transform != stats.NoTransform {
+		fmt.Fprintf(w, "Back-transformed means with their %g%% confidence limits are on the original scale; Mean, Raw mean and SE on the %s scale.\n", 100*(1-r.Alpha), r.Transform.Scale())
+	}
 	if d := r.Diagnostics; d.ShapiroW != nil || d.LeveneF != nil || d.NonAdditivityF != nil {
 		var parts []string
 		if d.ShapiroW != nil {
