@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 	"strconv"
+
+	"furlong/stats"
 )
 
 // CheckAlpha is the one level at which every model check (normality,
@@ -120,11 +122,11 @@ func Readings(s Summary) []Reading {
 
 func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
 
-// pText writes "p = 0.023", or "p < 0.001" below 0.001 (three decimals:
-// common practice in trial reports).
+// pText writes "p = 0.023", or "p < 0.001" below stats.PFloor: the one
+// p-value rule (stats.FormatP) in a sentence.
 func pText(p float64) string {
-	if p < 0.001 {
-		return "p < 0.001"
+	if p < stats.PFloor {
+		return "p < " + stats.PFloorText
 	}
-	return "p = " + strconv.FormatFloat(p, 'f', 3, 64)
+	return "p = " + stats.FormatP(p)
 }
