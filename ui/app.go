@@ -349,7 +349,7 @@ func (u *App) restore(path string, rec recovered) {
 		apply(merged)
 		return
 	}
-	u.showMergeChoices(merged, conflicts, "the recovery copy", func(m *trial.Trial) { apply(m) }, nil)
+	u.showMergeChoices(merged, conflicts, "the file", func(m *trial.Trial) { apply(m) }, nil)
 }
 
 // OpenDemo opens the built-in demo trial as a new, unsaved trial.

@@ -385,3 +385,38 @@ func TestFileRemovedWhileOpen(t *testing.T) {
 		t.Errorf("conflict %v, dirty %v", u.doc.conflict, u.doc.dirty)
 	}
 }
+
+// Restoring a recovery copy whose value the file also changed puts the
+// two to the user, the file's version named as such.
+func TestRecoveryRestoreConflict(t *testing.T) {
+	u, _ := newTestApp(t, 0)
+	path := savedTrial(t, u)
+	outsideWrite(t, path, map[int]float64{0: 6})
+	typeValue(t, u, 0, "4.5")
+	u.saver.sync() // refused: the edit is in the recovery copy only
+	u2, w2 := newTestApp(t, 0)
+	u2.recoveryDir = u.recoveryDir
+	if err := u2.OpenFile(path); err != nil {
+		t.Fatal(err)
+	}
+	w2.Canvas().Overlays().Top().Hide() // the offer; restore as "Yes" does
+	rec, ok := u2.pendingRecovery(path)
+	if !ok {
+		t.Fatal("not offered")
+	}
+	u2.restore(path, rec)
+	var radios []*widget.RadioGroup
+	for _, o := range overlayWidgets(t, w2) {
+		if r, ok := o.(*widget.RadioGroup); ok {
+			radios = append(radios, r)
+		}
+	}
+	if len(radios) != 1 || radios[0].Options[0] != "Mine: 4.5" || radios[0].Options[1] != "In the file: 6" {
+		t.Fatalf("choices %v", radios)
+	}
+	radios[0].SetSelected(radios[0].Options[0])
+	dialogButton(t, w2, "Keep these").OnTapped()
+	if got := u2.doc.t.Traits[0].Values[0]; got != 4.5 {
+		t.Fatalf("restored %v", got)
+	}
+}
