@@ -32,6 +32,8 @@ type fieldStep struct {
 	blocks, numbering, walk                           *widget.Select
 	seed                                              *widget.Entry
 	randomState                                       *widget.Label
+	randomBtn                                         *widget.Button
+	layoutMsg                                         *widget.Label // what Apply layout changed
 	colorBy                                           *widget.RadioGroup
 
 	fmap    *fieldmap.Map
@@ -76,7 +78,7 @@ func newFieldStep(u *App) *fieldStep {
 	}
 	f.plotLen, f.plotWid, f.harvLen, f.harvWid, f.alley = num(), num(), num(), num(), num()
 	f.perRow = widget.NewEntry()
-	f.perRow.SetPlaceHolder("0: a whole block in one row")
+	f.perRow.SetPlaceHolder("empty: each block in one row")
 	f.blocks = widget.NewSelect(arrangeLabels, nil)
 	f.numbering = widget.NewSelect(numberLabels, nil)
 	f.walk = widget.NewSelect(walkLabels, nil)
@@ -101,6 +103,7 @@ func newFieldStep(u *App) *fieldStep {
 	})
 	randomise := widget.NewButtonWithIcon("Randomise", theme.MediaReplayIcon(), f.randomise)
 	randomise.Importance = widget.HighImportance
+	f.randomBtn = randomise
 	f.randomState = widget.NewLabel("")
 	f.randomState.Wrapping = fyne.TextWrapWord
 	randomBox := container.NewVBox(
@@ -113,7 +116,13 @@ func newFieldStep(u *App) *fieldStep {
 	xlsxBtn := widget.NewButtonWithIcon("Field book (xlsx)…", theme.DocumentSaveIcon(), func() { u.exportFieldBookXLSX() })
 	exports := container.NewVBox(heading("Take to the field"), mapBtn, csvBtn, xlsxBtn)
 
-	left := container.NewVScroll(container.NewVBox(heading("Plots and arrangement"), geom, choices, applyLayout,
+	perRowHelp := widget.NewLabel("Plots per row: how many plots of a block make one field row; empty (or 0) puts each block in one row. A Latin square ignores it.")
+	perRowHelp.Wrapping = fyne.TextWrapWord
+	perRowHelp.Importance = widget.LowImportance
+	f.layoutMsg = widget.NewLabel("")
+	f.layoutMsg.Wrapping = fyne.TextWrapWord
+	f.layoutMsg.Importance = widget.SuccessImportance
+	left := container.NewVScroll(container.NewVBox(heading("Plots and arrangement"), geom, perRowHelp, choices, applyLayout, f.layoutMsg,
 		widget.NewSeparator(), randomBox, widget.NewSeparator(), exports))
 
 	f.fmap = fieldmap.New()
@@ -164,7 +173,10 @@ func (f *fieldStep) refresh(c change) {
 		f.showLength(f.harvLen, l.HarvestLength)
 		f.showLength(f.harvWid, l.HarvestWidth)
 		f.showLength(f.alley, l.Alley)
-		f.perRow.SetText(strconv.Itoa(l.PlotsPerRow))
+		f.perRow.SetText("")
+		if l.PlotsPerRow > 0 {
+			f.perRow.SetText(strconv.Itoa(l.PlotsPerRow))
+		}
 		if i := slices.Index(arrangeValues, l.Blocks); i >= 0 {
 			f.blocks.SetSelectedIndex(i)
 		}
@@ -194,7 +206,11 @@ func (f *fieldStep) refresh(c change) {
 			t.Random.Done.Format("2 Jan 2006"), t.Random.Seed))
 	}
 	if t.HasData() {
-		f.randomState.SetText(f.randomState.Text + "\nData are recorded, so the layout is fixed.")
+		// Randomising again would move treatments away from their values.
+		f.randomState.SetText(f.randomState.Text + "\nData are recorded, so the layout is fixed and Randomise is off: randomising again would move treatments away from the values recorded for their plots.")
+		f.randomBtn.Disable()
+	} else {
+		f.randomBtn.Enable()
 	}
 	f.loadMap()
 }
@@ -306,7 +322,22 @@ func (f *fieldStep) applyLayout() {
 		showError(f.u.win, "Could not change the layout", "The layout was not changed", err)
 		return
 	}
-	f.u.structuralEdit("layout change", "The layout could not be changed", func(t *trial.Trial) error { return t.SetLayout(l) })
+	before := f.t().Layout
+	if l == before {
+		f.layoutMsg.SetText("Nothing to change: the layout already has these settings.")
+		return
+	}
+	if f.u.structuralEdit("layout change", "The layout could not be changed", func(t *trial.Trial) error { return t.SetLayout(l) }) {
+		var msg string
+		if l.PlotsPerRow != before.PlotsPerRow || l.Blocks != before.Blocks || l.Numbering != before.Numbering || l.Walk != before.Walk {
+			msg = "Layout changed: the plots are laid out again in standard order; press Randomise before sowing."
+		} else {
+			msg = "Layout changed: new plot sizes; the plots and their treatments stay as they were."
+		}
+		f.layoutMsg.SetText(msg + " Undo (Ctrl+Z) takes it back.")
+	} else {
+		f.layoutMsg.SetText("")
+	}
 }
 
 // randomise lays the trial out afresh from the seed; refused with the

@@ -1,6 +1,7 @@
 package ui
 
 import (
+	"fmt"
 	"slices"
 
 	"furlong/trial"
@@ -60,17 +61,24 @@ func (h *history) canRedo() bool { return len(h.undone) > 0 }
 type setValue struct {
 	trait, plot int // indices into Trial.Traits and Trial.Plots
 	old, new    float64
+	what        string // "plot 103, Yield", for the undo label
 }
 
 func (c *setValue) do(t *trial.Trial)   { t.Traits[c.trait].Values[c.plot] = c.new }
 func (c *setValue) undo(t *trial.Trial) { t.Traits[c.trait].Values[c.plot] = c.old }
 func (c *setValue) kind() change        { return changeValues }
-func (c *setValue) label() string       { return "value entry" }
-func (c *setValue) plotRow() int        { return c.plot }
+func (c *setValue) label() string {
+	if c.what == "" {
+		return "value entry"
+	}
+	return "value of " + c.what
+}
+func (c *setValue) plotRow() int { return c.plot }
 
 // setExclusions replaces a plot's exclusions and note.
 type setExclusions struct {
 	plot             int
+	number           int // the plot's number, for the undo label
 	old, new         []trial.Exclusion
 	oldNote, newNote string
 }
@@ -88,7 +96,10 @@ func (c *setExclusions) undo(t *trial.Trial) {
 func (c *setExclusions) kind() change { return changeValues }
 func (c *setExclusions) plotRow() int { return c.plot }
 func (c *setExclusions) label() string {
-	return "exclusion change"
+	if c.number == 0 {
+		return "exclusion change"
+	}
+	return fmt.Sprintf("exclusion of plot %d", c.number)
 }
 
 // replaceTrial swaps the whole trial content, for imports and other edits

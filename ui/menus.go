@@ -119,15 +119,26 @@ func (u *App) updateMenus() {
 	}
 }
 
+// undo takes back the last edit and says which one ("Undid: value of
+// plot 103, Yield.").
 func (u *App) undo() {
-	if u.doc != nil && u.doc.undo() {
-		u.status.SetText("Undone.")
+	if u.doc == nil || !u.doc.hist.canUndo() {
+		return
+	}
+	what := u.doc.hist.done[len(u.doc.hist.done)-1].label()
+	if u.doc.undo() {
+		u.status.SetText("Undid: " + what + ".")
 	}
 }
 
+// redo makes the last undone edit again and says which one.
 func (u *App) redo() {
-	if u.doc != nil && u.doc.redo() {
-		u.status.SetText("Redone.")
+	if u.doc == nil || !u.doc.hist.canRedo() {
+		return
+	}
+	what := u.doc.hist.undone[len(u.doc.hist.undone)-1].label()
+	if u.doc.redo() {
+		u.status.SetText("Redid: " + what + ".")
 	}
 }
 

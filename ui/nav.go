@@ -85,11 +85,11 @@ func setupStatus(t *trial.Trial) string {
 	if len(t.Treatments) == 0 {
 		return "add treatments"
 	}
-	s := fmt.Sprintf("%d treatments · %s", len(t.Treatments), t.Design.Brief())
+	s := plural(len(t.Treatments), "treatment", "treatments") + " · " + t.Design.Brief()
 	if len(t.Traits) == 0 {
 		s += " · no traits yet"
 	} else {
-		s += fmt.Sprintf(" · %d traits", len(t.Traits))
+		s += " · " + plural(len(t.Traits), "trait", "traits")
 	}
 	return s
 }
@@ -99,9 +99,9 @@ func fieldStatus(t *trial.Trial) string {
 		return "not laid out yet"
 	}
 	if t.Random.Done.IsZero() {
-		return fmt.Sprintf("%d plots, not randomised", len(t.Plots))
+		return plural(len(t.Plots), "plot", "plots") + ", not randomised"
 	}
-	return fmt.Sprintf("%d plots · seed %d", len(t.Plots), t.Random.Seed)
+	return fmt.Sprintf("%s · seed %d", plural(len(t.Plots), "plot", "plots"), t.Random.Seed)
 }
 
 func recordStatus(t *trial.Trial) string {

@@ -197,7 +197,12 @@ func (r *recordStep) onSelected(id widget.TableCellID) {
 			}
 		}()
 	}
+	prev, had := r.sel, r.hasSel
 	r.sel, r.hasSel = id, true
+	if had {
+		r.table.RefreshItem(prev) // its selection frame goes
+	}
+	r.table.RefreshItem(id)
 	r.loadEntry()
 	r.focusEntry()
 }
@@ -344,7 +349,8 @@ func (r *recordStep) store(text string) (ok bool, note string) {
 			r.setMsg(refusalText(err), widget.DangerImportance)
 			return false, ""
 		}
-		r.u.doc.record(&setValue{trait: j, plot: row, old: old, new: tr.Values[row]})
+		r.u.doc.record(&setValue{trait: j, plot: row, old: old, new: tr.Values[row],
+			what: fmt.Sprintf("plot %d, %s", t.Plots[row].Number, tr.Name)})
 	}
 	r.loaded = r.entry.Text
 	if n := tr.RangeNote(v); n != "" {

@@ -115,7 +115,7 @@ func (r *recordStep) excludeDialog() {
 func (r *recordStep) setExclusion(row int, key, reason, note string, include bool) error {
 	t := r.trial()
 	p := &t.Plots[row]
-	cmd := &setExclusions{plot: row, old: slices.Clone(p.Exclusions), oldNote: p.Note}
+	cmd := &setExclusions{plot: row, number: p.Number, old: slices.Clone(p.Exclusions), oldNote: p.Note}
 	var err error
 	if include {
 		err = t.Include(row, key)

@@ -173,6 +173,13 @@ func (r *recordStep) updateCell(id widget.TableCellID, o fyne.CanvasObject) {
 	} else {
 		bg.FillColor = theme.Color(fill)
 	}
+	// The selected cell keeps a frame over any flag colour, so that the
+	// selection stays visible on a flagged or excluded value.
+	bg.StrokeWidth, bg.StrokeColor = 0, nil
+	if r.hasSel && id == r.sel {
+		bg.StrokeWidth = 2
+		bg.StrokeColor = theme.Color(theme.ColorNamePrimary)
+	}
 	bg.Refresh()
 	if k == colTreatment || id.Col >= r.nfixed+len(t.Traits) {
 		text = fitText(text, r.colWidthAt(id.Col), theme.TextSize())

@@ -125,3 +125,14 @@ func (u *App) tryStructural(label string, f func(t *trial.Trial) error) error {
 	u.doc.apply(&replaceTrial{what: label, before: before, after: work, c: changeStructure | changeValues, keepDetails: true})
 	return nil
 }
+
+// editLabel names an edit for the undo history from the sentence that
+// would report its refusal: "The treatment could not be added" gives
+// "treatment added".
+func editLabel(action string) string {
+	what, how, ok := strings.Cut(strings.TrimPrefix(action, "The "), " could not be ")
+	if !ok {
+		return "setup change"
+	}
+	return what + " " + how
+}

@@ -135,5 +135,5 @@ func (s *designTab) t() *trial.Trial { return s.u.doc.t }
 
 // structural applies a change as one undoable edit (see App.structuralEdit).
 func (s *designTab) structural(action string, f func(t *trial.Trial) error) bool {
-	return s.u.structuralEdit("setup change", action, f)
+	return s.u.structuralEdit(editLabel(action), action, f)
 }

@@ -339,5 +339,5 @@ func (s *traitsTab) t() *trial.Trial { return s.u.doc.t }
 
 // structural applies a change as one undoable edit (see App.structuralEdit).
 func (s *traitsTab) structural(action string, f func(t *trial.Trial) error) bool {
-	return s.u.structuralEdit("setup change", action, f)
+	return s.u.structuralEdit(editLabel(action), action, f)
 }

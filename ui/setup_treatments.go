@@ -22,6 +22,7 @@ type treatmentsTab struct {
 	trtList *widget.List
 	trtSel  int
 	trtForm treatmentForm
+	trtMsg  *widget.Label // what the last button did
 }
 
 // newTreatmentsTab builds the tab.
@@ -58,6 +59,9 @@ func (s *treatmentsTab) build() fyne.CanvasObject {
 	f.check = widget.NewCheck("Check (the standard the others are compared with)", nil)
 	code, name, desc, check := f.code, f.name, f.desc, f.check
 	s.trtList.OnSelected = func(i widget.ListItemID) {
+		if s.trtMsg != nil {
+			s.trtMsg.SetText("")
+		}
 		s.trtSel = i
 		tr := s.t().Treatments[i]
 		code.SetText(tr.Code)
@@ -108,12 +112,20 @@ func (s *treatmentsTab) build() fyne.CanvasObject {
 		}
 		addTreatment()
 	}
+	code.OnSubmitted = name.OnSubmitted // Enter in the code does the same
 	f.apply = widget.NewButtonWithIcon("Apply changes", theme.ConfirmIcon(), func() {
 		if s.trtSel < 0 || s.trtSel >= len(s.t().Treatments) {
 			return
 		}
 		old := s.t().Treatments[s.trtSel]
-		s.structural("The treatment could not be changed", func(t *trial.Trial) error { return t.UpdateTreatment(old.Code, fromForm(old)) })
+		nu := fromForm(old)
+		if nu == old {
+			s.trtMsg.SetText("Nothing to change: the form holds the treatment as it is.")
+			return
+		}
+		if s.structural("The treatment could not be changed", func(t *trial.Trial) error { return t.UpdateTreatment(old.Code, nu) }) {
+			s.trtMsg.SetText(treatmentChange(old, nu) + " Undo (Ctrl+Z) takes it back.")
+		}
 	})
 	f.remove = widget.NewButtonWithIcon("Remove", theme.ContentRemoveIcon(), func() {
 		if s.trtSel < 0 || s.trtSel >= len(s.t().Treatments) {
@@ -147,7 +159,10 @@ func (s *treatmentsTab) build() fyne.CanvasObject {
 	help := widget.NewLabel("Paste list adds the names on the clipboard: one per line, or code and name separated by a tab (two columns copied from a spreadsheet).")
 	help.Wrapping = fyne.TextWrapWord
 	help.Importance = widget.LowImportance
-	right := container.NewVBox(form, container.NewHBox(add, update, remove), container.NewHBox(up, down, paste), help)
+	s.trtMsg = widget.NewLabel("")
+	s.trtMsg.Wrapping = fyne.TextWrapWord
+	s.trtMsg.Importance = widget.SuccessImportance
+	right := container.NewVBox(form, container.NewHBox(add, update, remove), container.NewHBox(up, down, paste), s.trtMsg, help)
 	split := container.NewHSplit(s.trtList, container.NewVScroll(right))
 	split.Offset = 0.4
 	return split
@@ -261,5 +276,31 @@ func (s *treatmentsTab) t() *trial.Trial { return s.u.doc.t }
 
 // structural applies a change as one undoable edit (see App.structuralEdit).
 func (s *treatmentsTab) structural(action string, f func(t *trial.Trial) error) bool {
-	return s.u.structuralEdit("setup change", action, f)
+	return s.u.structuralEdit(editLabel(action), action, f)
+}
+
+// treatmentChange says in one sentence what an edit of a treatment
+// changed: "T02: code is now B2, name is now Brisk, now the check."
+func treatmentChange(old, nu trial.Treatment) string {
+	var parts []string
+	if nu.Code != old.Code {
+		parts = append(parts, "code is now "+nu.Code)
+	}
+	if nu.Name != old.Name {
+		parts = append(parts, "name is now “"+nu.Name+"”")
+	}
+	if nu.Description != old.Description {
+		parts = append(parts, "description changed")
+	}
+	if nu.Role != old.Role {
+		if nu.Role == trial.RoleCheck {
+			parts = append(parts, "now the check")
+		} else {
+			parts = append(parts, "no longer a check")
+		}
+	}
+	if len(parts) == 0 {
+		return "Treatment " + old.Code + " changed."
+	}
+	return "Treatment " + old.Code + ": " + strings.Join(parts, ", ") + "."
 }

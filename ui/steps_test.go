@@ -159,3 +159,57 @@ func TestApplyDesignFeedback(t *testing.T) {
 		t.Fatalf("changed design: %q", got)
 	}
 }
+
+// Small things of issue 12: Undo names what it undid, counts take the
+// singular for one, Randomise is off once data exist, Enter in the Code
+// field applies the change, the selected cell keeps a frame over a flag
+// colour, and "plots per row" 0 shows as empty with its meaning stated.
+func TestStepsSmallThings(t *testing.T) {
+	u, w := newTestApp(t, 0)
+	u.OpenTrial(smallTrial(t), "")
+	u.showStep(stepSetup)
+	s := u.steps[stepSetup].(*setupStep)
+	s.trtList.Select(1)
+	s.trtForm.code.SetText("B2")
+	s.trtForm.code.TypedKey(&fyne.KeyEvent{Name: fyne.KeyReturn})
+	if u.doc.t.Treatment("B2") == nil || !strings.Contains(s.trtMsg.Text, "code is now B2") {
+		t.Fatalf("Enter in Code: treatments %+v, message %q", u.doc.t.Treatments, s.trtMsg.Text)
+	}
+	u.showStep(stepRecord)
+	r := u.steps[stepRecord].(*recordStep)
+	click(t, r, 0, fixedCols)
+	keys(t, w, "12\n") // above the 0–10 range: flagged
+	click(t, r, 0, fixedCols)
+	c := newGridCell()
+	r.updateCell(widget.TableCellID{Row: 0, Col: fixedCols}, c)
+	bg := c.(*fyne.Container).Objects[0].(*canvas.Rectangle)
+	if bg.FillColor == nil || bg.StrokeWidth == 0 || bg.StrokeColor == nil {
+		t.Fatalf("flagged selected cell: fill %v, frame %v %v", bg.FillColor, bg.StrokeWidth, bg.StrokeColor)
+	}
+	u.undo()
+	if got, want := u.status.Text, "Undid: value of plot "+fmt.Sprint(u.doc.t.Plots[0].Number)+", Yield."; got != want {
+		t.Fatalf("undo status %q, want %q", got, want)
+	}
+
+	one := &trial.Trial{Treatments: []trial.Treatment{{Code: "A"}}, Traits: []trial.Trait{{Key: "y"}}, Design: trial.Design{Kind: trial.RCBD, Reps: 3}}
+	if s := setupStatus(one); !strings.Contains(s, "1 treatment ·") || !strings.Contains(s, "1 trait") || strings.Contains(s, "1 traits") {
+		t.Fatalf("setup status %q", s)
+	}
+
+	u.showStep(stepField)
+	f := u.steps[stepField].(*fieldStep)
+	if f.randomBtn.Disabled() {
+		t.Fatal("Randomise off before any data")
+	}
+	if f.perRow.Text != "" || !strings.Contains(f.perRow.PlaceHolder, "each block in one row") {
+		t.Fatalf("plots per row shows %q (placeholder %q)", f.perRow.Text, f.perRow.PlaceHolder)
+	}
+	u.showStep(stepRecord)
+	click(t, r, 1, fixedCols)
+	keys(t, w, "5\n")
+	u.showStep(stepField)
+	if !f.randomBtn.Disabled() || !strings.Contains(f.randomState.Text, "Randomise is off") {
+		t.Fatalf("Randomise with data: disabled %v, %q", f.randomBtn.Disabled(), f.randomState.Text)
+	}
+
+}
