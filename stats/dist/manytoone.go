@@ -6,6 +6,7 @@ import (
 	"math/rand/v2"
 	"sort"
 
+	"gonum.org/v1/gonum/integrate/quad"
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/stat/distuv"
 )
@@ -59,6 +60,8 @@ type ManyToOne struct {
 	// points' S values, cached per size.
 	chol, cholFactor []float64
 	sCache           [][]float64
+	tables           [2]*condTable
+	outerS, outerW   []float64
 	tol              float64
 	residual         float64
 }
@@ -139,7 +142,11 @@ func NewManyToOne(corr []float64, k int, nu, tol float64) (*ManyToOne, error) {
 	default:
 		d.method = FactorMethod
 	}
-	d.lambda, d.count = groupLambda(lam)
+	grid := 1e-13
+	if d.method == FactorMethod {
+		grid = factorGrid // the approximation need not tell λs closer than this apart
+	}
+	d.lambda, d.count = groupLambda(lam, grid)
 	return d, nil
 }
 
@@ -210,14 +217,45 @@ func (d *ManyToOne) Quantile(alpha float64, twoSided bool) float64 {
 // productSurvival integrates over S the conditional survival H(c·s).
 func (d *ManyToOne) productSurvival(c float64, twoSided bool) float64 {
 	h := func(u float64) float64 { return d.condSurvival(u, twoSided) }
+	if d.method == FactorMethod {
+		h = d.table(twoSided).at
+	}
 	if math.IsInf(d.nu, 1) {
 		return h(c)
+	}
+	if d.method == FactorMethod {
+		// Many critical values over one table: a fixed Gauss–Legendre
+		// rule over the S pieces, weights times densities computed once.
+		if d.outerS == nil {
+			d.outerS, d.outerW = outerRule(d.nu)
+		}
+		var sum float64
+		for i, s := range d.outerS {
+			sum += d.outerW[i] * h(c*s)
+		}
+		return sum
 	}
 	breaks := sBreaks(d.nu)
 	f := func(s float64) pair {
 		return pair{math.Exp(logScaledChiDensity(s, d.nu)) * h(c*s), 0}
 	}
 	return integratePieces(f, breaks, 1e-11, 1e-15).v
+}
+
+// outerRule returns nodes and weights (times the density of S) of a
+// 24-point Gauss–Legendre rule on each piece between sBreaks.
+func outerRule(nu float64) (nodes, weights []float64) {
+	b := sBreaks(nu)
+	x := make([]float64, 24)
+	w := make([]float64, 24)
+	for i := 1; i < len(b); i++ {
+		quad.Legendre{}.FixedLocations(x, w, b[i-1], b[i])
+		for j := range x {
+			nodes = append(nodes, x[j])
+			weights = append(weights, w[j]*math.Exp(logScaledChiDensity(x[j], nu)))
+		}
+	}
+	return nodes, weights
 }
 
 // sBreaks returns break points for integrals over S = χ_ν/√ν covering all
@@ -252,6 +290,51 @@ func (d *ManyToOne) condSurvival(u float64, twoSided bool) float64 {
 	return integratePieces(f, []float64{-9, -4, -1.5, 0, 1.5, 4, 9}, 1e-11, 1e-16).v
 }
 
+// wRule holds fixed Gauss–Legendre nodes over w and their weights times
+// φ(w), for tabulating condSurvival (smooth in w; 24 nodes on each of six
+// pieces reach about 1e-12).
+var wRuleX, wRuleW = func() ([]float64, []float64) {
+	b := []float64{-9, -5, -2.5, 0, 2.5, 5, 9}
+	x := make([]float64, 24)
+	w := make([]float64, 24)
+	var xs, ws []float64
+	for i := 1; i < len(b); i++ {
+		quad.Legendre{}.FixedLocations(x, w, b[i-1], b[i])
+		for j := range x {
+			xs = append(xs, x[j])
+			ws = append(ws, w[j]*phi(x[j]))
+		}
+	}
+	return xs, ws
+}()
+
+// condSurvivalFixed is condSurvival by the fixed rule wRule.
+func (d *ManyToOne) condSurvivalFixed(u float64, twoSided bool) float64 {
+	var sum float64
+	for i, w := range wRuleX {
+		var logIn float64
+		full := false
+		for g, l := range d.lambda {
+			sd := math.Sqrt(1 - l*l)
+			q := normSurvival((u - l*w) / sd)
+			if twoSided {
+				q += normSurvival((u + l*w) / sd)
+			}
+			if q >= 1 {
+				full = true
+				break
+			}
+			logIn += float64(d.count[g]) * math.Log1p(-q)
+		}
+		if full {
+			sum += wRuleW[i]
+			continue
+		}
+		sum += -math.Expm1(logIn) * wRuleW[i]
+	}
+	return sum
+}
+
 func phi(w float64) float64 { return math.Exp(-w*w/2) / math.Sqrt(2*math.Pi) }
 
 // oneFactor fits R_ij ≈ λ_iλ_j (i ≠ j) by the principal-axis iteration and
@@ -271,34 +354,35 @@ func oneFactor(r []float64, k int) ([]float64, float64) {
 		}
 		return lam, 0
 	}
+	// Alternating least squares on Σ_{i≠j} (R_ij − λ_iλ_j)²: each λ_i in
+	// turn is the least-squares coefficient given the others, O(k²) a sweep.
 	for i := range lam {
 		lam[i] = 0.7
 	}
-	a := mat.NewSymDense(k, append([]float64(nil), r...))
-	var eig mat.EigenSym
-	for it := 0; it < 500; it++ {
-		for i := 0; i < k; i++ {
-			a.SetSym(i, i, lam[i]*lam[i])
+	for sweep := 0; sweep < 200; sweep++ {
+		var ss float64
+		for _, l := range lam {
+			ss += l * l
 		}
-		if !eig.Factorize(a, true) {
-			break
-		}
-		vals := eig.Values(nil)
-		var vecs mat.Dense
-		eig.VectorsTo(&vecs)
-		top := k - 1
-		scale := math.Sqrt(math.Max(vals[top], 0))
 		var change float64
-		sign := 1.0
-		if vecs.At(0, top) < 0 {
-			sign = -1
-		}
 		for i := 0; i < k; i++ {
-			v := sign * scale * vecs.At(i, top)
+			var num float64
+			row := r[i*k : (i+1)*k]
+			for j, l := range lam {
+				if j != i {
+					num += row[j] * l
+				}
+			}
+			den := ss - lam[i]*lam[i]
+			if den <= 0 {
+				continue
+			}
+			v := num / den
+			ss += v*v - lam[i]*lam[i]
 			change = math.Max(change, math.Abs(v-lam[i]))
 			lam[i] = v
 		}
-		if change < 1e-14 {
+		if change < 1e-12 {
 			break
 		}
 	}
@@ -311,14 +395,18 @@ func oneFactor(r []float64, k int) ([]float64, float64) {
 	return lam, res
 }
 
-// groupLambda groups equal λ values (to 1e-13).
-func groupLambda(lam []float64) ([]float64, []int) {
+// factorGrid is the resolution of the λ values of the factor
+// approximation: values closer than this are integrated as one.
+const factorGrid = 1e-3
+
+// groupLambda groups λ values that differ by at most grid.
+func groupLambda(lam []float64, grid float64) ([]float64, []int) {
 	s := append([]float64(nil), lam...)
 	sort.Float64s(s)
 	var vals []float64
 	var counts []int
 	for _, v := range s {
-		if n := len(vals); n > 0 && math.Abs(vals[n-1]-v) <= 1e-13 {
+		if n := len(vals); n > 0 && math.Abs(vals[n-1]-v) <= grid {
 			counts[n-1]++
 			continue
 		}
@@ -471,3 +559,70 @@ var primes = [...]int{2, 3, 5, 7, 11, 13, 17, 19, 23, 29, 31, 37, 41, 43, 47, 53
 	73, 79, 83, 89, 97, 101, 103, 107, 109, 113, 127, 131, 137, 139, 149, 151, 157, 163, 167, 173,
 	179, 181, 191, 193, 197, 199, 211, 223, 227, 229, 233, 239, 241, 251, 257, 263, 269, 271, 277, 281,
 	283, 293, 307, 311, 313, 317, 331, 337, 347, 349}
+
+// condTable is condSurvival tabulated on a uniform grid of u, read by local
+// 8-point Lagrange interpolation: the factor approximation evaluates it at
+// many points for many critical values, and condSurvival is analytic in u,
+// so the interpolation error (about h⁸ max|H⁽⁸⁾|/8!, below 1e-12 here) is
+// far below the approximation's own.
+type condTable struct {
+	lo, h float64
+	v     []float64
+}
+
+const (
+	tableLo   = -12.0
+	tableHi   = 12.0
+	tableStep = 0.05
+)
+
+func (d *ManyToOne) table(twoSided bool) *condTable {
+	i := 0
+	if twoSided {
+		i = 1
+	}
+	if d.tables[i] != nil {
+		return d.tables[i]
+	}
+	n := int(math.Round((tableHi-tableLo)/tableStep)) + 1
+	t := &condTable{lo: tableLo, h: tableStep, v: make([]float64, n)}
+	for j := n - 1; j >= 0; j-- { // from the top, so mirrored values exist
+		u := tableLo + float64(j)*tableStep
+		if twoSided && u < 0 {
+			// Even extension: 1 − H vanishes like u^k at 0, so the extended
+			// function keeps k − 1 derivatives there.
+			t.v[j] = t.v[n-1-j]
+			continue
+		}
+		t.v[j] = d.condSurvivalFixed(u, twoSided)
+	}
+	d.tables[i] = t
+	return t
+}
+
+func (t *condTable) at(u float64) float64 {
+	n := len(t.v)
+	x := (u - t.lo) / t.h
+	if x <= 0 {
+		return t.v[0]
+	}
+	if x >= float64(n-1) {
+		return t.v[n-1]
+	}
+	const pts = 8
+	first := int(math.Floor(x)) - pts/2 + 1
+	first = max(0, min(first, n-pts))
+	var sum float64
+	for a := 0; a < pts; a++ {
+		w := 1.0
+		xa := float64(first + a)
+		for b := 0; b < pts; b++ {
+			if b != a {
+				xb := float64(first + b)
+				w *= (x - xb) / (xa - xb)
+			}
+		}
+		sum += w * t.v[first+a]
+	}
+	return sum
+}

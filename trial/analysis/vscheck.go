@@ -65,10 +65,16 @@ func CompareWithCheck(r *Result, check string) (*CheckComparison, error) {
 	if a == nil || a.DFError < 1 || !(a.MSE > 0) {
 		return nil, &Error{Trait: r.TraitKey, Msg: "the comparisons with the check need an error mean square with at least one degree of freedom"}
 	}
-	sed := make(map[[2]string]float64, len(r.Pairs)*2)
+	// SEDs by treatment index (0 where a pair is missing).
+	nt := len(r.Means)
+	index := make(map[string]int, nt)
+	for i, m := range r.Means {
+		index[m.Treatment] = i
+	}
+	sedAt := make([]float64, nt*nt)
 	for _, p := range r.Pairs {
-		sed[[2]string{p.A, p.B}] = p.SE
-		sed[[2]string{p.B, p.A}] = p.SE
+		a, b := index[p.A], index[p.B]
+		sedAt[a*nt+b], sedAt[b*nt+a] = p.SE, p.SE
 	}
 	var others []int
 	for i := range r.Means {
@@ -83,8 +89,8 @@ func CompareWithCheck(r *Result, check string) (*CheckComparison, error) {
 	se := make([]float64, k)
 	diff := make([]float64, k)
 	for a1, i := range others {
-		s, ok := sed[[2]string{r.Means[i].Treatment, check}]
-		if !ok || !(s > 0) {
+		s := sedAt[i*nt+ci]
+		if !(s > 0) {
 			return nil, &Error{Trait: r.TraitKey, Msg: fmt.Sprintf("%s cannot be compared with the check %s", r.Means[i].Treatment, check)}
 		}
 		se[a1] = s
@@ -95,7 +101,7 @@ func CompareWithCheck(r *Result, check string) (*CheckComparison, error) {
 		corr[a1*k+a1] = 1
 		for b1 := a1 + 1; b1 < k; b1++ {
 			j := others[b1]
-			sij := sed[[2]string{r.Means[i].Treatment, r.Means[j].Treatment}]
+			sij := sedAt[i*nt+j]
 			c := (se[a1]*se[a1] + se[b1]*se[b1] - sij*sij) / (2 * se[a1] * se[b1])
 			corr[a1*k+b1], corr[b1*k+a1] = c, c
 		}
