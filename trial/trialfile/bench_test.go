@@ -36,3 +36,18 @@ func BenchmarkDecode(b *testing.B) {
 		}
 	}
 }
+
+// The duplicate-member scan of Decode alone, on the same file.
+func BenchmarkDuplicateKeyScan(b *testing.B) {
+	var buf bytes.Buffer
+	if err := Encode(&buf, bigTrial("bench", 24000, 10, 3)); err != nil {
+		b.Fatal(err)
+	}
+	data := buf.Bytes()
+	b.SetBytes(int64(len(data)))
+	for b.Loop() {
+		if pe := duplicateKey(data); pe != nil {
+			b.Fatal(pe)
+		}
+	}
+}

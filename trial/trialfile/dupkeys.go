@@ -1,9 +1,22 @@
 package trialfile
 
 import (
+	"bytes"
 	"encoding/json"
 	"strings"
 )
+
+// structural marks the bytes that end a number or a literal in JSON.
+var structural = func() (t [256]bool) {
+	for _, c := range []byte(" \t\r\n,:[]{}\"") {
+		t[c] = true
+	}
+	return t
+}()
+
+// fold gives the form of a member name that encoding/json's matching,
+// which ignores case, would not tell apart.
+func fold(b []byte) string { return strings.ToLower(strings.ToUpper(string(b))) }
 
 // duplicateKey finds the first object member in data (well-formed JSON)
 // whose name its object already has, and reports it with its path.
@@ -14,9 +27,9 @@ func duplicateKey(data []byte) *ParseError {
 	type frame struct {
 		obj       bool
 		expectKey bool
-		key       string // the current member's name (objects)
-		index     int    // the current element's index (lists)
-		names     []string
+		rawKey    []byte            // the current member's name (objects)
+		index     int               // the current element's index (lists)
+		names     [][]byte          // names as written (raw, unescaped ones point into data)
 		set       map[string]string // folded name → name as written, for big objects
 	}
 	var stack []frame
@@ -29,7 +42,7 @@ func duplicateKey(data []byte) *ParseError {
 			case k == len(stack)-1:
 				p = append(p, pathElem{key: last, index: -1})
 			default:
-				p = append(p, pathElem{key: f.key, index: -1})
+				p = append(p, pathElem{key: string(f.rawKey), index: -1})
 			}
 		}
 		return formatPath(p)
@@ -78,24 +91,27 @@ func duplicateKey(data []byte) *ParseError {
 			top := &stack[n-1]
 			top.expectKey = false
 			end := min(i, len(data))
-			name := string(data[start+1 : max(start+1, end-1)])
+			raw := data[start+1 : max(start+1, end-1)]
 			if escaped {
+				var name string
 				json.Unmarshal(data[start:end], &name)
+				raw = []byte(name)
 			}
-			folded := strings.ToLower(strings.ToUpper(name))
 			var first string
 			found := false
 			if top.set != nil {
-				first, found = top.set[folded]
+				first, found = top.set[fold(raw)]
 			} else {
 				for _, k := range top.names {
-					if strings.ToLower(strings.ToUpper(k)) == folded {
-						first, found = k, true
+					if bytes.EqualFold(k, raw) {
+						first, found = string(k), true
 						break
 					}
 				}
 			}
+			name := ""
 			if found {
+				name = string(raw)
 				where := path(first)
 				if i := strings.LastIndexByte(where, '.'); i >= 0 {
 					where = where[:i]
@@ -112,21 +128,25 @@ func duplicateKey(data []byte) *ParseError {
 				pe.Line, pe.Column = position(data, start)
 				return pe
 			}
-			top.key = name
+			top.rawKey = raw
 			if top.set == nil && len(top.names) < 16 {
-				top.names = append(top.names, name)
+				top.names = append(top.names, raw)
 				continue
 			}
 			if top.set == nil {
 				top.set = make(map[string]string, 32)
 				for _, k := range top.names {
-					top.set[strings.ToLower(strings.ToUpper(k))] = k
+					top.set[fold(k)] = string(k)
 				}
 				top.names = nil
 			}
-			top.set[folded] = name
+			top.set[fold(raw)] = string(raw)
 		default:
+			// A number or a literal: skip to the next structural byte.
 			i++
+			for i < len(data) && !structural[data[i]] {
+				i++
+			}
 		}
 	}
 	return nil

@@ -44,7 +44,7 @@ func TestBounds(t *testing.T) {
 		{"column 0", func(tr *trial.Trial) { tr.Plots[0].Column = 0 }, "trial.plots[0].column", "column 0", ErrOutOfRange},
 		{"grid far too big", func(tr *trial.Trial) { tr.Plots[7].Row = 90000; tr.Plots[8].Column = 90000 }, "trial.plots[7].row", "positions look damaged", ErrOutOfRange},
 		{"plot number negative", func(tr *trial.Trial) { tr.Plots[2].Number = -5 }, "trial.plots[2].number", "-5", ErrOutOfRange},
-		{"reps", func(tr *trial.Trial) { tr.Design.Reps = 5000 }, "trial.design.reps", "5000", ErrOutOfRange},
+		{"reps", func(tr *trial.Trial) { tr.Design.Reps = 500000 }, "trial.design.reps", "500000", ErrOutOfRange},
 		{"plots per row", func(tr *trial.Trial) { tr.Layout.PlotsPerRow = -1 }, "trial.layout.plots_per_row", "not -1", ErrOutOfRange},
 		{"plot length", func(tr *trial.Trial) { tr.Layout.PlotLength = -3 }, "trial.layout.plot_length", "plot length", ErrOutOfRange},
 		{"latitude", func(tr *trial.Trial) { v := 91.0; tr.Site.Latitude = &v }, "trial.site.latitude", "latitude", ErrOutOfRange},

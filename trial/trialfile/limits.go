@@ -13,8 +13,9 @@ import (
 const (
 	// MaxDecimals is the most decimals a trait may be shown with.
 	MaxDecimals = 10
-	// MaxReps is the largest replicate count a file may hold.
-	MaxReps = 1000
+	// MaxReps is the largest replicate count a file may hold (as many as
+	// there may be blocks).
+	MaxReps = MaxPosition
 	// MaxPosition is the largest block, field row, field column or
 	// plots-per-row count.
 	MaxPosition = 100000
