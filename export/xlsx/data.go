@@ -231,25 +231,36 @@ func (r *report) writeFieldMap(name string) error {
 	}
 	s.track(1, 6)
 
-	// Legend, right of the grid.
-	lc := left + maxCol + 1
-	s.text(lc, top-1, "Treatment", styleKey{bold: true})
-	s.text(lc+1, top-1, "Name", styleKey{bold: true})
+	// Legend, under the grid: its own rows, all of one height (beside the
+	// grid its rows took the tall plot rows and then short ones).
+	lt := top + maxRow + 1
+	s.textNoWidth(1, lt, "Legend", styleKey{bold: true})
+	s.text(left, lt+1, "Treatment", withBottom(styleKey{bold: true, halign: "center"}))
+	s.textNoWidth(left+1, lt+1, "Name", withBottom(styleKey{bold: true}))
 	for i, tm := range t.Treatments {
+		row := lt + 2 + i
 		hex := colour[tm.Code]
-		k := styleKey{fill: hex, font: fontFor(hex), halign: "center", border: [4]int{1, 1, 1, 1}}
-		s.text(lc, top+i, tm.Code, k)
+		k := styleKey{fill: hex, font: fontFor(hex), halign: "center", valign: "center", border: [4]int{1, 1, 1, 1}}
+		s.text(left, row, tm.Code, k)
 		label := tm.Name
 		if tm.Role == trial.RoleCheck {
 			label += " (check)"
 		}
-		s.text(lc+1, top+i, label, styleKey{})
+		s.textNoWidth(left+1, row, label, styleKey{valign: "center"})
+		if s.err == nil {
+			s.fail(r.f.SetRowHeight(name, row, legendRowHeight))
+		}
 	}
 	if len(t.Treatments) > len(OkabeIto) {
-		s.textNoWidth(lc, top+len(t.Treatments)+1, "More treatments than colours: colours repeat; read the code in each cell.", noteStyle)
+		s.textNoWidth(left, lt+2+len(t.Treatments), "More treatments than colours: colours repeat; read the code in each cell.", noteStyle)
 	}
 	s.freeze(top-1, 1)
 	s.fitColumns(5, 40)
 	s.printSetup(r.opts.Paper, true, r.t.Title+": field map")
 	return s.err
 }
+
+// legendRowHeight is the height, in points, of each row of the field map's
+// legend: one size for all (a little above the default 15 so the colour
+// swatches read as swatches).
+const legendRowHeight = 18

@@ -282,7 +282,11 @@ func (r *report) writeCover(name string) error {
 	s.textNoWidth(1, row, "Plots used in each analysis", sectionStyle)
 	row++
 	for i, h := range []string{"Trait", "Analysed", "Missing", "Excluded", "Reasons for exclusion"} {
-		s.text(1+i, row, h, headStyle)
+		k := headStyle
+		if i >= 1 && i <= 3 {
+			k = headNumStyle // over the right-aligned counts
+		}
+		s.text(1+i, row, h, k)
 	}
 	row++
 	for j, st := range r.sum.Traits {

@@ -655,3 +655,48 @@ func TestReportDerivedLatin(t *testing.T) {
 		t.Errorf("check at %v%% of itself", got)
 	}
 }
+
+// TestReportLayoutDetails: the cover's count headers align right over
+// their right-aligned numbers, and every legend row of the field map has
+// one height (common practice in table layout).
+func TestReportLayoutDetails(t *testing.T) {
+	t.Parallel()
+	tr, _ := barleyTrial(t)
+	f, _ := writeReport(t, tr, barleyResults(t, tr), ReportOptions{})
+	head := findRow(t, f, CoverSheet, 1, "Trait")
+	if head == 0 {
+		t.Fatal("no plots-used table")
+	}
+	align := func(c string) string {
+		id, err := f.GetCellStyle(CoverSheet, c)
+		if err != nil {
+			t.Fatal(err)
+		}
+		st, err := f.GetStyle(id)
+		if err != nil || st.Alignment == nil {
+			return ""
+		}
+		return st.Alignment.Horizontal
+	}
+	for col := 2; col <= 4; col++ {
+		if got := align(cell(col, head)); got != "right" {
+			t.Errorf("cover header column %d aligned %q, want right", col, got)
+		}
+	}
+	lg := findRow(t, f, FieldMapSheet, 1, "Legend")
+	if lg == 0 {
+		t.Fatal("no legend")
+	}
+	for i := range tr.Treatments {
+		h, err := f.GetRowHeight(FieldMapSheet, lg+2+i)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if h != legendRowHeight {
+			t.Errorf("legend row %d is %v pt high, want %v", i, h, legendRowHeight)
+		}
+		if got := textAt(t, f, FieldMapSheet, cell(2, lg+2+i)); got != tr.Treatments[i].Code {
+			t.Errorf("legend row %d shows %q", i, got)
+		}
+	}
+}
