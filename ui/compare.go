@@ -74,6 +74,7 @@ func newCompareStep(u *App) *compareStep {
 			return
 		}
 		c.method = m
+		u.chooseMethod(m) // remembered in the trial: the report uses it too
 		c.show(c.shown)
 		u.compute.settingsChanged() // the chart letters follow the method
 	})
@@ -204,6 +205,10 @@ func (c *compareStep) keyForLabel(s string) string {
 // refresh follows trait changes; the analyser recomputes on data changes.
 func (c *compareStep) refresh(ch change) {
 	t := c.u.doc.t
+	if m := c.u.trialMethod(); m != c.method {
+		c.method = m // the trial's remembered method (opened, or undone)
+		c.methodSel.SetSelected(methodLabel(m))
+	}
 	if ch&changeStructure == 0 && len(c.traitSel.Options) == len(t.Traits) {
 		if ch&changeValues != 0 {
 			c.state.SetText("updating…")

@@ -45,8 +45,15 @@ func newReportStep(u *App) *reportStep {
 	r.traits = widget.NewCheckGroup(nil, r.traitsChanged)
 	r.charts = widget.NewCheck("A chart of the means on each trait sheet", nil)
 	r.charts.SetChecked(true)
-	r.method = widget.NewRadioGroup([]string{methodLabel(meansep.LSD), methodLabel(meansep.Tukey)}, nil)
-	r.method.SetSelected(methodLabel(u.prefs.method))
+	// The trial's one method, shared with Compare (u.chooseMethod).
+	r.method = widget.NewRadioGroup([]string{methodLabel(meansep.LSD), methodLabel(meansep.Tukey)}, func(s string) {
+		m := meansep.LSD
+		if s == methodLabel(meansep.Tukey) {
+			m = meansep.Tukey
+		}
+		u.chooseMethod(m)
+	})
+	r.method.SetSelected(methodLabel(u.trialMethod()))
 	r.method.Horizontal = true
 	r.alpha = widget.NewSelect(alphaChoices, nil)
 	r.alpha.SetSelected(strconv.FormatFloat(u.prefs.alpha, 'g', -1, 64))
@@ -87,6 +94,9 @@ func newReportStep(u *App) *reportStep {
 func (r *reportStep) object() fyne.CanvasObject { return r.root }
 
 func (r *reportStep) refresh(c change) {
+	if m := methodLabel(r.u.trialMethod()); r.method.Selected != m {
+		r.method.SetSelected(m)
+	}
 	if c&changeStructure == 0 {
 		return
 	}
@@ -154,10 +164,7 @@ func (r *reportStep) reportOptions() (xlsx.ReportOptions, []string) {
 			keys = append(keys, tr.Key)
 		}
 	}
-	m := meansep.LSD
-	if r.method.Selected == methodLabel(meansep.Tukey) {
-		m = meansep.Tukey
-	}
+	m := r.u.trialMethod()
 	a, err := strconv.ParseFloat(r.alpha.Selected, 64)
 	if err != nil {
 		a = 0.05
@@ -182,17 +189,14 @@ func (r *reportStep) exportReport() {
 // writeReport analyses the chosen traits of a snapshot and writes the
 // season report workbook; it is the work behind the report's save dialog.
 func writeReport(ctx context.Context, w io.Writer, t *trial.Trial, keys []string, opts xlsx.ReportOptions, progress func(int, int)) error {
-	results := make([]analysis.Outcome, 0, len(keys))
+	// The one analyse loop (each trait on its own scale, the report's method).
+	results, err := analysis.AnalyzeAll(ctx, t, keys, analysis.Options{Alpha: opts.Alpha, Method: opts.Method})
+	if err != nil {
+		return err
+	}
 	steps := len(keys)
-	for i, k := range keys {
-		if err := ctx.Err(); err != nil {
-			return err
-		}
-		tr := analyzeTrait(t, k, analysis.Options{Alpha: opts.Alpha})
-		results = append(results, analysis.Outcome{Key: k, Result: tr.res, Err: tr.err})
-		if progress != nil {
-			progress(i+1, 2*steps)
-		}
+	if progress != nil {
+		progress(steps, 2*steps)
 	}
 	opts.Ctx = ctx
 	opts.Progress = func(done, total int) {

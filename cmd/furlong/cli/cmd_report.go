@@ -34,7 +34,7 @@ and the field map. Numbers are stored at full precision and shown with each trai
 			fs := flag.NewFlagSet("report", flag.ContinueOnError)
 			fs.StringVar(&o.out, "o", "", "write the workbook to this `file` (.xlsx; required)")
 			fs.Float64Var(&o.alpha, "alpha", analysis.DefaultAlpha, "significance level of letters and LSD/HSD")
-			fs.StringVar(&o.method, "method", "lsd", "letters shown: lsd or tukey")
+			fs.StringVar(&o.method, "method", "", "letters shown: lsd or tukey (default: the trial's remembered method)")
 			fs.StringVar(&o.traits, "traits", "", "report only these trait `keys`, comma-separated, in this order")
 			fs.StringVar(&o.paper, "paper", "a4", "paper size, a4 or letter")
 			fs.BoolVar(&o.noCharts, "no-charts", false, "leave the charts out")
@@ -65,7 +65,7 @@ The format follows the file name's ending. Charts are sized for an A4 landscape 
 			fs.StringVar(&o.out, "o", "", "write the chart to this `file` (.png, .svg or .pdf; required)")
 			fs.StringVar(&o.trait, "trait", "", "the trait `key` (required)")
 			fs.StringVar(&o.kind, "kind", "means", "chart kind: means, spread, fieldmap, residuals or qq")
-			fs.StringVar(&o.method, "method", "lsd", "letters on a means chart: lsd, tukey or none")
+			fs.StringVar(&o.method, "method", "", "letters on a means chart: lsd, tukey or none (default: the trial's remembered method)")
 			fs.Float64Var(&o.alpha, "alpha", analysis.DefaultAlpha, "significance level of the letters")
 			fs.StringVar(&o.order, "order", "mean", "treatment order: mean or code")
 			fs.BoolVar(&o.force, "force", false, "replace the output file if it exists")
@@ -132,7 +132,9 @@ func runReport(ctx context.Context, o reportOptions) error {
 	if err != nil {
 		return err
 	}
-	results, err := analysis.AnalyzeAll(ctx, t, keys, analysis.Options{Alpha: o.alpha})
+	// One loop, the trial's settings: each trait on its own scale, the
+	// trial's method unless --method says otherwise.
+	results, err := analysis.AnalyzeAll(ctx, t, keys, analysis.Options{Alpha: o.alpha, Method: m})
 	if err != nil {
 		return err
 	}
@@ -205,6 +207,9 @@ func runChart(ctx context.Context, o chartOptions) error {
 	}
 	if t.Trait(o.trait) == nil {
 		return fmt.Errorf("the trial has no trait %q (it has %s)", o.trait, traitKeys(t))
+	}
+	if o.kind == "means" && o.method == "" {
+		letters = meansep.Method(t.MeanSeparation())
 	}
 	var p *plot.Plot
 	analyse := func() (*analysis.Result, error) {
@@ -294,8 +299,12 @@ func imageFormat(out string) (string, error) {
 	return "", usagef("the output must end in .png, .svg or .pdf")
 }
 
+// parseMethod reads --method; "" (not given) stays "", the trial's
+// remembered method.
 func parseMethod(s string) (meansep.Method, error) {
 	switch strings.ToLower(s) {
+	case "":
+		return "", nil
 	case "lsd":
 		return meansep.LSD, nil
 	case "tukey", "hsd":
