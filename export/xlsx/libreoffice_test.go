@@ -107,23 +107,24 @@ func TestLibreOffice(t *testing.T) {
 		if r[0] != m.Treatment {
 			t.Fatalf("row %d = %q", i, r)
 		}
-		// Shown with the trait's 2 decimals.
-		if want := strconv.FormatFloat(m.BackMean, 'f', 2, 64); r[3] != want {
+		// Shown one decimal finer than the trait's 2 (common practice).
+		if want := strconv.FormatFloat(m.BackMean, 'f', 3, 64); r[3] != want {
 			t.Errorf("%s mean shown %q, want %q", m.Treatment, r[3], want)
 		}
 		if r[4] != m.LettersLSD {
 			t.Errorf("%s letters %q", m.Treatment, r[4])
 		}
 	}
+	// The statistics block: a row per trait, p in column I.
 	var pRow []string
-	for _, r := range sum {
-		if len(r) > 0 && r[0] == "p (treatments)" {
-			pRow = r
+	for i, r := range sum {
+		if len(r) > 0 && r[0] == "Statistics of each trait" && i+2 < len(sum) {
+			pRow = sum[i+2]
 		}
 	}
 	// p = 0.00161 shows with three decimals.
-	if pRow == nil || pRow[3] != "0.002" {
-		t.Errorf("p row %q, want 0.002 for yield", pRow)
+	if len(pRow) < 9 || pRow[8] != "0.002" {
+		t.Errorf("statistics row %q, want p 0.002 for yield", pRow)
 	}
 
 	trait := readCSV(t, filepath.Join(shown, "report-Yield.csv"))

@@ -433,17 +433,28 @@ func (r *report) writeSummary(name string) error {
 	s.textNoWidth(1, row, "Statistics of each trait", sectionStyle)
 	row++
 	msdHead := export.MSDLabel(sum.Method, sum.Alpha)
-	for c, h := range []string{"Trait", "", "", "Grand mean", "CV%", msdHead, "p (treatments)", "F test"} {
+	// Columns: trait (A–C), grand mean (D), CV% (E), LSD or HSD (F–H
+	// merged: a range needs the room), p (I), reading (J on).
+	const msdFrom, msdTo, pCol, readCol = 6, 8, 9, 10
+	for c, h := range map[int]string{1: "Trait", 4: "Grand mean", 5: "CV%", msdFrom: msdHead, pCol: "p (treatments)", readCol: "F test"} {
 		k := withBottom(headLeft)
-		if c >= 3 && c <= 6 {
+		if c >= 4 && c <= pCol {
 			k = withBottom(headRight)
 		}
-		if h != "" || c < 3 {
-			s.textNoWidth(1+c, row, h, k)
+		s.textNoWidth(c, row, h, k)
+	}
+	for _, c := range []int{2, 3, 7, 8} {
+		s.setStyle(c, row, withBottom(headLeft))
+	}
+	merge := func(from, to, row int) {
+		if s.err == nil {
+			s.fail(r.f.MergeCell(name, cellName(from, row), cellName(to, row)))
 		}
 	}
+	merge(1, 3, row)
+	merge(msdFrom, msdTo, row)
 	if s.err == nil {
-		s.fail(r.f.MergeCell(name, cellName(1, row), cellName(3, row)))
+		s.fail(r.f.SetRowHeight(name, row, 30))
 	}
 	row++
 	level := strconv.FormatFloat(sum.Alpha, 'f', -1, 64)
@@ -461,21 +472,22 @@ func (r *report) writeSummary(name string) error {
 		case st.Result.Transform != stats.NoTransform:
 			// On the analysis scale: the difference of two back-transformed
 			// means has no single yardstick.
-			s.text(6, row, export.MSDText(st.MSD, st.MSDRange, analysis.TransformedDecimals)+" ("+st.Result.Transform.Scale()+" scale)", styleKey{halign: "right"})
+			s.textNoWidth(msdFrom, row, export.MSDText(st.MSD, st.MSDRange, analysis.TransformedDecimals)+" ("+st.Result.Transform.Scale()+" scale)", styleKey{halign: "right"})
 		case st.MSD != nil && finiteF(*st.MSD):
-			s.num(6, row, *st.MSD, numStyle(dec))
+			s.num(msdFrom, row, *st.MSD, numStyle(dec))
 		default:
-			s.text(6, row, export.MSDText(st.MSD, st.MSDRange, dec), styleKey{halign: "right"})
+			s.textNoWidth(msdFrom, row, export.MSDText(st.MSD, st.MSDRange, dec), styleKey{halign: "right"})
 		}
+		merge(msdFrom, msdTo, row)
 		if st.HasP {
-			s.num(7, row, st.P, pStyle)
+			s.num(pCol, row, st.P, pStyle)
 			verdict := "not significant at " + level
 			if st.P < sum.Alpha {
 				verdict = "significant at " + level
 			}
-			s.textNoWidth(8, row, verdict, noteStyle)
+			s.textNoWidth(readCol, row, verdict, noteStyle)
 		} else {
-			s.text(7, row, dash, dashStyle)
+			s.text(pCol, row, dash, dashStyle)
 		}
 		row++
 	}
