@@ -458,6 +458,7 @@ func (r *report) writeSummary(name string) error {
 	}
 	row++
 	level := strconv.FormatFloat(sum.Alpha, 'f', -1, 64)
+	var transformed []string // traits whose LSD is on a transformed scale
 	for _, st := range sum.Traits {
 		s.textNoWidth(1, row, traitLabel(st.Name, st.Unit), labelStyle)
 		if st.Result == nil {
@@ -472,7 +473,8 @@ func (r *report) writeSummary(name string) error {
 		case st.Result.Transform != stats.NoTransform:
 			// On the analysis scale: the difference of two back-transformed
 			// means has no single yardstick.
-			s.textNoWidth(msdFrom, row, export.MSDText(st.MSD, st.MSDRange, analysis.TransformedDecimals)+" ("+st.Result.Transform.Scale()+" scale)", styleKey{halign: "right"})
+			s.textNoWidth(msdFrom, row, export.MSDText(st.MSD, st.MSDRange, analysis.TransformedDecimals)+" *", styleKey{halign: "right"})
+			transformed = append(transformed, traitLabel(st.Name, st.Unit)+": "+st.Result.Transform.Scale())
 		case st.MSD != nil && finiteF(*st.MSD):
 			s.num(msdFrom, row, *st.MSD, numStyle(dec))
 		default:
@@ -492,6 +494,10 @@ func (r *report) writeSummary(name string) error {
 		row++
 	}
 	row++
+	if len(transformed) > 0 {
+		s.textNoWidth(1, row, "* On the scale the trait is analysed on ("+strings.Join(transformed, "; ")+"): a difference of back-transformed means has no single yardstick.", noteStyle)
+		row++
+	}
 	for _, st := range sum.Traits {
 		if st.CheckMean != nil {
 			s.textNoWidth(1, row, "% check: each entry's mean as a percentage of the mean of the check entries, for the traits chosen in the trial's analysis settings.", noteStyle)
