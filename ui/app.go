@@ -74,6 +74,10 @@ type App struct {
 	// outside, when set, receives every outside change the watcher
 	// reported, once the window has dealt with it (tests).
 	outside func()
+	// watcherToUI, when set, replaces fyne.Do for the file watcher's calls
+	// (tests: Fyne's test driver runs fyne.Do at once on the calling
+	// goroutine, which would race with the test's own goroutine).
+	watcherToUI func(func())
 	// exported, when set, receives every finished export (tests).
 	exported func(uri fyne.URI, err error)
 	// folderShown, when set, receives the outcome of "Show the folder"

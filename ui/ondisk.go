@@ -83,6 +83,10 @@ func (u *App) watch() {
 	stop := make(chan struct{})
 	d.stopWatch = stop
 	path, epoch := d.path, d.epoch
+	toUI := fyne.Do
+	if u.watcherToUI != nil {
+		toUI = u.watcherToUI
+	}
 	go func() {
 		tick := time.NewTicker(every)
 		defer tick.Stop()
@@ -96,7 +100,7 @@ func (u *App) watch() {
 			if !ok || !changed {
 				continue
 			}
-			fyne.Do(func() { u.onOutsideChange(epoch, path, id) })
+			toUI(func() { u.onOutsideChange(epoch, path, id) })
 		}
 	}()
 }

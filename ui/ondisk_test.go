@@ -63,12 +63,14 @@ func fileYield(t *testing.T, path string) []float64 {
 }
 
 // watchNow makes the watcher of u look every few milliseconds and returns
-// a channel that receives once per outside change the window dealt with.
-func watchNow(u *App) chan struct{} {
-	ch := make(chan struct{}, 8)
-	u.outside = func() {
+// a channel of its calls to the window, which waitFor runs on the test's
+// goroutine, as the real driver runs them on the UI goroutine (Fyne's test
+// driver would run them on the watcher's goroutine, racing with the test).
+func watchNow(u *App) chan func() {
+	ch := make(chan func(), 8)
+	u.watcherToUI = func(f func()) {
 		select {
-		case ch <- struct{}{}:
+		case ch <- f:
 		default: // the watcher keeps reporting a lasting change; one is enough
 		}
 	}
@@ -78,10 +80,12 @@ func watchNow(u *App) chan struct{} {
 	return ch
 }
 
-func waitFor(t *testing.T, ch chan struct{}, what string) {
+// waitFor runs the watcher's first call to the window.
+func waitFor(t *testing.T, ch chan func(), what string) {
 	t.Helper()
 	select {
-	case <-ch:
+	case f := <-ch:
+		f()
 	case <-time.After(10 * time.Second):
 		t.Fatalf("%s: nothing within 10 s", what)
 	}
