@@ -198,13 +198,12 @@ func writeReport(ctx context.Context, w io.Writer, t *trial.Trial, keys []string
 	if progress != nil {
 		progress(steps, 2*steps)
 	}
-	opts.Ctx = ctx
 	opts.Progress = func(done, total int) {
 		if progress != nil && total > 0 {
 			progress(steps+done*steps/total, 2*steps)
 		}
 	}
-	return xlsx.WriteReport(w, t, results, opts)
+	return xlsx.WriteReport(ctx, w, t, results, opts)
 }
 
 // exportChart writes the means chart of the trait shown in Compare.

@@ -11,6 +11,7 @@ import (
 	"strings"
 	"syscall"
 	"testing"
+	"time"
 )
 
 // runMainEnv makes the test binary run the program itself (main's run) on
@@ -69,5 +70,26 @@ func TestAnalyzeMillionRowsPeakMemory(t *testing.T) {
 	t.Logf("peak RSS of furlong analyze on 1,000,000 rows: %.0f MB", mb)
 	if mb >= 500 {
 		t.Errorf("peak RSS %.0f MB, want under 500 MB", mb)
+	}
+
+	// Ctrl+C (SIGINT) while the table is being read: the command stops,
+	// says so and exits 1 (exit-status meanings: common practice).
+	stop := exec.Command(os.Args[0], "analyze", path, "--treatment", "treatment", "--block", "block", "--format", "csv")
+	stop.Env = append(os.Environ(), runMainEnv+"=1")
+	var stderr strings.Builder
+	stop.Stderr = &stderr
+	if err := stop.Start(); err != nil {
+		t.Fatal(err)
+	}
+	time.Sleep(300 * time.Millisecond)
+	stop.Process.Signal(os.Interrupt)
+	err = stop.Wait()
+	code := stop.ProcessState.ExitCode()
+	if code == 0 {
+		t.Logf("the analysis finished before the interrupt arrived")
+		return
+	}
+	if code != 1 || !strings.Contains(stderr.String(), "stopped before finishing") {
+		t.Errorf("after Ctrl+C: exit %d (%v), stderr %q", code, err, stderr.String())
 	}
 }

@@ -63,7 +63,7 @@ func benchReport(b *testing.B, nt, reps int) {
 	b.ResetTimer()
 	var peak uint64
 	for i := 0; i < b.N; i++ {
-		if err := WriteReport(io.Discard, t, res, ReportOptions{Charts: true, Version: "bench"}); err != nil {
+		if err := WriteReport(context.Background(), io.Discard, t, res, ReportOptions{Charts: true, Version: "bench"}); err != nil {
 			b.Fatal(err)
 		}
 		var ms runtime.MemStats

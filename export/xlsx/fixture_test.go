@@ -178,7 +178,7 @@ func barleyResults(tb testing.TB, _ *trial.Trial) []analysis.Outcome {
 func writeReport(tb testing.TB, t *trial.Trial, res []analysis.Outcome, opts ReportOptions) (*excelize.File, []byte) {
 	tb.Helper()
 	var buf bytes.Buffer
-	if err := WriteReport(&buf, t, res, opts); err != nil {
+	if err := WriteReport(context.Background(), &buf, t, res, opts); err != nil {
 		tb.Fatal(err)
 	}
 	f, err := excelize.OpenReader(bytes.NewReader(buf.Bytes()))

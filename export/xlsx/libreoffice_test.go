@@ -2,6 +2,7 @@ package xlsx
 
 import (
 	"bytes"
+	"context"
 	"encoding/csv"
 	"os"
 	"os/exec"
@@ -74,7 +75,7 @@ func TestLibreOffice(t *testing.T) {
 	res[0].Result.ANOVA.Sources[1].P = 1e-17 // shown as <0.001
 	dir := t.TempDir()
 	var buf bytes.Buffer
-	if err := WriteReport(&buf, tr, res, ReportOptions{Method: meansep.LSD, Charts: true, Version: "test"}); err != nil {
+	if err := WriteReport(context.Background(), &buf, tr, res, ReportOptions{Method: meansep.LSD, Charts: true, Version: "test"}); err != nil {
 		t.Fatal(err)
 	}
 	in := filepath.Join(dir, "report.xlsx")

@@ -38,8 +38,6 @@ type ReportOptions struct {
 	// Progress, when not nil, is called after each sheet with the sheets
 	// done and the total.
 	Progress func(done, total int)
-	// Ctx, when not nil, cancels the report between sheets.
-	Ctx context.Context
 }
 
 // Sheet names of the report, before any trait sheet.
@@ -66,8 +64,8 @@ type report struct {
 // WriteReport writes the season report of trial t as an xlsx workbook to w.
 // results holds the analysis of each reported trait; a trait whose result is
 // missing or carries an error gets a sheet saying why instead of failing the
-// report. It returns the context's error when cancelled.
-func WriteReport(w io.Writer, t *trial.Trial, results []analysis.Outcome, opts ReportOptions) error {
+// report. It stops between sheets when ctx is done and returns ctx's error.
+func WriteReport(ctx context.Context, w io.Writer, t *trial.Trial, results []analysis.Outcome, opts ReportOptions) error {
 	if opts.Method == "" {
 		opts.Method = meansep.Method(t.MeanSeparation())
 	}
@@ -77,7 +75,6 @@ func WriteReport(w io.Writer, t *trial.Trial, results []analysis.Outcome, opts R
 	if opts.Now.IsZero() {
 		opts.Now = time.Now()
 	}
-	ctx := opts.Ctx
 	if ctx == nil {
 		ctx = context.Background()
 	}

@@ -522,7 +522,7 @@ func TestReportProgressCancel(t *testing.T) {
 	}
 	ctx, cancel := context.WithCancel(context.Background())
 	var b strings.Builder
-	err := WriteReport(&b, tr, res, ReportOptions{Ctx: ctx, Progress: func(d, n int) {
+	err := WriteReport(ctx, &b, tr, res, ReportOptions{Progress: func(d, n int) {
 		if d == 2 {
 			cancel()
 		}

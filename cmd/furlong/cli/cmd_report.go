@@ -139,9 +139,9 @@ func runReport(ctx context.Context, o reportOptions) error {
 		return err
 	}
 	var buf bytes.Buffer
-	err = xlsx.WriteReport(&buf, t, results, xlsx.ReportOptions{
+	err = xlsx.WriteReport(ctx, &buf, t, results, xlsx.ReportOptions{
 		Method: m, Alpha: o.alpha, Traits: keys, Version: o.env.Version,
-		Charts: !o.noCharts, Paper: p, Ctx: ctx,
+		Charts: !o.noCharts, Paper: p,
 	})
 	if err != nil {
 		return err

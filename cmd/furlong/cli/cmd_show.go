@@ -206,6 +206,9 @@ func writeTextMap(ctx context.Context, w io.Writer, t *trial.Trial) error {
 			}
 			fmt.Fprintf(w, "  row %3d |", r)
 			for c := minC; c <= maxC; c++ {
+				if (c-minC)%1024 == 1023 && ctx.Err() != nil {
+					return ctx.Err()
+				}
 				p, ok := cell[[2]int{r, c}]
 				txt := ""
 				if ok {
