@@ -32,7 +32,7 @@ func TestExitCodes(t *testing.T) {
 		{[]string{"new", "-o", filepath.Join(dir, "x.furlong"), "--treatments", "3", "--reps", "2", "--plot-length", "abc"}, ExitUsage, `--plot-length must be a number, not "abc"`},
 		{[]string{"new", "--bogus"}, ExitUsage, "there is no flag --bogus"},
 		{[]string{"analyze", "x.csv", "--alpha"}, ExitUsage, "--alpha needs a value"},
-		{[]string{"new", "-o", filepath.Join(dir, "nofolder", "x.furlong"), "--treatments", "3", "--reps", "2", "--seed", "1"}, ExitFailure, "cannot find " + filepath.Join(dir, "nofolder")},
+		{[]string{"new", "-o", filepath.Join(dir, "nofolder", "x.furlong"), "--treatments", "3", "--reps", "2", "--seed", "1"}, ExitFailure, "cannot find the folder " + filepath.Join(dir, "nofolder")},
 	}
 	for _, c := range cases {
 		code, _, stderr := run(t, c.args...)

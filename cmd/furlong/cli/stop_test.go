@@ -4,8 +4,11 @@ import (
 	"bytes"
 	"context"
 	"errors"
+	"fmt"
+	"io/fs"
 	"path/filepath"
 	"strings"
+	"syscall"
 	"testing"
 	"time"
 
@@ -89,5 +92,28 @@ func TestRunUntilDoneForwardsAPanic(t *testing.T) {
 	}
 	if !strings.Contains(string(p.Stack), "TestRunUntilDoneForwardsAPanic") {
 		t.Errorf("the stack is not the command goroutine's:\n%s", p.Stack)
+	}
+}
+
+// File-system errors in plain words: a full disk says so and names the
+// folder, never a save's hidden temporary file (error numbers from the Go
+// standard library's syscall package).
+func TestMessageOfFileErrors(t *testing.T) {
+	t.Parallel()
+	tmp := filepath.Join("fields", ".fl-5bce-26052-29442fa9.tmp")
+	cases := []struct {
+		err       error
+		want, not string
+	}{
+		{&fs.PathError{Op: "write", Path: tmp, Err: syscall.ENOSPC}, "the disk is full: there is no space left to write in fields", ".fl-"},
+		{fmt.Errorf("saving: %w", &fs.PathError{Op: "open", Path: tmp, Err: syscall.EACCES}), "not allowed to use the folder fields", ".fl-"},
+		{&fs.PathError{Op: "open", Path: filepath.Join("fields", "t.furlong"), Err: syscall.ENOENT}, "cannot find " + filepath.Join("fields", "t.furlong"), "no such"},
+		{&fs.PathError{Op: "rename", Path: tmp, Err: syscall.EROFS}, "fields is on a read-only disk", ".fl-"},
+	}
+	for _, c := range cases {
+		got := Message(c.err)
+		if !strings.Contains(got, c.want) || strings.Contains(got, c.not) {
+			t.Errorf("%v: %q, want %q without %q", c.err, got, c.want, c.not)
+		}
 	}
 }
