@@ -65,8 +65,8 @@ at() { xdotool mousemove --window "$WID" "$1" "$2" click 1; sleep 0.4; }
 typed() { xdotool type --delay 80 "$1"; sleep 0.3; }
 key() { xdotool key "$1"; sleep 0.4; }
 # Grid cells in the first-run window: column ht at x=610, yld at x=705;
-# plot rows from y=163, one every 39 pixels (row r at 163+39r).
-cell() { at "$1" $((163 + 39 * $2)); }
+# plot rows centred from y=152, one every 36.1 pixels (row r at 152+36.1r).
+cell() { at "$1" $((152 + 361 * $2 / 10)); }
 HT=610; YLD=705
 at 100 260                 # the Record step's card
 cell $HT 0; typed 55; key Return               # plot row 0: 55, Enter moves to row 1
