@@ -95,6 +95,9 @@ func check(t *trial.Trial) *problem {
 		return &problem{"trial.analysis.mean_separation", errorf(ErrWrongType, "%s", msg)}
 	}
 	l := t.Layout
+	if n := l.Orientation.North; n != "" && !n.Valid() {
+		return &problem{"trial.layout.north", errorf(ErrWrongType, "the map edge facing north is %q; use top, right, bottom or left, or leave it out", string(n))}
+	}
 	for _, f := range []struct {
 		name string
 		v    float64

@@ -171,6 +171,7 @@ func fromV1(ft *trialV1) (*trial.Trial, *fieldError) {
 			Blocks:        trial.BlockArrangement(ft.Layout.Blocks),
 			Numbering:     trial.Numbering(ft.Layout.Numbering),
 			Walk:          trial.Walk(ft.Layout.Walk),
+			Orientation:   trial.Orientation{North: trial.Edge(ft.Layout.North), Landmark: ft.Layout.Landmark},
 		},
 		Random: trial.Randomization{
 			Method: ft.Randomization.Method,

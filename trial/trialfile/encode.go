@@ -80,6 +80,8 @@ func toV1(t *trial.Trial) (*trialV1, error) {
 			Blocks:        string(t.Layout.Blocks),
 			Numbering:     string(t.Layout.Numbering),
 			Walk:          string(t.Layout.Walk),
+			North:         string(t.Layout.Orientation.North),
+			Landmark:      t.Layout.Orientation.Landmark,
 		},
 		Randomization: randomV1{
 			Seed:   json.RawMessage(strconv.Quote(strconv.FormatUint(t.Random.Seed, 10))),

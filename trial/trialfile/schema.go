@@ -69,6 +69,11 @@ type layoutV1 struct {
 	Blocks        string  `json:"blocks"`
 	Numbering     string  `json:"numbering"`
 	Walk          string  `json:"walk"`
+	// North and Landmark (optional, any version) tie the map to the
+	// ground: the map edge facing north ("top", "right", "bottom",
+	// "left") and what lies along the row-1 edge. Absent when not given.
+	North    string `json:"north,omitempty"`
+	Landmark string `json:"landmark,omitempty"`
 }
 
 type randomV1 struct {

@@ -1,7 +1,10 @@
 // Package fieldmap is a Fyne widget that draws a trial's field plan: one
 // rectangle per plot at its field row and column, labelled with the plot
 // number and treatment code, coloured from the Okabe–Ito palette, with the
-// blocks outlined. Hovering or tapping a plot reports it to the caller.
+// blocks outlined. Row 1 is at the bottom and column 1 at the left, as on
+// the printed map, the heat maps and the workbook; a north arrow and a
+// landmark along the bottom edge tie it to the ground when the caller
+// gives them. Hovering or tapping a plot reports it to the caller.
 //
 // The widget knows nothing of trials: the caller passes plain Plot values.
 package fieldmap
@@ -62,7 +65,41 @@ type Map struct {
 	at       map[[2]int]int // (row, col) → plot index
 	hover    int
 	selected int
+
+	north    string // "top", "right", "bottom", "left" or ""
+	landmark string
 }
+
+// SetOrientation sets the north arrow (the map edge that faces north:
+// "top", "right", "bottom" or "left"; anything else draws none) and the
+// landmark written along the bottom edge, row 1 ("" for none).
+func (m *Map) SetOrientation(north, landmark string) {
+	switch north {
+	case "top", "right", "bottom", "left":
+	default:
+		north = ""
+	}
+	if m.north == north && m.landmark == landmark {
+		return
+	}
+	m.north, m.landmark = north, landmark
+	m.Refresh()
+}
+
+// margins are the room kept beside the grid: at the right for the north
+// arrow, below it for the landmark.
+func (m *Map) margins() (right, bottom float32) {
+	if m.north != "" {
+		right = arrowRoom
+	}
+	if m.landmark != "" {
+		bottom = theme.TextSize() * 1.6
+	}
+	return right, bottom
+}
+
+// arrowRoom is the width kept at the right of the grid for the north arrow.
+const arrowRoom = 40
 
 var (
 	_ fyne.Widget       = (*Map)(nil)
@@ -111,6 +148,8 @@ func (m *Map) geometry(s fyne.Size) (cw, ch float32, origin fyne.Position) {
 	if m.rows == 0 || m.cols == 0 {
 		return 0, 0, fyne.Position{}
 	}
+	right, bottom := m.margins()
+	s = fyne.NewSize(max(1, s.Width-right), max(1, s.Height-bottom))
 	cw = s.Width / float32(m.cols)
 	ch = s.Height / float32(m.rows)
 	// Plots are longer than wide on most maps; keep the aspect within 1:3.
@@ -131,8 +170,8 @@ func (m *Map) PlotAt(p fyne.Position) int {
 		return -1
 	}
 	c := int((p.X-o.X)/cw) + 1
-	r := int((p.Y-o.Y)/ch) + 1
-	if p.X < o.X || p.Y < o.Y || c > m.cols || r > m.rows {
+	r := m.rows - int((p.Y-o.Y)/ch) // row 1 at the bottom
+	if p.X < o.X || p.Y < o.Y || c > m.cols || r < 1 {
 		return -1
 	}
 	if i, ok := m.at[[2]int{r, c}]; ok {
@@ -196,6 +235,9 @@ type renderer struct {
 	codes   []*canvas.Text
 	blocks  []*canvas.Rectangle
 	mark    *canvas.Rectangle
+	arrow   []*canvas.Line // shaft and the two sides of the head
+	arrowN  *canvas.Text
+	lm      *canvas.Text
 	objects []fyne.CanvasObject
 }
 
@@ -229,6 +271,14 @@ func (r *renderer) Refresh() {
 		b.StrokeColor = fg
 	}
 	r.mark.StrokeColor = theme.Color(theme.ColorNamePrimary)
+	for _, l := range r.arrow {
+		l.StrokeColor = fg
+	}
+	r.arrowN.Color, r.lm.Color = fg, fg
+	r.lm.Text = ""
+	if m.landmark != "" {
+		r.lm.Text = "Row 1 edge: " + m.landmark
+	}
 	r.Layout(m.Size())
 	canvas.Refresh(m)
 }
@@ -273,14 +323,78 @@ func (r *renderer) build() {
 	r.mark = canvas.NewRectangle(color.Transparent)
 	r.mark.StrokeWidth = 3
 	r.objects = append(r.objects, r.mark)
+	r.arrow = nil
+	for range 3 {
+		l := canvas.NewLine(color.Black)
+		l.StrokeWidth = 2
+		r.arrow = append(r.arrow, l)
+		r.objects = append(r.objects, l)
+	}
+	r.arrowN = canvas.NewText("N", nil)
+	r.arrowN.TextStyle = fyne.TextStyle{Bold: true}
+	r.arrowN.Alignment = fyne.TextAlignCenter
+	r.lm = canvas.NewText("", nil)
+	r.lm.Alignment = fyne.TextAlignCenter
+	r.objects = append(r.objects, r.arrowN, r.lm)
+}
+
+// layoutArrow draws the north arrow at the right of the grid, pointing to
+// the map edge that faces north, with an N at its tip.
+func (r *renderer) layoutArrow(s fyne.Size, top float32) {
+	north := r.m.north
+	hidden := north == ""
+	for _, l := range r.arrow {
+		l.Hidden = hidden
+	}
+	r.arrowN.Hidden = hidden
+	if hidden {
+		return
+	}
+	ts := theme.TextSize()
+	cx := s.Width - arrowRoom/2
+	cy := top + ts*1.5 + arrowRoom/2
+	half := float32(arrowRoom)/2 - 4
+	var ux, uy float32 // towards north, screen y down
+	switch north {
+	case "top":
+		uy = -1
+	case "bottom":
+		uy = 1
+	case "right":
+		ux = 1
+	case "left":
+		ux = -1
+	}
+	at := func(along, across float32) fyne.Position {
+		return fyne.NewPos(cx+along*ux-across*uy, cy+along*uy+across*ux)
+	}
+	tip := at(half, 0)
+	set := func(l *canvas.Line, a, b fyne.Position) { l.Position1, l.Position2 = a, b }
+	set(r.arrow[0], at(-half, 0), tip)
+	set(r.arrow[1], tip, at(half*0.45, half*0.45))
+	set(r.arrow[2], tip, at(half*0.45, -half*0.45))
+	// The N beyond the tip (above it for an arrow pointing up).
+	n := at(half+ts*0.8, 0)
+	r.arrowN.TextSize = ts
+	r.arrowN.Resize(fyne.NewSize(ts*1.5, ts*1.3))
+	r.arrowN.Move(fyne.NewPos(n.X-ts*0.75, n.Y-ts*0.65))
 }
 
 // Layout places every plot, label and block outline.
 func (r *renderer) Layout(s fyne.Size) {
 	m := r.m
 	cw, ch, o := m.geometry(s)
+	// Row 1 at the bottom: row r's top edge is rows − r cells down.
 	cellPos := func(p Plot) fyne.Position {
-		return fyne.NewPos(o.X+float32(p.Column-1)*cw, o.Y+float32(p.Row-1)*ch)
+		return fyne.NewPos(o.X+float32(p.Column-1)*cw, o.Y+float32(m.rows-p.Row)*ch)
+	}
+	r.layoutArrow(s, o.Y)
+	r.lm.Hidden = r.lm.Text == ""
+	if !r.lm.Hidden {
+		ts := theme.TextSize()
+		r.lm.TextSize = ts
+		r.lm.Move(fyne.NewPos(o.X, o.Y+float32(m.rows)*ch+ts*0.2))
+		r.lm.Resize(fyne.NewSize(cw*float32(m.cols), ts*1.3))
 	}
 	textSize := min(ch/3.2, cw/3.2, theme.TextSize())
 	showText := textSize >= 7
@@ -317,7 +431,7 @@ func (r *renderer) Layout(s fyne.Size) {
 			break
 		}
 		b := boxes[k]
-		r.blocks[i].Move(fyne.NewPos(o.X+float32(b.c0-1)*cw, o.Y+float32(b.r0-1)*ch))
+		r.blocks[i].Move(fyne.NewPos(o.X+float32(b.c0-1)*cw, o.Y+float32(m.rows-b.r1)*ch))
 		r.blocks[i].Resize(fyne.NewSize(float32(b.c1-b.c0+1)*cw, float32(b.r1-b.r0+1)*ch))
 	}
 	mark := m.hover
