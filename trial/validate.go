@@ -209,6 +209,9 @@ func (p *problems) checkArrangement(l Layout) {
 }
 
 func (p *problems) checkLayout(l Layout) {
+	if n := l.Orientation.North; n != "" && !n.Valid() {
+		p.add("Layout.Orientation.North", "the map edge facing north must be top, right, bottom or left, not %q", string(n))
+	}
 	positive := func(field, what string, v float64) {
 		if !(v > 0) || math.IsInf(v, 0) {
 			p.add(field, "the %s must be more than 0 m, not %g m", what, v)

@@ -37,6 +37,7 @@ type fieldStep struct {
 	colorBy                                           *widget.RadioGroup
 
 	fmap    *fieldmap.Map
+	orient  *orientationBox // north and landmark (fieldorient.go)
 	details *widget.Label
 
 	// Lengths are shown in unit ("m" or "ft"); perUnit metres make one.
@@ -122,8 +123,9 @@ func newFieldStep(u *App) *fieldStep {
 	f.layoutMsg = widget.NewLabel("")
 	f.layoutMsg.Wrapping = fyne.TextWrapWord
 	f.layoutMsg.Importance = widget.SuccessImportance
+	f.orient = newOrientationBox(u)
 	left := container.NewVScroll(container.NewVBox(heading("Plots and arrangement"), geom, perRowHelp, choices, applyLayout, f.layoutMsg,
-		widget.NewSeparator(), randomBox, widget.NewSeparator(), exports))
+		widget.NewSeparator(), f.orient.root, widget.NewSeparator(), randomBox, widget.NewSeparator(), exports))
 
 	f.fmap = fieldmap.New()
 	f.fmap.OnHover = func(i int) {
@@ -235,6 +237,8 @@ func (f *fieldStep) loadMap() {
 		plots[i] = fieldmap.Plot{Row: p.Row, Column: p.Column, Number: p.Number, Code: p.Treatment, Block: p.Block, Group: g, Excluded: ex}
 	}
 	f.fmap.SetPlots(plots)
+	f.fmap.SetOrientation(northName(t.Layout.Orientation.North), t.Layout.Orientation.Landmark)
+	f.orient.load(t)
 }
 
 // showDetails shows plot i in the side panel.
