@@ -603,6 +603,12 @@ func (u *App) onClose() {
 // discard button ("Quit" gives "Quit without saving"). While the question
 // is open a second request (Ctrl+Q again) is ignored rather than stacked.
 func (u *App) askUnsaved(action string, then func()) {
+	if u.doc.path != "" && !u.doc.conflict {
+		// Only the autosave is pending: write it now (checked like every
+		// save; a refusal shows what to do and then does not run).
+		u.saveTo(u.doc.path, then)
+		return
+	}
 	if u.unsavedAsk != nil && slices.Contains(u.win.Canvas().Overlays().List(), u.unsavedAsk) {
 		return
 	}

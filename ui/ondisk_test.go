@@ -424,3 +424,30 @@ func TestRecoveryRestoreConflict(t *testing.T) {
 		t.Fatalf("restored %v", got)
 	}
 }
+
+// Closing a trial that has a file while its autosave is still pending
+// writes it and asks nothing; with the file changed on disk it asks.
+func TestCloseWritesPendingAutosave(t *testing.T) {
+	u, w := newTestApp(t, 0)
+	path := savedTrial(t, u)
+	typeValue(t, u, 0, "4.5")
+	u.closeTrial()
+	if u.doc != nil || w.Canvas().Overlays().Top() != nil {
+		t.Fatal("closing asked although the edit could simply be saved")
+	}
+	if v := fileYield(t, path); v[0] != 4.5 {
+		t.Fatalf("file holds %v", v[0])
+	}
+	if err := u.OpenFile(path); err != nil {
+		t.Fatal(err)
+	}
+	outsideWrite(t, path, map[int]float64{0: 6})
+	typeValue(t, u, 0, "5")
+	u.closeTrial()
+	if u.doc == nil || w.Canvas().Overlays().Top() == nil {
+		t.Fatal("closed over a changed file without asking")
+	}
+	if v := fileYield(t, path); v[0] != 6 {
+		t.Fatalf("file holds %v", v[0])
+	}
+}
