@@ -5,6 +5,7 @@ import (
 	"math"
 	"strings"
 
+	"furlong/stats/dist"
 	"furlong/stats/meansep"
 )
 
@@ -182,13 +183,13 @@ func compare(fam *family, idx []int, means []Mean, hasTest bool, pTest, alpha fl
 	}
 	c.TukeyDF = tdf
 	opt := meansep.LetterOptions{LowerIsBetter: lowerBetter}
-	tab := rangeTable(k, tdf)
+	tab := dist.CachedSurvivalTable(k, tdf)
 	for n := range c.Pairs {
 		c.Pairs[n].PTukey = tukeyP(tab, c.Pairs[n].T)
 	}
 	if c.EqualSED {
 		c.LSD = tQuantile(1-alpha/2, c.DF) * c.SED
-		c.HSD = rangeQuantile(tab, alpha) * c.SED / math.Sqrt2
+		c.HSD = tab.Quantile(1-alpha) * c.SED / math.Sqrt2
 	}
 	sigT := func(i, j int) bool {
 		if i > j {

@@ -1,9 +1,6 @@
 package meansep
 
 import (
-	"math"
-	"sync"
-
 	"furlong/stats/dist"
 )
 
@@ -31,68 +28,6 @@ func studentizedRange(k, df, n int) rangeDist {
 		d := dist.StudentizedRange{K: float64(k), Nu: float64(df)}
 		return rangeDist{survival: d.Survival, quantile: d.Quantile}
 	}
-	t := cachedTable(k, df)
-	return rangeDist{survival: t.Survival, quantile: func(p float64) float64 { return invertSurvival(t.Survival, 1-p) }}
-}
-
-// invertSurvival returns q with s(q) = a for a decreasing survival
-// function s, by bisection.
-func invertSurvival(s func(float64) float64, a float64) float64 {
-	lo, hi := 0.0, 1.0
-	for s(hi) > a {
-		lo, hi = hi, 2*hi
-		if math.IsInf(hi, 0) {
-			return hi
-		}
-	}
-	for range 200 {
-		mid := (lo + hi) / 2
-		if mid <= lo || mid >= hi || hi-lo <= 1e-15*hi {
-			break
-		}
-		if s(mid) > a {
-			lo = mid
-		} else {
-			hi = mid
-		}
-	}
-	return (lo + hi) / 2
-}
-
-// tableCache keeps the survival tables of the last few (k, df) pairs: a
-// trial analysed again after an edit, or several traits with the same
-// missing plots, reuse the table instead of building it again (about half
-// the time of a 300-entry comparison). Tables are immutable and safe to
-// share between goroutines.
-var tableCache struct {
-	sync.Mutex
-	keys   [][2]int // most recent last
-	tables map[[2]int]*dist.SurvivalTable
-}
-
-const tableCacheSize = 16
-
-func cachedTable(k, df int) *dist.SurvivalTable {
-	key := [2]int{k, df}
-	tableCache.Lock()
-	t, ok := tableCache.tables[key]
-	tableCache.Unlock()
-	if ok {
-		return t
-	}
-	t = dist.NewSurvivalTable(float64(k), float64(df)) // outside the lock: builds may run in parallel
-	tableCache.Lock()
-	defer tableCache.Unlock()
-	if tableCache.tables == nil {
-		tableCache.tables = map[[2]int]*dist.SurvivalTable{}
-	}
-	if _, ok := tableCache.tables[key]; !ok {
-		if len(tableCache.keys) == tableCacheSize {
-			delete(tableCache.tables, tableCache.keys[0])
-			tableCache.keys = tableCache.keys[1:]
-		}
-		tableCache.keys = append(tableCache.keys, key)
-	}
-	tableCache.tables[key] = t
-	return t
+	t := dist.CachedSurvivalTable(k, df)
+	return rangeDist{survival: t.Survival, quantile: t.Quantile}
 }
