@@ -65,17 +65,8 @@ func CompareWithCheck(r *Result, check string) (*CheckComparison, error) {
 	if a == nil || a.DFError < 1 || !(a.MSE > 0) {
 		return nil, &Error{Trait: r.TraitKey, Msg: "the comparisons with the check need an error mean square with at least one degree of freedom"}
 	}
-	// SEDs by treatment index (0 where a pair is missing).
 	nt := len(r.Means)
-	index := make(map[string]int, nt)
-	for i, m := range r.Means {
-		index[m.Treatment] = i
-	}
-	sedAt := make([]float64, nt*nt)
-	for _, p := range r.Pairs {
-		a, b := index[p.A], index[p.B]
-		sedAt[a*nt+b], sedAt[b*nt+a] = p.SE, p.SE
-	}
+	sedAt := r.SEDMatrix()
 	var others []int
 	for i := range r.Means {
 		if i != ci {

@@ -381,11 +381,7 @@ func meansCovariance(res *analysis.Result, s responseSeries, order []int) ([]flo
 	if a == nil || !(a.MSE > 0) {
 		return nil, errors.New("The trends need an error mean square, and this analysis has none.")
 	}
-	sed := map[[2]string]float64{}
-	for _, p := range res.Pairs {
-		sed[[2]string{p.A, p.B}] = p.SE
-		sed[[2]string{p.B, p.A}] = p.SE
-	}
+	sed, nt := res.SEDMatrix(), len(res.Means)
 	n := len(order)
 	cov := make([]float64, n*n)
 	for a1, i := range order {
@@ -393,8 +389,8 @@ func meansCovariance(res *analysis.Result, s responseSeries, order []int) ([]flo
 		cov[a1*n+a1] = mi.SE * mi.SE / a.MSE
 		for b1 := a1 + 1; b1 < n; b1++ {
 			mj := res.Means[s.idx[order[b1]]]
-			d, ok := sed[[2]string{mi.Treatment, mj.Treatment}]
-			if !ok {
+			d := sed[s.idx[i]*nt+s.idx[order[b1]]]
+			if !(d > 0) {
 				return nil, fmt.Errorf("The analysis has no comparison of %s and %s, so the trends cannot be computed.", mi.Treatment, mj.Treatment)
 			}
 			v := (mi.SE*mi.SE + mj.SE*mj.SE - d*d) / (2 * a.MSE)
