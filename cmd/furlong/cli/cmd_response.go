@@ -150,7 +150,7 @@ func runResponse(ctx context.Context, o responseOptions) error {
 	}
 	var out []responseJSON
 	var err error
-	if strings.EqualFold(pathExt(o.Path), ".csv") || strings.EqualFold(pathExt(o.Path), ".txt") {
+	if isCSV(o.Path) {
 		out, err = responseCSV(ctx, o)
 	} else {
 		out, err = responseTrial(ctx, o)
@@ -170,13 +170,6 @@ func runResponse(ctx context.Context, o responseOptions) error {
 		writeResponseText(o.Out, r)
 	}
 	return nil
-}
-
-func pathExt(p string) string {
-	if i := strings.LastIndexByte(p, '.'); i >= 0 && !strings.ContainsAny(p[i:], `/\`) {
-		return p[i:]
-	}
-	return ""
 }
 
 // responseSeries is one trait's treatment means at their rates.
