@@ -36,6 +36,10 @@ type traitForm struct {
 	key, name, unit, minE, maxE, dec *widget.Entry
 	kind                             *widget.Select
 	higher                           *widget.Check
+	// transform is the scale the trait is analysed on (transformLabels);
+	// pctCheck whether its means are shown as percent of the check
+	// (pctCheckLabels: the default, yes or no).
+	transform, pctCheck *widget.Select
 
 	// Settings of a derived (adjusted-yield) trait, shown only for one.
 	derivedBox       *fyne.Container
@@ -94,6 +98,10 @@ func (s *traitsTab) build() fyne.CanvasObject {
 	f.dec.SetText("1")
 	f.higher = widget.NewCheck("Higher values are better", nil)
 	f.higher.SetChecked(true)
+	f.transform = widget.NewSelect(transformLabels, nil)
+	f.transform.SetSelectedIndex(0)
+	f.pctCheck = widget.NewSelect(pctCheckLabels, nil)
+	f.pctCheck.SetSelectedIndex(0)
 
 	f.derivedFrom = widget.NewLabel("")
 	f.derivedFrom.Wrapping = fyne.TextWrapWord
@@ -152,8 +160,9 @@ func (s *traitsTab) build() fyne.CanvasObject {
 		widget.NewFormItem("Key", f.key), widget.NewFormItem("Name", f.name), widget.NewFormItem("Unit", f.unit),
 		widget.NewFormItem("Kind", f.kind), widget.NewFormItem("Valid from", f.minE), widget.NewFormItem("Valid to", f.maxE),
 		widget.NewFormItem("Decimals", f.dec), widget.NewFormItem("", f.higher),
+		widget.NewFormItem("Analysed as", f.transform), widget.NewFormItem("Percent of check", f.pctCheck),
 	)
-	help := widget.NewLabel("Select a trait to change it; values outside the valid range are kept and flagged in Record. Adjusted yield is computed from plot weight and grain moisture.")
+	help := widget.NewLabel("Select a trait to change it; values outside the valid range are kept and flagged in Record. Adjusted yield is computed from plot weight and grain moisture. " + transformHelp)
 	help.Wrapping = fyne.TextWrapWord
 	help.Importance = widget.LowImportance
 	right := container.NewVBox(form, f.derivedBox, f.msg,
@@ -179,6 +188,8 @@ func (s *traitsTab) loadTraitForm(tr *trial.Trait) {
 		f.maxE.SetText("")
 		f.dec.SetText("1")
 		f.higher.SetChecked(true)
+		f.transform.SetSelectedIndex(0)
+		f.pctCheck.SetSelectedIndex(0)
 		f.derivedBox.Hide()
 		f.apply.Disable()
 		f.remove.Disable()
@@ -194,6 +205,8 @@ func (s *traitsTab) loadTraitForm(tr *trial.Trait) {
 	f.maxE.SetText(boundText(tr.Max))
 	f.dec.SetText(strconv.Itoa(tr.Decimals))
 	f.higher.SetChecked(tr.HigherBetter)
+	f.transform.SetSelectedIndex(max(slices.Index(transformValues, tr.Transform), 0))
+	f.pctCheck.SetSelectedIndex(pctCheckIndex(tr.PercentOfCheck))
 	f.apply.Enable()
 	f.remove.Enable()
 	if d := tr.Derived; d != nil {
@@ -260,6 +273,8 @@ func (s *traitsTab) traitFromForm(base trial.Trait) (trial.Trait, error) {
 	}
 	tr.Decimals = d
 	tr.HigherBetter = f.higher.Checked
+	tr.Transform = transformValues[max(f.transform.SelectedIndex(), 0)]
+	tr.PercentOfCheck = pctCheckValue(f.pctCheck.SelectedIndex())
 	if base.Derived == nil {
 		tr.Kind = kindValues[max(f.kind.SelectedIndex(), 0)]
 		return tr, errors.Join(errs...)
@@ -340,4 +355,42 @@ func (s *traitsTab) t() *trial.Trial { return s.u.doc.t }
 // structural applies a change as one undoable edit (see App.structuralEdit).
 func (s *traitsTab) structural(action string, f func(t *trial.Trial) error) bool {
 	return s.u.structuralEdit(editLabel(action), action, f)
+}
+
+// The transformations a trait can be analysed under, as the Traits tab
+// offers them (trial.TransformProblem says which apply to which kind).
+var (
+	transformLabels = []string{"values as recorded", "log (natural logarithm)", "square root", "arcsine of the square root (percentages)"}
+	transformValues = []string{trial.TransformNone, trial.TransformLog, trial.TransformSqrt, trial.TransformArcsine}
+)
+
+// transformHelp says what the transformations are for, under the form.
+const transformHelp = "A transformation is for a trait whose spread grows with its mean: log for such measurements, square root for counts, arcsine for percentages; means are then shown back on the recorded scale with their confidence limits."
+
+// The choices of showing a trait's means as percent of the check: by
+// default only the trial's yield is shown so (trial.ShowsPercentOfCheck).
+var pctCheckLabels = []string{"for the trial's yield only (default)", "shown", "not shown"}
+
+// pctCheckIndex is the choice of pctCheckLabels for a trait's setting.
+func pctCheckIndex(p *bool) int {
+	switch {
+	case p == nil:
+		return 0
+	case *p:
+		return 1
+	}
+	return 2
+}
+
+// pctCheckValue is the trait setting for choice i of pctCheckLabels.
+func pctCheckValue(i int) *bool {
+	switch i {
+	case 1:
+		yes := true
+		return &yes
+	case 2:
+		no := false
+		return &no
+	}
+	return nil
 }

@@ -135,3 +135,71 @@ func TestEditDerivedYield(t *testing.T) {
 		t.Fatal("undo did not restore the standard moisture")
 	}
 }
+
+// The Traits tab sets a trait's transformation and its percent-of-check
+// choice (trial.Trait.Transform, PercentOfCheck), one undoable edit each
+// time; the window's analysis then runs on the chosen scale. Reference:
+// in a balanced RCBD the least-squares means are the treatment averages
+// of the analysed values, here of √y (by hand, in the test), and the
+// square root is undone by squaring (no zero counts, so no offset).
+func TestTraitTransformAndPercentOfCheck(t *testing.T) {
+	u, _ := newTestApp(t, 0)
+	tr := smallTrial(t)
+	for i, p := range tr.Plots {
+		tr.Traits[1].Values[i] = float64(300 + 17*i + 40*int(p.Treatment[0]-'A'))
+	}
+	u.OpenTrial(tr, "")
+	u.showStep(stepSetup)
+	s := u.steps[stepSetup].(*setupStep)
+	f := s.tf
+	s.traitList.Select(1)
+	if f.transform.SelectedIndex() != 0 || f.pctCheck.SelectedIndex() != 0 {
+		t.Fatalf("a trait with no settings shows transform %q, percent of check %q", f.transform.Selected, f.pctCheck.Selected)
+	}
+	// The arcsine is for percentages: refused for a count, nothing changes.
+	f.transform.SetSelectedIndex(3)
+	test.Tap(f.apply)
+	if f.msg.Importance != widget.DangerImportance || !strings.Contains(f.msg.Text, "percent") || u.doc.t.Traits[1].Transform != "" {
+		t.Fatalf("arcsine of a count: message %q, transform %q", f.msg.Text, u.doc.t.Traits[1].Transform)
+	}
+	f.transform.SetSelectedIndex(2)
+	f.pctCheck.SetSelectedIndex(1)
+	test.Tap(f.apply)
+	got := u.doc.t.Traits[1]
+	if got.Transform != trial.TransformSqrt || got.PercentOfCheck == nil || !*got.PercentOfCheck {
+		t.Fatalf("after the change: transform %q, percent of check %v (%s)", got.Transform, got.PercentOfCheck, f.msg.Text)
+	}
+	set := pumpAnalysis(t, u, func() { u.showStep(stepCompare) })
+	res := set.result("heads")
+	if res == nil || res.res == nil {
+		t.Fatalf("heads not analysed: %+v", res)
+	}
+	r := res.res
+	if r.Transform != trial.TransformSqrt || r.CheckMean == nil {
+		t.Fatalf("analysed with transform %q, check mean %v", r.Transform, r.CheckMean)
+	}
+	for _, m := range r.Means {
+		var sum float64
+		n := 0
+		for i, p := range u.doc.t.Plots {
+			if p.Treatment == m.Treatment {
+				sum += math.Sqrt(u.doc.t.Traits[1].Values[i])
+				n++
+			}
+		}
+		if want := sum / float64(n); math.Abs(m.Mean-want) > 1e-9*want {
+			t.Errorf("%s: mean on the square-root scale %v, want %v", m.Treatment, m.Mean, want)
+		}
+		if math.Abs(m.BackMean-m.Mean*m.Mean) > 1e-9*m.BackMean {
+			t.Errorf("%s: back-transformed mean %v, want %v squared", m.Treatment, m.BackMean, m.Mean)
+		}
+		if m.PercentOfCheck == nil {
+			t.Errorf("%s: no percent of check although chosen", m.Treatment)
+		}
+	}
+	u.showStep(stepSetup)
+	u.undo()
+	if got := u.doc.t.Traits[1]; got.Transform != "" || got.PercentOfCheck != nil {
+		t.Fatalf("undo left transform %q, percent of check %v", got.Transform, got.PercentOfCheck)
+	}
+}
