@@ -51,7 +51,15 @@ type compareStep struct {
 
 	shown         *resultSet
 	shownDecimals int
-	root          fyne.CanvasObject
+	// limits: the means table shows the back-transformed confidence
+	// limits of each mean instead of its SE (a transformed trait), in a
+	// column limitsWidth wide; limitsLevel is their level (1 − alpha).
+	limits      bool
+	limitsWidth float32
+	limitsLevel float64
+	// views are the further views beside "This trait" (compare_views.go).
+	views []compareView
+	root  fyne.CanvasObject
 }
 
 func newCompareStep(u *App) *compareStep {
@@ -104,7 +112,7 @@ func newCompareStep(u *App) *compareStep {
 	// The table's rows are as tall as its header cells: both compact.
 	c.means.CreateHeader = func() fyne.CanvasObject { return compactCell("", true) }
 	c.means.UpdateHeader = func(id widget.TableCellID, o fyne.CanvasObject) {
-		setCompact(o, []string{"Treatment", "Plots", "Mean", "SE", "Letters"}[id.Col])
+		setCompact(o, c.meansHeader(id.Col))
 	}
 	for i, w := range meansColumns {
 		c.means.SetColumnWidth(i, w)
@@ -151,6 +159,10 @@ func newCompareStep(u *App) *compareStep {
 		container.NewTabItem("This trait", detail),
 		container.NewTabItem("All traits", c.summary),
 	)
+	c.views = c.newViews()
+	for _, v := range c.views {
+		tabs.Append(v.tab())
+	}
 	c.root = container.NewBorder(controls, caution, nil, nil, tabs)
 	u.compute.onResults = append(u.compute.onResults, c.show)
 	c.refresh(changeAll)
@@ -246,17 +258,10 @@ func (c *compareStep) show(s *resultSet) {
 	c.anova.Objects = nil
 	c.statsBox.Objects = nil
 	c.meanRows = nil
-	switch {
-	case len(s.snap.Traits) == 0:
-		c.warnings.SetText("The trial has no traits yet. Add them in Setup and record data in Record; the analysis appears here.")
-	case len(s.snap.Plots) == 0:
-		c.warnings.SetText("The trial is not laid out yet. Randomise it in Field and record data; the analysis appears here.")
-	case tr == nil:
-		c.warnings.SetText("Computing…")
-	case tr.err != nil:
-		m := explain("This trait cannot be analysed yet", tr.err)
-		c.warnings.SetText(m.What + " " + m.Do)
-	default:
+	c.limits = false
+	if msg := resultProblem(s, tr); msg != "" {
+		c.warnings.SetText(msg)
+	} else {
 		c.showResult(tr.res)
 	}
 	c.anova.Refresh()
@@ -275,6 +280,28 @@ func (c *compareStep) show(s *resultSet) {
 		c.summaryWidths()
 		c.summary.Refresh()
 	}
+	for _, v := range c.views {
+		v.show(s, tr)
+	}
+}
+
+// resultProblem says, in words for the screen, why round s has no result
+// to show for tr ("" when tr holds one).
+func resultProblem(s *resultSet, tr *traitResult) string {
+	switch {
+	case len(s.snap.Traits) == 0:
+		return "The trial has no traits yet. Add them in Setup and record data in Record; the analysis appears here."
+	case len(s.snap.Plots) == 0:
+		return "The trial is not laid out yet. Randomise it in Field and record data; the analysis appears here."
+	case tr == nil:
+		return "Computing…"
+	case tr.err != nil:
+		m := explain("This trait cannot be analysed yet", tr.err)
+		return m.What + " " + m.Do
+	case tr.res == nil:
+		return "Computing…"
+	}
+	return ""
 }
 
 func (c *compareStep) showResult(r *analysis.Result) {
@@ -300,7 +327,12 @@ func (c *compareStep) showResult(r *analysis.Result) {
 		}
 		a := r.ANOVA
 		add := func(k, v string) { c.statsBox.Add(cell(k, false)); c.statsBox.Add(cell(v, true)) }
-		add("Grand mean", fixed(a.GrandMean, analysis.MeanDecimals(r.Decimals))+" "+r.Unit)
+		// The grand mean and the LSD are on the scale analysed.
+		dec, unit := analysis.MeanDecimals(r.Decimals), r.Unit
+		if r.Transform != stats.NoTransform {
+			dec, unit = analysis.TransformedDecimals, "("+r.Transform.Scale()+" scale)"
+		}
+		add("Grand mean", fixed(a.GrandMean, dec)+" "+unit)
 		add("CV %", fixed(a.CVPercent, 1))
 		v := r.LSD
 		if c.method == meansep.Tukey {
@@ -311,7 +343,11 @@ func (c *compareStep) showResult(r *analysis.Result) {
 		if c.method == meansep.Tukey {
 			rng = r.HSDRange
 		}
-		add(level, export.MSDText(v, rng, analysis.MeanDecimals(r.Decimals)))
+		msd := export.MSDText(v, rng, dec)
+		if r.Transform != stats.NoTransform {
+			msd += " " + unit
+		}
+		add(level, msd)
 		add("R²", fixed(a.RSquared, 3))
 		if a.RelativeEfficiency != nil {
 			re := fixed(*a.RelativeEfficiency, 2)
@@ -321,6 +357,7 @@ func (c *compareStep) showResult(r *analysis.Result) {
 			add("Relative efficiency of blocking", re)
 		}
 		add("Plots analysed", fmt.Sprintf("%d (missing %d, excluded %d)", r.N, r.Missing, len(r.Excluded)))
+		c.showChecks(r)
 	}
 	c.warnings.SetText(strings.Join(r.Warnings, "\n"))
 	rows := slices.Clone(r.Means)
@@ -340,6 +377,8 @@ func (c *compareStep) showResult(r *analysis.Result) {
 	}
 	c.meanRows = rows
 	c.shownDecimals = r.Decimals
+	c.limits = r.Transform != stats.NoTransform
+	c.limitsLevel = 1 - r.Alpha
 }
 
 // Widths of the means table's treatment column: at least the heading's
@@ -363,7 +402,10 @@ func (c *compareStep) meansWidth() float32 {
 	if w == 0 {
 		w = treatColMin
 	}
-	for _, cw := range meansColumns[1:] {
+	for i, cw := range meansColumns[1:] {
+		if i+1 == 3 && c.limits {
+			cw = max(cw, c.limitsWidth)
+		}
 		w += cw
 	}
 	return w + float32(len(meansColumns))*theme.Padding() + theme.ScrollBarSize()
@@ -399,6 +441,7 @@ func (c *compareStep) fitTreatmentColumn() {
 	}
 	c.treatWidth = min(w, treatColMax)
 	c.means.SetColumnWidth(0, c.treatWidth)
+	c.fitLimitsColumn()
 }
 
 // cellTextWidth is the width a compactCell needs for s.
@@ -436,6 +479,9 @@ func (c *compareStep) meanText(row, col int) string {
 	case 2:
 		return fixed(m.BackMean, analysis.MeanDecimals(c.shownDecimals))
 	case 3:
+		if c.limits {
+			return limitsText(m, analysis.MeanDecimals(c.shownDecimals))
+		}
 		return fixed(m.SE, analysis.MeanDecimals(c.shownDecimals))
 	case 4:
 		if c.method == meansep.Tukey {

@@ -13,6 +13,7 @@ import (
 	"fyne.io/fyne/v2/theme"
 	"fyne.io/fyne/v2/widget"
 
+	"furlong/stats"
 	"furlong/trial"
 )
 
@@ -78,6 +79,9 @@ func (s *traitsTab) build() fyne.CanvasObject {
 				txt += fmt.Sprintf("  (computed from %s and %s at %g %% moisture)", tr.Derived.WeightTrait, tr.Derived.MoistureTrait, tr.Derived.StandardMoisture)
 			} else {
 				txt += "  · " + kindLabels[max(slices.Index(kindValues, tr.Kind), 0)] + " · " + rangeText(&tr)
+			}
+			if tr.Transform != trial.TransformNone {
+				txt += " · " + stats.Transform(tr.Transform).Scale() + " scale"
 			}
 			o.(*widget.Label).SetText(txt)
 		})
