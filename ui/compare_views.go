@@ -28,7 +28,7 @@ type compareView interface {
 
 // newViews makes the further views of Compare, in the order of their tabs.
 func (c *compareStep) newViews() []compareView {
-	return []compareView{newPairsView(c)}
+	return []compareView{newPairsView(c), newVsCheckView(c)}
 }
 
 // meansHeader is the heading of column col of the means table: the SE
@@ -114,8 +114,9 @@ func checkLines(d analysis.Diagnostics) [][2]string {
 // tables.
 type textTable struct {
 	*widget.Table
-	head []string
-	rows [][]string
+	head   []string
+	rows   [][]string
+	widths []float32
 }
 
 // maxCol is the widest a textTable column grows.
@@ -148,6 +149,7 @@ func newTextTable() *textTable {
 // text throughout).
 func (t *textTable) set(head []string, rows [][]string) {
 	t.head, t.rows = head, rows
+	t.widths = t.widths[:0]
 	for i, h := range head {
 		w := fyne.MeasureText(h, theme.TextSize(), fyne.TextStyle{Bold: true}).Width + 3*theme.Padding()
 		for r := 0; r < len(rows) && r < 500; r++ {
@@ -155,7 +157,19 @@ func (t *textTable) set(head []string, rows [][]string) {
 				w = max(w, cellTextWidth(rows[r][i]))
 			}
 		}
-		t.SetColumnWidth(i, min(max(w, 50), maxCol))
+		w = min(max(w, 50), maxCol)
+		t.SetColumnWidth(i, w)
+		t.widths = append(t.widths, w)
 	}
 	t.Refresh()
+}
+
+// width is what the table needs to show every column: the columns, the
+// gaps between them and the vertical scroll bar.
+func (t *textTable) width() float32 {
+	var w float32
+	for _, cw := range t.widths {
+		w += cw + theme.Padding()
+	}
+	return w + theme.ScrollBarSize()
 }

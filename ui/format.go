@@ -3,6 +3,7 @@ package ui
 import (
 	"math"
 	"strconv"
+	"strings"
 )
 
 // num formats a statistic with sig significant digits; NaN and infinities
@@ -30,7 +31,11 @@ func fixed(v float64, dec int) string {
 	if math.IsNaN(v) || math.IsInf(v, 0) {
 		return "–"
 	}
-	return strconv.FormatFloat(v, 'f', max(dec, 0), 64)
+	s := strconv.FormatFloat(v, 'f', max(dec, 0), 64)
+	if strings.HasPrefix(s, "-") && strings.Trim(s, "-0.") == "" {
+		return s[1:] // a negative value that rounds to zero is shown as 0
+	}
+	return s
 }
 
 // optNum formats an optional statistic.
