@@ -83,6 +83,8 @@ func safePlot(f func() (*plot.Plot, error)) (p *plot.Plot, err error) {
 type chartView struct {
 	widget.BaseWidget
 	p *plot.Plot
+	// min is the smallest the chart is shown; chartMinSize when zero.
+	min fyne.Size
 
 	mu     sync.Mutex
 	cached image.Image
@@ -135,8 +137,13 @@ func safeImage(p *plot.Plot, w, h int, scale float64) (img image.Image, err erro
 	return chart.ImageScaled(p, w, h, scale), nil
 }
 
-// MinSize keeps charts readable (chartMinSize).
-func (v *chartView) MinSize() fyne.Size { return chartMinSize }
+// MinSize keeps charts readable (chartMinSize, or the chart's own min).
+func (v *chartView) MinSize() fyne.Size {
+	if v.min.Width > 0 && v.min.Height > 0 {
+		return v.min
+	}
+	return chartMinSize
+}
 
 // CreateRenderer shows the raster inside a thin frame.
 func (v *chartView) CreateRenderer() fyne.WidgetRenderer {

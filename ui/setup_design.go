@@ -26,6 +26,7 @@ type designTab struct {
 	reps       *widget.Entry
 	designMsg  *widget.Label
 	designDone *widget.Label // what Apply design changed
+	plan       *planPanel    // what the design chosen can detect (setup_plan.go)
 }
 
 // designExplain says in one line what each design is for.
@@ -71,6 +72,7 @@ func (s *designTab) build() fyne.CanvasObject {
 				s.reps.Disable()
 			}
 		}
+		s.plan.update()
 	}
 	s.reps = widget.NewEntry()
 	s.reps.Validator = func(v string) error {
@@ -80,10 +82,15 @@ func (s *designTab) build() fyne.CanvasObject {
 		}
 		return nil
 	}
+	s.reps.OnChanged = func(string) { s.plan.update() }
+	s.plan = newPlanPanel(s)
 	apply := widget.NewButtonWithIcon("Apply design", theme.ConfirmIcon(), s.applyDesign)
 	apply.Importance = widget.HighImportance
 	form := widget.NewForm(widget.NewFormItem("Design", s.designSel), widget.NewFormItem("Replicates", s.reps))
-	return container.NewVScroll(container.NewPadded(container.NewVBox(form, s.designMsg, container.NewHBox(apply), s.designDone)))
+	left := container.NewVScroll(container.NewPadded(container.NewVBox(form, s.designMsg, container.NewHBox(apply), s.designDone)))
+	split := container.NewHSplit(left, container.NewVScroll(container.NewPadded(s.plan.content)))
+	split.Offset = 0.45
+	return split
 }
 
 // applyDesign sets the design chosen in the Design tab.
@@ -129,6 +136,7 @@ func (s *designTab) loadDesign() {
 	if d.Kind == trial.Latin {
 		s.reps.Disable()
 	}
+	s.plan.update()
 }
 
 func (s *designTab) t() *trial.Trial { return s.u.doc.t }

@@ -204,28 +204,16 @@ func runPlan(ctx context.Context, o planOptions) error {
 }
 
 // planCurve is the detectable difference by number of replicates, for the
-// table (and the window's chart): from the design's smallest number to a
-// few past the plan.
+// table (analysis.PlanCurve, which the window's chart draws too): from the
+// design's smallest number to a few past the plan.
 func planCurve(ctx context.Context, kind trial.DesignKind, treatments, reps int, cv, alpha, power float64) ([]planPoint, error) {
-	lo, hi := trial.MinReps, max(reps+4, 8)
-	if kind == trial.Latin {
-		lo, hi = reps, reps
+	pts, err := analysis.PlanCurve(ctx, kind, treatments, reps, cv, alpha, power)
+	if err != nil {
+		return nil, err
 	}
-	hi = min(hi, trial.MaxReps)
-	var out []planPoint
-	for r := lo; r <= hi; r++ {
-		if err := ctx.Err(); err != nil {
-			return nil, err
-		}
-		df, err := trial.PlannedErrorDF(kind, treatments, r)
-		if err != nil || df <= 0 {
-			continue
-		}
-		d, err := stats.DetectableDifference(stats.PowerInput{Reps: r, DFError: float64(df), CV: cv, Alpha: alpha}, power)
-		if err != nil {
-			return nil, err
-		}
-		out = append(out, planPoint{Reps: r, DFError: df, Detectable: d})
+	out := make([]planPoint, len(pts))
+	for i, p := range pts {
+		out[i] = planPoint{Reps: p.Reps, DFError: p.DFError, Detectable: p.Detectable}
 	}
 	return out, nil
 }
