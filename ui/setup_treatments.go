@@ -2,6 +2,7 @@ package ui
 
 import (
 	"fmt"
+	"strconv"
 	"strings"
 
 	"fyne.io/fyne/v2"
@@ -36,7 +37,7 @@ func (s *treatmentsTab) build() fyne.CanvasObject {
 	s.trtList = widget.NewList(
 		func() int { return len(s.t().Treatments) },
 		func() fyne.CanvasObject {
-			return container.NewHBox(widget.NewLabelWithStyle("CODE", fyne.TextAlignLeading, fyne.TextStyle{Monospace: true}), widget.NewLabel("name"), widget.NewLabel(""))
+			return container.NewHBox(widget.NewLabelWithStyle("CODE", fyne.TextAlignLeading, fyne.TextStyle{Monospace: true}), widget.NewLabel("name"), widget.NewLabel(""), widget.NewLabel(""))
 		},
 		func(i widget.ListItemID, o fyne.CanvasObject) {
 			tr := s.t().Treatments[i]
@@ -47,7 +48,8 @@ func (s *treatmentsTab) build() fyne.CanvasObject {
 			if tr.Role == trial.RoleCheck {
 				role = "check"
 			}
-			row.Objects[2].(*widget.Label).SetText(role)
+			row.Objects[2].(*widget.Label).SetText(rateText(tr))
+			row.Objects[3].(*widget.Label).SetText(role)
 		})
 	f := &s.trtForm
 	f.code = widget.NewEntry()
@@ -57,6 +59,10 @@ func (s *treatmentsTab) build() fyne.CanvasObject {
 	f.desc = widget.NewEntry()
 	f.desc.SetPlaceHolder("description (optional)")
 	f.check = widget.NewCheck("Check (the standard the others are compared with)", nil)
+	f.rate = widget.NewEntry()
+	f.rate.SetPlaceHolder("rate applied or sown, e.g. 120 (empty: none)")
+	f.rateUnit = widget.NewEntry()
+	f.rateUnit.SetPlaceHolder("unit of the rate, e.g. kg N/ha")
 	code, name, desc, check := f.code, f.name, f.desc, f.check
 	s.trtList.OnSelected = func(i widget.ListItemID) {
 		if s.trtMsg != nil {
@@ -68,6 +74,8 @@ func (s *treatmentsTab) build() fyne.CanvasObject {
 		name.SetText(tr.Name)
 		desc.SetText(tr.Description)
 		check.SetChecked(tr.Role == trial.RoleCheck)
+		f.rate.SetText(boundText(tr.Rate))
+		f.rateUnit.SetText(tr.RateUnit)
 		s.trtButtons()
 	}
 	s.trtList.OnUnselected = func(widget.ListItemID) {
@@ -79,8 +87,10 @@ func (s *treatmentsTab) build() fyne.CanvasObject {
 		widget.NewFormItem("Name", name),
 		widget.NewFormItem("Description", desc),
 		widget.NewFormItem("", check),
+		widget.NewFormItem("Rate", f.rate),
+		widget.NewFormItem("Rate unit", f.rateUnit),
 	)
-	fromForm := func(base trial.Treatment) trial.Treatment {
+	fromForm := func(base trial.Treatment) (trial.Treatment, bool) {
 		base.Code = strings.TrimSpace(code.Text)
 		base.Name = strings.TrimSpace(name.Text)
 		base.Description = desc.Text
@@ -88,10 +98,20 @@ func (s *treatmentsTab) build() fyne.CanvasObject {
 		if check.Checked {
 			base.Role = trial.RoleCheck
 		}
-		return base
+		rate, err := rateFromText(f.rate.Text)
+		if err != nil {
+			s.trtProblem(err.Error())
+			return base, false
+		}
+		base.Rate = rate
+		base.RateUnit = strings.TrimSpace(f.rateUnit.Text)
+		return base, true
 	}
 	addTreatment := func() {
-		tr := fromForm(trial.Treatment{})
+		tr, ok := fromForm(trial.Treatment{})
+		if !ok {
+			return
+		}
 		if tr.Code == "" {
 			tr.Code = s.nextCode()
 		}
@@ -118,12 +138,17 @@ func (s *treatmentsTab) build() fyne.CanvasObject {
 			return
 		}
 		old := s.t().Treatments[s.trtSel]
-		nu := fromForm(old)
-		if nu == old {
+		nu, ok := fromForm(old)
+		if !ok {
+			return
+		}
+		if sameTreatment(nu, old) {
+			s.trtMsg.Importance = widget.SuccessImportance
 			s.trtMsg.SetText("Nothing to change: the form holds the treatment as it is.")
 			return
 		}
 		if s.structural("The treatment could not be changed", func(t *trial.Trial) error { return t.UpdateTreatment(old.Code, nu) }) {
+			s.trtMsg.Importance = widget.SuccessImportance
 			s.trtMsg.SetText(treatmentChange(old, nu) + " Undo (Ctrl+Z) takes it back.")
 		}
 	})
@@ -172,6 +197,7 @@ func (s *treatmentsTab) build() fyne.CanvasObject {
 type treatmentForm struct {
 	code, name, desc             *widget.Entry
 	check                        *widget.Check
+	rate, rateUnit               *widget.Entry
 	add, apply, remove, up, down *widget.Button
 }
 
@@ -182,6 +208,50 @@ func (s *treatmentsTab) clearTreatmentForm() {
 	f.name.SetText("")
 	f.desc.SetText("")
 	f.check.SetChecked(false)
+	f.rate.SetText("")
+	f.rateUnit.SetText("")
+}
+
+// trtProblem shows why the form was refused, under the buttons.
+func (s *treatmentsTab) trtProblem(msg string) {
+	s.trtMsg.Importance = widget.DangerImportance
+	s.trtMsg.SetText(msg)
+}
+
+// rateFromText reads a typed rate: empty is no rate; a number with a
+// decimal point or comma; anything else is refused in words. A rate is
+// not negative.
+func rateFromText(text string) (*float64, error) {
+	text = strings.TrimSpace(text)
+	if text == "" {
+		return nil, nil
+	}
+	v, err := trial.ParseNumber(text, trial.PointOrComma)
+	if err != nil {
+		return nil, fmt.Errorf("the rate “%s” is not a number: type it as a number, for example 120 or 2,5, and its unit in the next field", text)
+	}
+	if v < 0 {
+		return nil, fmt.Errorf("the rate %s is below 0: a rate applied or sown is 0 or more", text)
+	}
+	return &v, nil
+}
+
+// rateText is a treatment's rate with its unit, "" without one.
+func rateText(tr trial.Treatment) string {
+	if tr.Rate == nil {
+		return ""
+	}
+	return strings.TrimSpace(strconv.FormatFloat(*tr.Rate, 'f', -1, 64) + " " + tr.RateUnit)
+}
+
+// sameTreatment compares two treatments by value (the rate by its number).
+func sameTreatment(a, b trial.Treatment) bool {
+	ra, rb := a.Rate, b.Rate
+	a.Rate, b.Rate = nil, nil
+	if a != b || (ra == nil) != (rb == nil) {
+		return false
+	}
+	return ra == nil || *ra == *rb
 }
 
 // trtButtons enables the buttons that act on a selected treatment only
@@ -291,6 +361,13 @@ func treatmentChange(old, nu trial.Treatment) string {
 	}
 	if nu.Description != old.Description {
 		parts = append(parts, "description changed")
+	}
+	if rateText(nu) != rateText(old) {
+		if nu.Rate == nil {
+			parts = append(parts, "no rate")
+		} else {
+			parts = append(parts, "rate is now "+rateText(nu))
+		}
 	}
 	if nu.Role != old.Role {
 		if nu.Role == trial.RoleCheck {

@@ -1,6 +1,7 @@
 package ui
 
 import (
+	"strconv"
 	"strings"
 	"testing"
 
@@ -88,5 +89,81 @@ func TestFieldNotLaidOut(t *testing.T) {
 	fs.randomise()
 	if n := len(u.doc.t.Plots); n != 3*u.doc.t.Design.Reps {
 		t.Fatalf("%d plots after Randomise, want %d", n, 3*u.doc.t.Design.Reps)
+	}
+}
+
+// The Treatments tab carries each treatment's rate and unit
+// (trial.Treatment.Rate, RateUnit): typed with a decimal point or comma
+// (the typed text read by strconv.ParseFloat after the comma becomes a
+// point is the reference), empty for none, refused in words when it is not
+// a number or below 0; every change one undoable edit.
+func TestTreatmentRates(t *testing.T) {
+	u, _ := newTestApp(t, 0)
+	u.OpenTrial(smallTrial(t), "")
+	u.showStep(stepSetup)
+	s := u.steps[stepSetup].(*setupStep)
+	f := &s.trtForm
+	cases := []struct {
+		text, unit string
+		ok         bool
+	}{
+		{"120", "kg N/ha", true},
+		{"2,5", "l/ha", true},
+		{"0", "kg N/ha", true},
+		{"", "", true},
+		{"lots", "kg/ha", false},
+		{"-5", "kg/ha", false},
+	}
+	for _, c := range cases {
+		s.trtList.Select(1)
+		before := u.doc.t.Treatments[1]
+		f.rate.SetText(c.text)
+		f.rateUnit.SetText(c.unit)
+		test.Tap(f.apply)
+		got := u.doc.t.Treatments[1]
+		if !c.ok {
+			if !sameTreatment(got, before) || !strings.Contains(s.trtMsg.Text, c.text) {
+				t.Errorf("rate %q: stored %v, message %q", c.text, got.Rate, s.trtMsg.Text)
+			}
+			continue
+		}
+		if c.text == "" {
+			if got.Rate != nil {
+				t.Errorf("an empty rate stored %v", *got.Rate)
+			}
+			continue
+		}
+		want, err := strconv.ParseFloat(strings.ReplaceAll(c.text, ",", "."), 64)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got.Rate == nil || *got.Rate != want || got.RateUnit != c.unit {
+			t.Errorf("rate %q %q: stored %v %q (%s)", c.text, c.unit, got.Rate, got.RateUnit, s.trtMsg.Text)
+		}
+		if !strings.Contains(s.trtMsg.Text, "rate is now") {
+			t.Errorf("rate %q: the message %q does not say what changed", c.text, s.trtMsg.Text)
+		}
+	}
+	// Undo walks back: no rate, 0, 2.5, 120, none.
+	for _, want := range []float64{0, 2.5, 120} {
+		u.undo()
+		if r := u.doc.t.Treatments[1].Rate; r == nil || *r != want {
+			t.Fatalf("after undo the rate is %v, want %v", r, want)
+		}
+	}
+	u.undo()
+	if r := u.doc.t.Treatments[1].Rate; r != nil {
+		t.Fatalf("after undoing every rate change the rate is %v", *r)
+	}
+	// A new treatment with a rate.
+	s.trtList.UnselectAll()
+	s.clearTreatmentForm()
+	test.Type(f.name, "Delta")
+	f.rate.SetText("80")
+	f.rateUnit.SetText("kg N/ha")
+	test.Tap(f.add)
+	tr := u.doc.t.Treatments[len(u.doc.t.Treatments)-1]
+	if tr.Name != "Delta" || tr.Rate == nil || *tr.Rate != 80 || tr.RateUnit != "kg N/ha" || rateText(tr) != "80 kg N/ha" {
+		t.Fatalf("new treatment %+v", tr)
 	}
 }
