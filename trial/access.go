@@ -17,6 +17,10 @@ type NewOptions struct {
 	Objective    string
 
 	Treatments []Treatment
+	// Factors, when given, make a factorial trial: its treatments are
+	// their combinations (Treatments, if given too, must be exactly those,
+	// as Combinations returns them; empty Treatments get them).
+	Factors []Factor
 	// Design of the trial. For a Latin square, Reps 0 means as many as
 	// there are treatments.
 	Design Design
@@ -57,6 +61,7 @@ func New(opts NewOptions) (*Trial, error) {
 		Objective:    opts.Objective,
 		Created:      now,
 		Modified:     now,
+		Factors:      cloneFactors(opts.Factors),
 		Treatments:   cloneTreatments(opts.Treatments),
 		Design:       d,
 		Layout:       l,
@@ -65,9 +70,13 @@ func New(opts NewOptions) (*Trial, error) {
 	for j := range t.Traits {
 		t.Traits[j].Values = nil
 	}
+	if len(t.Factors) == 0 {
+		t.Factors = nil
+	} else if len(t.Treatments) == 0 && ValidateFactors(t.Factors) == nil {
+		t.Treatments = Combinations(t.Factors)
+	}
 	var p problems
-	p.checkTreatments(t.Treatments)
-	p.checkDesign(t.Treatments, t.Design)
+	p.checkPlan(t.Factors, t.Treatments, t.Design)
 	p.checkLayout(t.Layout)
 	if err := p.err(); err != nil {
 		return nil, err
@@ -395,6 +404,7 @@ func (t *Trial) Summary() Summary {
 func (t *Trial) Clone() *Trial {
 	c := *t
 	c.Site = cloneSite(t.Site)
+	c.Factors = cloneFactors(t.Factors)
 	c.Treatments = cloneTreatments(t.Treatments)
 	c.Traits = cloneTraits(t.Traits)
 	c.Plots = make([]Plot, len(t.Plots))
@@ -442,6 +452,9 @@ func cloneTreatments(ts []Treatment) []Treatment {
 	out := make([]Treatment, len(ts))
 	for i, tr := range ts {
 		tr.Rate = clonePtr(tr.Rate)
+		if tr.Levels != nil {
+			tr.Levels = append([]string(nil), tr.Levels...)
+		}
 		out[i] = tr
 	}
 	return out

@@ -24,7 +24,7 @@ func (t *Trial) relayOut() {
 		return
 	}
 	t.Random = Randomization{}
-	plots, err := LayOut(t.Treatments, t.Design, t.Layout)
+	plots, err := LayOutPlan(t.Factors, t.Treatments, t.Design, t.Layout)
 	if err != nil {
 		plots = nil
 	}
@@ -37,6 +37,9 @@ func (t *Trial) relayOut() {
 func (t *Trial) editTreatments(change func([]Treatment) ([]Treatment, error)) error {
 	if t.HasData() {
 		return errEditHasData
+	}
+	if t.Factorial() {
+		return errFactorialList
 	}
 	old := len(t.Treatments)
 	ts, err := change(cloneTreatments(t.Treatments))
@@ -70,6 +73,9 @@ func (t *Trial) checkNewCode(code string, self int) error {
 // unrandomised and must be randomised again. A Latin square grows with its
 // treatment list.
 func (t *Trial) AddTreatment(tr Treatment) error {
+	if t.Factorial() {
+		return errFactorialList
+	}
 	if err := t.checkNewCode(tr.Code, -1); err != nil {
 		return err
 	}
@@ -121,7 +127,11 @@ func (t *Trial) UpdateTreatment(code string, tr Treatment) error {
 	if i < 0 {
 		return fmt.Errorf("the trial has no treatment %q", code)
 	}
-	if err := t.checkNewCode(tr.Code, i); err != nil {
+	if t.Factorial() {
+		if tr.Code != code || !equalStrings(tr.Levels, t.Treatments[i].Levels) {
+			return &ValidationError{Field: "Code", Msg: fmt.Sprintf("the code and levels of treatment %q come from its factors; change the factor levels instead", code)}
+		}
+	} else if err := t.checkNewCode(tr.Code, i); err != nil {
 		return err
 	}
 	switch tr.Role {
@@ -147,7 +157,7 @@ func (t *Trial) SetDesign(d Design) error {
 	if d == t.Design {
 		return nil
 	}
-	if err := ValidateDesign(t.Treatments, d); err != nil {
+	if err := ValidatePlan(t.Factors, t.Treatments, d); err != nil {
 		return err
 	}
 	if t.HasData() {

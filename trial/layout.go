@@ -1,5 +1,7 @@
 package trial
 
+import "fmt"
+
 // DefaultLayout returns the layout Furlong proposes for a new trial: plots
 // 10 m long and 1.5 m wide, of which 8 m × 1.5 m is harvested, 1 m alleys,
 // every block in one field row (range) with the blocks stacked one behind
@@ -98,22 +100,57 @@ func numberMultiplier(size int) int {
 // Empty Blocks, Numbering and Walk take DefaultLayout's settings. The plot
 // geometry (lengths, widths, alleys) does not affect the plots.
 func LayOut(treatments []Treatment, d Design, l Layout) ([]Plot, error) {
+	return LayOutPlan(nil, treatments, d, l)
+}
+
+// LayOutPlan is LayOut for a trial that may have treatment factors (see
+// Trial.Factors). A factorial CRD or RCBD is laid out as a CRD or RCBD of
+// the combinations. A split plot's block is its main plots side by side in
+// walking order, each main plot a run of neighbouring plots holding its
+// subplots side by side (and each subplot of a split-split plot a run
+// holding its sub-subplots); in standard order main plot k holds level k of
+// the main-plot factor and subplot j level j of the subplot factor (see
+// Design.FactorOrder). PlotsPerRow must then be 0 or a multiple of the
+// main-plot size, so that no main plot is broken over two field rows. A
+// strip plot's block is a grid with one field row per level of the
+// horizontal factor and one field column per level of the vertical factor
+// (PlotsPerRow is ignored); in standard order the strip in row r of the
+// block holds level r, the strip in column c level c. Every plot of a split
+// or strip plot gets its MainPlot (and SubPlot or Strip).
+func LayOutPlan(factors []Factor, treatments []Treatment, d Design, l Layout) ([]Plot, error) {
+	plots, _, err := layOutPlan(factors, treatments, d, l)
+	return plots, err
+}
+
+// layOutPlan lays out the plan and returns, for a split or strip plot, the
+// standard-order level index of every plot for each factor in design order
+// (Design.FactorOrder): std[i][k] is plot i's level of the k-th factor in
+// that order.
+func layOutPlan(factors []Factor, treatments []Treatment, d Design, l Layout) ([]Plot, [][3]int, error) {
 	var p problems
-	p.checkTreatments(treatments)
-	p.checkDesign(treatments, d)
+	p.checkPlan(factors, treatments, d)
 	p.checkArrangement(l)
 	if err := p.err(); err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 	l = l.withDefaults()
 	nt := len(treatments)
 	s := shape(nt, d)
+	st := newStrata(factors, treatments, d)
 
 	perRow := l.PlotsPerRow
 	stacked := l.Blocks == BlocksStacked
-	if d.Kind == Latin {
+	switch d.Kind {
+	case Latin:
 		perRow = nt
 		stacked = true
+	case StripPlot:
+		perRow = st.sizes[1]
+	case SplitPlot:
+		if m := st.mainSize(); perRow > 0 && perRow < s.size && perRow%m != 0 {
+			return nil, nil, ValidationErrors{{Field: "Layout.PlotsPerRow", Msg: fmt.Sprintf(
+				"in this split plot each main plot is %d plots side by side, so a field row must hold whole main plots: set the plots per row to 0 (each block in one row) or a multiple of %d", m, m)}}
+		}
 	}
 	if perRow <= 0 || perRow > s.size {
 		perRow = s.size
@@ -123,6 +160,10 @@ func LayOut(treatments []Treatment, d Design, l Layout) ([]Plot, error) {
 	serpentine := l.Walk == WalkSerpentine
 
 	plots := make([]Plot, 0, s.blocks*s.size)
+	var std [][3]int
+	if st != nil {
+		std = make([][3]int, 0, s.blocks*s.size)
+	}
 	for b := range s.blocks {
 		pos := 0
 		for r := range rowsPer {
@@ -147,6 +188,19 @@ func LayOut(treatments []Treatment, d Design, l Layout) ([]Plot, error) {
 				switch d.Kind {
 				case Latin:
 					pl.Treatment = treatments[(pl.Row-1+pl.Column-1)%nt].Code
+				case SplitPlot:
+					lv := st.splitLevels(pos - 1)
+					pl.MainPlot = lv[0] + 1
+					if len(st.order) == 3 {
+						pl.SubPlot = lv[1] + 1
+					}
+					pl.Treatment = st.code(lv)
+					std = append(std, lv)
+				case StripPlot:
+					lv := [3]int{r, c}
+					pl.MainPlot, pl.Strip = r+1, c+1
+					pl.Treatment = st.code(lv)
+					std = append(std, lv)
 				default:
 					pl.Treatment = treatments[(pos-1)%nt].Code
 				}
@@ -154,5 +208,5 @@ func LayOut(treatments []Treatment, d Design, l Layout) ([]Plot, error) {
 			}
 		}
 	}
-	return plots, nil
+	return plots, std, nil
 }

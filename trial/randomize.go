@@ -92,11 +92,24 @@ func identity(n int) []int {
 //
 // The same treatments, design, layout and seed always give the same plots.
 func LayOutRandomized(treatments []Treatment, d Design, l Layout, seed uint64) ([]Plot, error) {
-	plots, err := LayOut(treatments, d, l)
+	return LayOutPlanRandomized(nil, treatments, d, l, seed)
+}
+
+// LayOutPlanRandomized is LayOutRandomized for a trial that may have
+// treatment factors (see LayOutPlan). A factorial CRD or RCBD is
+// randomised as a CRD or RCBD of the combinations, by
+// MethodPCGFisherYatesV1. Split and strip plots are randomised by
+// MethodPCGFisherYatesStrataV1 (see there).
+func LayOutPlanRandomized(factors []Factor, treatments []Treatment, d Design, l Layout, seed uint64) ([]Plot, error) {
+	plots, std, err := layOutPlan(factors, treatments, d, l)
 	if err != nil {
 		return nil, err
 	}
 	src := rand.NewPCG(seed, PCGStream)
+	if d.Kind == SplitPlot || d.Kind == StripPlot {
+		randomizeStrata(src, newStrata(factors, treatments, d), d, plots, std)
+		return plots, nil
+	}
 	nt := len(treatments)
 	switch d.Kind {
 	case CRD:
@@ -149,12 +162,12 @@ func (t *Trial) RandomizeAt(seed uint64, now time.Time) error {
 	if t.HasData() {
 		return ErrHasData
 	}
-	plots, err := LayOutRandomized(t.Treatments, t.Design, t.Layout, seed)
+	plots, err := LayOutPlanRandomized(t.Factors, t.Treatments, t.Design, t.Layout, seed)
 	if err != nil {
 		return err
 	}
 	t.setPlots(plots)
-	t.Random = Randomization{Seed: seed, Method: MethodPCGFisherYatesV1, Done: now}
+	t.Random = Randomization{Seed: seed, Method: MethodFor(t.Design.Kind), Done: now}
 	t.Modified = now
 	return nil
 }
@@ -195,10 +208,10 @@ func (t *Trial) CheckRandomization() error {
 	if !t.Randomized() {
 		return ErrNotRandomized
 	}
-	if t.Random.Method != MethodPCGFisherYatesV1 {
+	if t.Random.Method != MethodFor(t.Design.Kind) {
 		return ErrUnknownMethod
 	}
-	want, err := LayOutRandomized(t.Treatments, t.Design, t.Layout, t.Random.Seed)
+	want, err := LayOutPlanRandomized(t.Factors, t.Treatments, t.Design, t.Layout, t.Random.Seed)
 	if err != nil {
 		return err
 	}
@@ -207,7 +220,8 @@ func (t *Trial) CheckRandomization() error {
 	}
 	for i, w := range want {
 		g := t.Plots[i]
-		if g.Number != w.Number || g.Block != w.Block || g.Row != w.Row || g.Column != w.Column || g.Treatment != w.Treatment {
+		if g.Number != w.Number || g.Block != w.Block || g.Row != w.Row || g.Column != w.Column || g.Treatment != w.Treatment ||
+			g.MainPlot != w.MainPlot || g.SubPlot != w.SubPlot || g.Strip != w.Strip {
 			return fmt.Errorf("%w: the first difference is at plot %d (position %d in walking order)", ErrLayoutMismatch, g.Number, i+1)
 		}
 	}

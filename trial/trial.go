@@ -23,6 +23,11 @@ type Trial struct {
 	Created      time.Time
 	Modified     time.Time
 
+	// Factors, when not empty, are the crossed treatment factors of a
+	// factorial trial; Treatments are then their combinations (see
+	// Combinations), each with its level codes. Empty: one list of
+	// treatments.
+	Factors    []Factor
 	Treatments []Treatment
 	Design     Design
 	Layout     Layout
@@ -101,6 +106,9 @@ type Treatment struct {
 	Description string
 	Rate        *float64 // optional application or seeding rate
 	RateUnit    string   // for example "kg N/ha", "seeds/m²"
+	// Levels holds, in a factorial trial, the treatment's level code of
+	// every factor (aligned with Trial.Factors); nil otherwise.
+	Levels []string
 }
 
 // DesignKind names an experimental design.
@@ -110,6 +118,18 @@ const (
 	CRD   DesignKind = "crd"   // completely randomised design
 	RCBD  DesignKind = "rcbd"  // randomised complete block design
 	Latin DesignKind = "latin" // Latin square: rows and columns both blocked
+	// SplitPlot is a split plot in randomised complete blocks: one factor
+	// on main plots randomised within each block, the next on subplots
+	// randomised within each main plot and, with three factors (a
+	// split-split plot), the third on sub-subplots randomised within each
+	// subplot.
+	SplitPlot DesignKind = "split-plot"
+	// StripPlot is a strip plot (strip block) in randomised complete
+	// blocks: one factor in horizontal strips across each block (each
+	// strip a field row of the block), the other in vertical strips (each
+	// a field column of the block), both randomised independently in
+	// every block.
+	StripPlot DesignKind = "strip-plot"
 )
 
 // Design is the experimental design of the trial.
@@ -118,6 +138,14 @@ type Design struct {
 	// Reps is the number of replicates. For an RCBD it is the number of
 	// blocks; for a Latin square it equals the number of treatments.
 	Reps int
+	// MainFactor is the key of the factor on the main plots of a split
+	// plot, or in the horizontal strips of a strip plot; "" means the
+	// first factor. Empty for the other designs.
+	MainFactor string
+	// SubFactor is the key of the factor on the subplots of a split-split
+	// plot (the remaining factor goes on the sub-subplots); "" means the
+	// first factor that is not MainFactor. Empty for the other designs.
+	SubFactor string
 }
 
 // BlockArrangement says how blocks sit in the field.
@@ -219,7 +247,18 @@ type Plot struct {
 	Row       int    // field row (range), 1-based
 	Column    int    // field column, 1-based
 	Treatment string // treatment code
-	Note      string
+	// MainPlot is, in a split plot, the number of the plot's main plot
+	// within its block (1, 2, ... across the block) and, in a strip plot,
+	// the number of its horizontal strip within its block; 0 in the other
+	// designs.
+	MainPlot int
+	// SubPlot is, in a split-split plot, the number of the plot's subplot
+	// within its main plot; 0 otherwise.
+	SubPlot int
+	// Strip is, in a strip plot, the number of the plot's vertical strip
+	// within its block; 0 otherwise.
+	Strip int
+	Note  string
 	// Exclusions keep a plot's values but leave them out of the analysis.
 	Exclusions []Exclusion
 }

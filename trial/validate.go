@@ -29,9 +29,9 @@ const maxValueProblems = 10
 // problem found (capped at a few per trait and for the plots).
 func (t *Trial) Validate() error {
 	var p problems
-	p.checkTreatments(t.Treatments)
-	p.checkDesign(t.Treatments, t.Design)
+	p.checkPlan(t.Factors, t.Treatments, t.Design)
 	p.checkLayout(t.Layout)
+	p.checkFactorKeys(t)
 	p.checkTraits(t)
 	p.checkPlots(t)
 	if msg := MethodProblem(t.Analysis.Method); msg != "" {
@@ -45,10 +45,35 @@ func (t *Trial) Validate() error {
 // and distinct codes, a known design and a replicate count that fits it. It
 // returns nil or a ValidationErrors.
 func ValidateDesign(treatments []Treatment, d Design) error {
+	return ValidatePlan(nil, treatments, d)
+}
+
+// ValidatePlan is ValidateDesign for a trial that may have treatment
+// factors: with factors, the treatments must be their combinations (see
+// Combinations) and the design one that fits them (a split plot needs 2
+// or 3 factors, a strip plot exactly 2). It returns nil or a
+// ValidationErrors.
+func ValidatePlan(factors []Factor, treatments []Treatment, d Design) error {
 	var p problems
-	p.checkTreatments(treatments)
-	p.checkDesign(treatments, d)
+	p.checkPlan(factors, treatments, d)
 	return p.err()
+}
+
+// checkPlan checks the factors, the treatments and the design together.
+func (p *problems) checkPlan(fs []Factor, ts []Treatment, d Design) {
+	n := len(p.list)
+	p.checkFactors(fs)
+	factorsOK := len(p.list) == n
+	maxLen := MaxCodeLen
+	if len(fs) > 0 {
+		maxLen = MaxCombinationCodeLen
+	}
+	p.checkTreatmentsN(ts, maxLen)
+	if factorsOK {
+		p.checkCombinations(fs, ts)
+	}
+	p.checkDesign(ts, d)
+	p.checkFactorDesign(fs, d, factorsOK)
 }
 
 // ValidateLayout checks the plot geometry and field arrangement settings. It
@@ -70,12 +95,15 @@ func CheckCode(code string) error {
 	return nil
 }
 
-func codeProblem(code string) string {
+func codeProblem(code string) string { return codeProblemN(code, MaxCodeLen) }
+
+// codeProblemN is codeProblem with maxLen characters allowed.
+func codeProblemN(code string, maxLen int) string {
 	if code == "" {
 		return "a treatment needs a code, for example T01 or CHK"
 	}
-	if n := utf8.RuneCountInString(code); n > MaxCodeLen {
-		return fmt.Sprintf("treatment code %q is %d characters long; use at most %d", code, n, MaxCodeLen)
+	if n := utf8.RuneCountInString(code); n > maxLen {
+		return fmt.Sprintf("treatment code %q is %d characters long; use at most %d", code, n, maxLen)
 	}
 	if !utf8.ValidString(code) {
 		return fmt.Sprintf("treatment code %q is not valid text", code)
@@ -120,14 +148,18 @@ func traitKeyProblem(key string) string {
 	return ""
 }
 
-func (p *problems) checkTreatments(ts []Treatment) {
+func (p *problems) checkTreatments(ts []Treatment) { p.checkTreatmentsN(ts, MaxCodeLen) }
+
+// checkTreatmentsN is checkTreatments with codes of up to maxLen
+// characters.
+func (p *problems) checkTreatmentsN(ts []Treatment, maxLen int) {
 	if len(ts) < 2 {
 		p.add("Treatments", "a trial needs at least 2 treatments to compare; it has %d", len(ts))
 	}
 	seen := make(map[string]int, len(ts))
 	for i, tr := range ts {
 		f := "Treatments[" + strconv.Itoa(i) + "]"
-		if msg := codeProblem(tr.Code); msg != "" {
+		if msg := codeProblemN(tr.Code, maxLen); msg != "" {
 			if tr.Code == "" {
 				msg = fmt.Sprintf("treatment %d has no code; give it a short code, for example T01 or CHK", i+1)
 			}
@@ -167,7 +199,7 @@ func designName(k DesignKind) string {
 func (p *problems) checkDesign(ts []Treatment, d Design) {
 	nt := len(ts)
 	switch d.Kind {
-	case CRD, RCBD:
+	case CRD, RCBD, SplitPlot, StripPlot:
 		if d.Reps < MinReps || d.Reps > MaxReps {
 			p.add("Design.Reps", "%s needs %d to %d replicates, not %d", designName(d.Kind), MinReps, MaxReps, d.Reps)
 		}
@@ -181,9 +213,9 @@ func (p *problems) checkDesign(ts []Treatment, d Design) {
 			p.add("Design.Reps", "a Latin square needs as many rows and columns as treatments: %d treatments need a %d × %d square, not %d replicates", nt, nt, nt, d.Reps)
 		}
 	case "":
-		p.add("Design.Kind", "choose a design: a completely randomised design, a randomised complete block design or a Latin square")
+		p.add("Design.Kind", "choose a design: a completely randomised design, a randomised complete block design, a Latin square, a split plot or a strip plot")
 	default:
-		p.add("Design.Kind", "the design %q is not one Furlong knows; choose a completely randomised design, a randomised complete block design or a Latin square", string(d.Kind))
+		p.add("Design.Kind", "the design %q is not one Furlong knows; choose a completely randomised design, a randomised complete block design, a Latin square, a split plot or a strip plot", string(d.Kind))
 	}
 }
 
@@ -520,7 +552,7 @@ func (p *problems) checkPlots(t *Trial) {
 // block, or in each row and column of a Latin square.
 func (p *problems) checkPlotDesign(t *Trial, report func(field, format string, args ...any)) {
 	var dp problems
-	dp.checkDesign(t.Treatments, t.Design)
+	dp.checkPlan(t.Factors, t.Treatments, t.Design)
 	if len(dp.list) > 0 || len(t.Treatments) < 2 {
 		return // reported already
 	}
@@ -567,5 +599,8 @@ func (p *problems) checkPlotDesign(t *Trial, report func(field, format string, a
 	case Latin:
 		count(func(pl Plot) int { return pl.Row }, nt, "field row", 1)
 		count(func(pl Plot) int { return pl.Column }, nt, "field column", 1)
+	case SplitPlot, StripPlot:
+		count(func(pl Plot) int { return pl.Block }, t.Design.Reps, "block", 1)
+		p.checkPlotStrata(t, report)
 	}
 }

@@ -245,14 +245,7 @@ func rateText(tr trial.Treatment) string {
 }
 
 // sameTreatment compares two treatments by value (the rate by its number).
-func sameTreatment(a, b trial.Treatment) bool {
-	ra, rb := a.Rate, b.Rate
-	a.Rate, b.Rate = nil, nil
-	if a != b || (ra == nil) != (rb == nil) {
-		return false
-	}
-	return ra == nil || *ra == *rb
-}
+func sameTreatment(a, b trial.Treatment) bool { return a.Equal(b) }
 
 // trtButtons enables the buttons that act on a selected treatment only
 // while one is selected, and Up and Down only where the move is possible.

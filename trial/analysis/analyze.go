@@ -199,6 +199,10 @@ func FromTrial(t *trial.Trial, key string) (*Data, error) {
 		rowLevel, rows = levelsOf(t.Plots, func(p trial.Plot) int { return p.Row })
 		colLevel, cols = levelsOf(t.Plots, func(p trial.Plot) int { return p.Column })
 		d.Rows, d.Cols = len(rows), len(cols)
+	case trial.SplitPlot, trial.StripPlot:
+		// Analysing such a trial as one list of treatments would test the
+		// main-plot factor against the wrong error, so it is refused.
+		return nil, &Error{Trait: key, Msg: fmt.Sprintf("this trial is a %s, whose analysis needs the error of each stratum; this version of Furlong cannot analyse it yet", t.Design.Kind.Name()), Err: ErrUnknownDesign}
 	default:
 		return nil, &Error{Trait: key, Msg: fmt.Sprintf("the design kind %q is not one Furlong knows, so the trial cannot be analysed; it may come from a newer Furlong", string(t.Design.Kind)), Err: ErrUnknownDesign}
 	}

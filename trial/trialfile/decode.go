@@ -106,7 +106,9 @@ type fieldError struct {
 	err  error
 }
 
-// decodeV1 reads a file of version 1 or 2. Version 1 had no analysis
+// decodeV1 reads a file of version 1, 2 or 3. Versions 1 and 2 had no
+// treatment factors: members of version 3 in such a file are ignored, as
+// unknown members are. Version 1 had no analysis
 // settings: members of that name in a version 1 file are ignored, as
 // unknown members are, and the trial gets the defaults (the values as
 // recorded, LSD, percent of check for the yield trait).
@@ -117,6 +119,17 @@ func decodeV1(data []byte, version int) (*trial.Trial, error) {
 	}
 	if f.Trial == nil {
 		return nil, at(data, "trial", errorf(ErrWrongType, "the file holds no trial"))
+	}
+	if version < 3 {
+		f.Trial.Factors = nil
+		f.Trial.Design.MainFactor, f.Trial.Design.SubFactor = "", ""
+		for i := range f.Trial.Treatments {
+			f.Trial.Treatments[i].Levels = nil
+		}
+		for i := range f.Trial.Plots {
+			p := &f.Trial.Plots[i]
+			p.MainPlot, p.SubPlot, p.Strip = 0, 0, 0
+		}
 	}
 	if version < 2 {
 		f.Trial.Analysis = nil
@@ -160,7 +173,7 @@ func fromV1(ft *trialV1) (*trial.Trial, *fieldError) {
 		},
 		Created:  tm("trial.created", ft.Created),
 		Modified: tm("trial.modified", ft.Modified),
-		Design:   trial.Design{Kind: trial.DesignKind(ft.Design.Kind), Reps: ft.Design.Reps},
+		Design:   trial.Design{Kind: trial.DesignKind(ft.Design.Kind), Reps: ft.Design.Reps, MainFactor: ft.Design.MainFactor, SubFactor: ft.Design.SubFactor},
 		Layout: trial.Layout{
 			PlotLength:    ft.Layout.PlotLength,
 			PlotWidth:     ft.Layout.PlotWidth,
@@ -192,13 +205,15 @@ func fromV1(ft *trialV1) (*trial.Trial, *fieldError) {
 		t.Treatments = make([]trial.Treatment, len(ft.Treatments))
 	}
 	for i, tr := range ft.Treatments {
-		t.Treatments[i] = trial.Treatment{Code: tr.Code, Name: tr.Name, Role: trial.Role(tr.Role), Description: tr.Description, Rate: tr.Rate, RateUnit: tr.RateUnit}
+		t.Treatments[i] = trial.Treatment{Code: tr.Code, Name: tr.Name, Role: trial.Role(tr.Role), Description: tr.Description, Rate: tr.Rate, RateUnit: tr.RateUnit, Levels: tr.Levels}
 	}
+	t.Factors = fromFactorsV3(ft.Factors)
 	if len(ft.Plots) > 0 {
 		t.Plots = make([]trial.Plot, len(ft.Plots))
 	}
 	for i, p := range ft.Plots {
-		tp := trial.Plot{Number: p.Number, Block: p.Block, Row: p.Row, Column: p.Column, Treatment: p.Treatment, Note: p.Note}
+		tp := trial.Plot{Number: p.Number, Block: p.Block, Row: p.Row, Column: p.Column, Treatment: p.Treatment, Note: p.Note,
+			MainPlot: p.MainPlot, SubPlot: p.SubPlot, Strip: p.Strip}
 		if len(p.Exclusions) > 0 {
 			tp.Exclusions = make([]trial.Exclusion, len(p.Exclusions))
 			for k, e := range p.Exclusions {

@@ -4,7 +4,7 @@
 //
 //	{
 //	  "format": "furlong-trial",
-//	  "version": 2,
+//	  "version": 3,
 //	  "trial": {
 //	    "title": "Maize hybrid strip, Hollow Creek farm",
 //	    "crop": "maize", "season": "2026",
@@ -14,15 +14,21 @@
 //	    "created": "2026-03-02T09:15:00+11:00",   (RFC 3339; null when unknown)
 //	    "modified": "2026-04-20T17:02:11.5+10:00",
 //	    "treatments": [{"code": "T01", "name": "...", "role": "entry"|"check",
-//	                    "description": "...", "rate": 120 or null, "rate_unit": "kg N/ha"}],
-//	    "design": {"kind": "crd"|"rcbd"|"latin", "reps": 4},
+//	                    "description": "...", "rate": 120 or null, "rate_unit": "kg N/ha",
+//	                    "levels": ["N60", "V1"]}],
+//	    "design": {"kind": "crd"|"rcbd"|"latin"|"split-plot"|"strip-plot", "reps": 4,
+//	               "main_factor": "N", "sub_factor": "V"},
 //	    "layout": {"plot_length": 10, "plot_width": 3, "harvest_length": 8,
 //	               "harvest_width": 1.5, "alley": 1, "plots_per_row": 0,
 //	               "blocks": "side-by-side"|"stacked", "numbering": "by-block"|"sequential",
 //	               "walk": "serpentine"|"straight"},
 //	    "randomization": {"seed": "18446744073709551615", "method": "...", "done": "..." or null},
 //	    "analysis": {"mean_separation": "lsd"|"tukey"},
+//	    "factors": [{"key": "N", "name": "Nitrogen rate",
+//	                 "levels": [{"code": "N60", "name": "60 kg N/ha", "value": 60 or null,
+//	                             "unit": "kg N/ha"}]}],
 //	    "plots": [{"number": 101, "block": 1, "row": 1, "column": 1, "treatment": "T01",
+//	               "main_plot": 1, "sub_plot": 2, "strip": 3,
 //	               "note": "...", "exclusions": [{"trait": "yield", "reason": "hail"}]}],
 //	    "traits": [{"key": "yield", "name": "...", "unit": "t/ha", "kind": "continuous",
 //	                "min": 0, "max": null, "decimals": 2, "assessed": null,
@@ -50,7 +56,10 @@
 // Furlong writes it can read): plot numbers, treatment codes and trait
 // keys are unique; every plot names a treatment of the trial; a stored
 // trait has exactly one value per plot; a count is a whole number of 0 or
-// more; a percentage lies between 0 and 100; every number is finite.
+// more; a percentage lies between 0 and 100; every number is finite; at
+// most 3 factors of at most 50 levels, factor keys and level codes unique,
+// each treatment of a factorial trial with one known level of every
+// factor, a split or strip plot with at least 2 factors (ErrBadFactor).
 // Values outside a trait's valid range (min, max) are data, not errors:
 // they are kept, and flagged elsewhere. Scores may be fractional (half
 // points are common practice in visual scoring).
@@ -61,7 +70,25 @@
 // "percent_of_check" says whether its means are shown as percentages of the
 // check mean (null: only for the trial's yield trait).
 //
-// Versions: version 2 is the format above. Version 1 was the same without
+// Factors (version 3): a factorial trial lists its crossed treatment
+// factors (at most 3) in "factors"; its treatments are then the
+// combinations of their levels, each with "levels" (its level code of
+// every factor, in factor order) and the level codes joined by "-" as
+// "code". A split plot puts "main_factor" on its main plots (and, with
+// three factors, "sub_factor" on its subplots), a strip plot "main_factor"
+// in its horizontal strips; each plot of a split or strip plot has
+// "main_plot" (its main plot, or horizontal strip, within its block),
+// a split-split plot's plots "sub_plot" (the subplot within the main
+// plot), a strip plot's plots "strip" (the vertical strip within the
+// block). All of these are left out when empty or 0, so a trial without
+// factors is written as version 2 wrote it, apart from the version.
+//
+// Versions: version 3 is the format above. Version 2 was the same without
+// the factors and the members that go with them ("factors", "levels",
+// "main_factor", "sub_factor", "main_plot", "sub_plot", "strip"): a
+// version 2 file opens unchanged, with one list of treatments, and those
+// members, should a version 2 or older file hold them, are ignored.
+// Version 1 was the same without
 // "analysis", "transform" and "percent_of_check": Decode gives a version 1
 // file the defaults (LSD, no transformation, percent of check for the yield
 // trait only), so it opens and analyses as before; those members, should a

@@ -69,7 +69,8 @@ func toV1(t *trial.Trial) (*trialV1, error) {
 		},
 		Created:  tm("created", t.Created),
 		Modified: tm("modified", t.Modified),
-		Design:   designV1{Kind: string(t.Design.Kind), Reps: t.Design.Reps},
+		Design:   designV1{Kind: string(t.Design.Kind), Reps: t.Design.Reps, MainFactor: t.Design.MainFactor, SubFactor: t.Design.SubFactor},
+		Factors:  toFactorsV3(t.Factors),
 		Layout: layoutV1{
 			PlotLength:    t.Layout.PlotLength,
 			PlotWidth:     t.Layout.PlotWidth,
@@ -94,10 +95,11 @@ func toV1(t *trial.Trial) (*trialV1, error) {
 		Traits:     make([]traitV1, len(t.Traits)),
 	}
 	for i, tr := range t.Treatments {
-		ft.Treatments[i] = treatmentV1{Code: tr.Code, Name: tr.Name, Role: string(tr.Role), Description: tr.Description, Rate: tr.Rate, RateUnit: tr.RateUnit}
+		ft.Treatments[i] = treatmentV1{Code: tr.Code, Name: tr.Name, Role: string(tr.Role), Description: tr.Description, Rate: tr.Rate, RateUnit: tr.RateUnit, Levels: tr.Levels}
 	}
 	for i, p := range t.Plots {
-		fp := plotV1{Number: p.Number, Block: p.Block, Row: p.Row, Column: p.Column, Treatment: p.Treatment, Note: p.Note}
+		fp := plotV1{Number: p.Number, Block: p.Block, Row: p.Row, Column: p.Column, Treatment: p.Treatment, Note: p.Note,
+			MainPlot: p.MainPlot, SubPlot: p.SubPlot, Strip: p.Strip}
 		for _, e := range p.Exclusions {
 			fp.Exclusions = append(fp.Exclusions, exclusionV1{Trait: e.Trait, Reason: e.Reason})
 		}

@@ -52,7 +52,7 @@ func TestBounds(t *testing.T) {
 		{"trait kind", func(tr *trial.Trial) { tr.Traits[0].Kind = "zzz" }, "trial.traits[0].kind", `kind "zzz"`, ErrWrongType},
 		{"formula kind", func(tr *trial.Trial) { tr.Traits[5].Derived.Kind = "zzz" }, "trial.traits[5].derived.kind", `formula "zzz"`, ErrWrongType},
 		{"formula source", func(tr *trial.Trial) { tr.Traits[5].Derived.MoistureTrait = "nosuch" }, "trial.traits[5].derived.moisture_trait", `from trait "nosuch"`, ErrUnknownTrait},
-		{"unknown design", func(tr *trial.Trial) { tr.Design.Kind = "xyz" }, "trial.design.kind", `the design kind "xyz" is not one Furlong knows ("crd", "rcbd", "latin")`, ErrUnknownDesign},
+		{"unknown design", func(tr *trial.Trial) { tr.Design.Kind = "xyz" }, "trial.design.kind", `the design kind "xyz" is not one Furlong knows ("crd", "rcbd", "latin", "split-plot", "strip-plot")`, ErrUnknownDesign},
 		{"no design with plots", func(tr *trial.Trial) { tr.Design.Kind = "" }, "trial.design.kind", "does not say which design", ErrUnknownDesign},
 	}
 	for _, c := range cases {

@@ -51,6 +51,9 @@ func checkBounds(t *trial.Trial) *problem {
 	case d.Reps < 0 || d.Reps > MaxReps:
 		return &problem{"trial.design.reps", errorf(ErrOutOfRange, "the number of replicates must be from 0 to %d, not %d", MaxReps, d.Reps)}
 	}
+	if p := checkFactorBounds(t); p != nil {
+		return p
+	}
 	l := t.Layout
 	if l.PlotsPerRow < 0 || l.PlotsPerRow > MaxPosition {
 		return &problem{"trial.layout.plots_per_row", errorf(ErrOutOfRange, "the plots per field row must be from 0 (each block in one row) to %d, not %d", MaxPosition, l.PlotsPerRow)}

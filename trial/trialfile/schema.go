@@ -7,10 +7,11 @@ const Format = "furlong-trial"
 
 // Version is the newest file format version this package reads, and the
 // one it writes.
-const Version = 2
+const Version = 3
 
-// The version 2 shape (also read for version 1, which lacks the members
-// marked "version 2"). Field order here is the order in the file.
+// The version 3 shape (also read for versions 1 and 2, which lack the
+// members marked "version 2" and "version 3"). Field order here is the
+// order in the file.
 
 type fileV1 struct {
 	Format  string   `json:"format"`
@@ -32,7 +33,8 @@ type trialV1 struct {
 	Design        designV1      `json:"design"`
 	Layout        layoutV1      `json:"layout"`
 	Randomization randomV1      `json:"randomization"`
-	Analysis      *analysisV2   `json:"analysis"` // version 2
+	Analysis      *analysisV2   `json:"analysis"`          // version 2
+	Factors       []factorV3    `json:"factors,omitempty"` // version 3
 	Plots         []plotV1      `json:"plots"`
 	Traits        []traitV1     `json:"traits"`
 }
@@ -52,11 +54,34 @@ type treatmentV1 struct {
 	Description string   `json:"description"`
 	Rate        *float64 `json:"rate"`
 	RateUnit    string   `json:"rate_unit"`
+	// Levels (version 3) holds a factorial trial's level code of every
+	// factor, in the order of "factors"; absent otherwise.
+	Levels []string `json:"levels,omitempty"`
 }
 
 type designV1 struct {
 	Kind string `json:"kind"`
 	Reps int    `json:"reps"`
+	// MainFactor and SubFactor (version 3): keys of the factor on the
+	// main plots (or horizontal strips) and of the subplot factor of a
+	// split-split plot; absent when not set.
+	MainFactor string `json:"main_factor,omitempty"`
+	SubFactor  string `json:"sub_factor,omitempty"`
+}
+
+// factorV3 is one treatment factor (version 3).
+type factorV3 struct {
+	Key    string    `json:"key"`
+	Name   string    `json:"name"`
+	Levels []levelV3 `json:"levels"`
+}
+
+// levelV3 is one level of a factor (version 3).
+type levelV3 struct {
+	Code  string   `json:"code"`
+	Name  string   `json:"name"`
+	Value *float64 `json:"value"`
+	Unit  string   `json:"unit,omitempty"`
 }
 
 type layoutV1 struct {
@@ -85,11 +110,16 @@ type randomV1 struct {
 }
 
 type plotV1 struct {
-	Number     int           `json:"number"`
-	Block      int           `json:"block"`
-	Row        int           `json:"row"`
-	Column     int           `json:"column"`
-	Treatment  string        `json:"treatment"`
+	Number    int    `json:"number"`
+	Block     int    `json:"block"`
+	Row       int    `json:"row"`
+	Column    int    `json:"column"`
+	Treatment string `json:"treatment"`
+	// MainPlot, SubPlot and Strip (version 3): see trial.Plot; absent
+	// when 0.
+	MainPlot   int           `json:"main_plot,omitempty"`
+	SubPlot    int           `json:"sub_plot,omitempty"`
+	Strip      int           `json:"strip,omitempty"`
 	Note       string        `json:"note,omitempty"`
 	Exclusions []exclusionV1 `json:"exclusions,omitempty"`
 }

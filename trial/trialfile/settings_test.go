@@ -12,7 +12,7 @@ import (
 
 // TestMigrateV1 reads a version 1 file (testdata/v1-demo.furlong, see
 // testdata/README.md): the trial opens unchanged, with the default analysis
-// settings, and saving it writes version 2 that reads back to the same
+// settings, and saving it writes the current version that reads back to the same
 // trial.
 func TestMigrateV1(t *testing.T) {
 	t.Parallel()
@@ -50,9 +50,9 @@ func TestMigrateV1(t *testing.T) {
 		t.Fatal(err)
 	}
 	out := buf.String()
-	for _, want := range []string{`"version": 2,`, `"mean_separation": "lsd"`, `"transform": "none"`, `"percent_of_check": null`} {
+	for _, want := range []string{`"version": 3,`, `"mean_separation": "lsd"`, `"transform": "none"`, `"percent_of_check": null`} {
 		if !strings.Contains(out, want) {
-			t.Errorf("the version 2 file lacks %s", want)
+			t.Errorf("the saved file lacks %s", want)
 		}
 	}
 	back, err := Decode(&buf)

@@ -22,7 +22,7 @@ func TestExitCodes(t *testing.T) {
 	}{
 		{[]string{"nosuch"}, ExitUsage, `there is no command "nosuch"`},
 		{[]string{"new", "--design", "rcbd"}, ExitUsage, "-o FILE"},
-		{[]string{"new", "-o", filepath.Join(dir, "x.furlong"), "--design", "split", "--treatments", "3", "--reps", "2"}, ExitUsage, "crd, rcbd or latin"},
+		{[]string{"new", "-o", filepath.Join(dir, "x.furlong"), "--design", "split", "--treatments", "3", "--reps", "2"}, ExitUsage, "crd, rcbd, latin, split-plot or strip-plot"},
 		{[]string{"new", "-o", filepath.Join(dir, "x.furlong"), "--treatments", "4"}, ExitUsage, "--reps"},
 		{[]string{"new", "--bogus"}, ExitUsage, "bogus"},
 		{[]string{"show", filepath.Join(dir, "missing.furlong")}, ExitFailure, "cannot find"},
