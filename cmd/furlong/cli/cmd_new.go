@@ -23,6 +23,8 @@ type newOptions struct {
 	layout                                                                trial.Layout
 	blocks, numbering, walk                                               string
 	rates, rateUnit                                                       string
+	factors                                                               factorFlags
+	mainPlot, subPlot                                                     string
 }
 
 func init() {
@@ -30,6 +32,7 @@ func init() {
 		name:    "new",
 		summary: "create and randomise a trial file",
 		usage: `furlong new -o FILE --design crd|rcbd|latin --treatments N|CODE,CODE,... [--reps N] [--seed N] [--traits KEY[:UNIT],...] [--title TEXT] [layout flags]
+furlong new -o FILE --design crd|rcbd|split-plot|strip-plot --factor "KEY=LEVEL,..." --factor ... [--main-plot KEY] --reps N [--seed N] ...
 furlong new --demo -o FILE`,
 		details: `Creates a trial, lays out and randomises its plots, and writes it to FILE (a .furlong trial file).
 
@@ -43,7 +46,7 @@ from those two traits (plot weight in kg, moisture in %), at the crop's standard
 --rates gives each treatment its rate, in the order of --treatments ("0,50,100,150,200"; leave a
 place empty for a treatment without a rate, such as an untreated control: "0,40,,80"), with
 --rate-unit naming the unit ("kg N/ha"); 'furlong response' then fits the response to the rate.
-An existing FILE is not replaced unless --force is given.`,
+An existing FILE is not replaced unless --force is given.` + newFactorHelp,
 		flags: func(env Env) (*flag.FlagSet, func(context.Context, []string) error) {
 			o := &newOptions{env: env}
 			fs := flag.NewFlagSet("new", flag.ContinueOnError)
@@ -57,6 +60,9 @@ An existing FILE is not replaced unless --force is given.`,
 			fs.StringVar(&o.yieldFrom, "yield-from", "", "add derived moisture-adjusted yield from `WEIGHT,MOISTURE` trait keys")
 			fs.StringVar(&o.rates, "rates", "", "each treatment's rate, comma-separated `list` in treatment order")
 			fs.StringVar(&o.rateUnit, "rate-unit", "", "unit of the rates, for example \"kg N/ha\"")
+			fs.Var(&o.factors, "factor", "a treatment factor `KEY[:NAME]=LEVEL,...` (repeat for each factor)")
+			fs.StringVar(&o.mainPlot, "main-plot", "", "`KEY` of the factor on main plots (split plot) or horizontal strips (strip plot)")
+			fs.StringVar(&o.subPlot, "sub-plot", "", "`KEY` of the factor on subplots of a split-split plot")
 			fs.StringVar(&o.title, "title", "", "trial title")
 			fs.StringVar(&o.crop, "crop", "", "crop (maize, soybean, wheat, barley, oats get moisture defaults)")
 			fs.StringVar(&o.season, "season", "", "season, for example 2026")
@@ -125,15 +131,22 @@ func buildNew(o *newOptions) (*trial.Trial, error) {
 	if !ok {
 		return nil, usagef("new: --design must be %s, not %q", designChoices(), o.design)
 	}
-	if o.treatments == "" {
-		return nil, usagef("new: say which treatments with --treatments N or --treatments A,B,C")
-	}
-	trts, err := parseTreatments(o.treatments)
+	factors, design, err := factorPlan(o, kind)
 	if err != nil {
 		return nil, err
 	}
-	if err := applyRates(trts, o.rates, o.rateUnit); err != nil {
-		return nil, err
+	var trts []trial.Treatment
+	if factors == nil {
+		if o.treatments == "" {
+			return nil, usagef("new: say which treatments with --treatments N or --treatments A,B,C (or give factors with --factor)")
+		}
+		trts, err = parseTreatments(o.treatments)
+		if err != nil {
+			return nil, err
+		}
+		if err := applyRates(trts, o.rates, o.rateUnit); err != nil {
+			return nil, err
+		}
 	}
 	if o.reps == 0 && kind != trial.Latin {
 		return nil, usagef("new: say how many replicates with --reps N")
@@ -185,7 +198,8 @@ func buildNew(o *newOptions) (*trial.Trial, error) {
 		Season:     o.season,
 		Site:       trial.Site{Name: o.site},
 		Treatments: trts,
-		Design:     trial.Design{Kind: kind, Reps: o.reps},
+		Factors:    factors,
+		Design:     design,
 		Layout:     l,
 		Traits:     traits,
 		Seed:       seed,

@@ -66,7 +66,7 @@ func writeShow(ctx context.Context, w io.Writer, t *trial.Trial) error {
 	line("Previous crop", t.Site.PreviousCrop)
 	line("Investigator", t.Investigator)
 	line("Objective", t.Objective)
-	line("Design", t.Design.Describe())
+	line("Design", designLine(t))
 	l := t.Layout
 	line("Plot", fmt.Sprintf("%g × %g m, harvested %.4g m², alley %g m", l.PlotLength, l.PlotWidth, l.HarvestedArea(), l.Alley))
 	var arrangement string
@@ -93,6 +93,7 @@ func writeShow(ctx context.Context, w io.Writer, t *trial.Trial) error {
 	case s.Checks > 1:
 		checks = fmt.Sprintf("%d checks", s.Checks)
 	}
+	writeFactors(w, t)
 	fmt.Fprintf(w, "\nTreatments (%d, %s):\n", s.Treatments, checks)
 	for _, tr := range t.Treatments {
 		role := ""
@@ -204,7 +205,7 @@ func writeTextMap(ctx context.Context, w io.Writer, t *trial.Trial) error {
 			if err := ctx.Err(); err != nil {
 				return err
 			}
-			fmt.Fprintf(w, "  row %3d |", r)
+			fmt.Fprintf(w, "  row %3d ", r)
 			for c := minC; c <= maxC; c++ {
 				if (c-minC)%1024 == 1023 && ctx.Err() != nil {
 					return ctx.Err()
@@ -214,9 +215,9 @@ func writeTextMap(ctx context.Context, w io.Writer, t *trial.Trial) error {
 				if ok {
 					txt = fmt.Sprintf("%d %s", p.Number, p.Treatment)
 				}
-				fmt.Fprintf(w, " %-*s |", width, txt)
+				fmt.Fprintf(w, "%s %-*s ", cellSep(t, cell, r, c), width, txt)
 			}
-			fmt.Fprintln(w)
+			fmt.Fprintln(w, "|")
 		}
 		var cols strings.Builder
 		fmt.Fprintf(&cols, "  %9s", "")
