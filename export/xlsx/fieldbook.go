@@ -82,15 +82,17 @@ func WriteFieldBook(w io.Writer, t *trial.Trial, opts FieldBookOptions) error {
 	for _, tm := range t.Treatments {
 		names[tm.Code] = tm.Name
 	}
-	ncol := len(fieldBookColumns) + len(traits)
-	first := len(fieldBookColumns) + 1
+	design := fieldbook.DesignColumns(t)
+	nfixed := len(fieldBookColumns) + len(design)
+	ncol := nfixed + len(traits)
+	first := nfixed + 1
 	// Column number formats first: setting them later would restyle the
 	// header cells too.
 	for j, tr := range traits {
 		col, _ := excelize.ColumnNumberToName(first + j)
 		s.fail(f.SetColStyle(FieldBookSheet, col, s.style(numStyleFB(tr.Decimals))))
 	}
-	for i, h := range fieldBookColumns {
+	for i, h := range append(append([]string(nil), fieldBookColumns...), design...) {
 		s.text(i+1, 1, h, headStyle)
 	}
 	for j, tr := range traits {
@@ -107,6 +109,15 @@ func WriteFieldBook(w io.Writer, t *trial.Trial, opts FieldBookOptions) error {
 		s.integer(4, row, p.Column, styleKey{})
 		s.text(5, row, p.Treatment, styleKey{})
 		s.text(6, row, names[p.Treatment], styleKey{})
+		for k, cell := range fieldbook.DesignCells(t, p) {
+			// Level codes are text; main plot, subplot and strip numbers
+			// whole numbers.
+			if n, err := strconv.Atoi(cell); err == nil && k >= len(t.Factors) {
+				s.integer(7+k, row, n, styleKey{})
+			} else {
+				s.text(7+k, row, cell, styleKey{})
+			}
+		}
 		for j, tr := range traits {
 			if i < len(tr.Values) {
 				if v := tr.Values[i]; !math.IsNaN(v) && !math.IsInf(v, 0) {

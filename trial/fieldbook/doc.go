@@ -5,7 +5,15 @@
 //
 //	plot,block,row,column,treatment,treatment_name,<trait key>,...
 //
-// with one column per stored (not derived) trait. Cells hold the current
+// with one column per stored (not derived) trait. A factorial trial's book
+// has, between treatment_name and the traits, one column per factor
+// headed by its key and holding the plot's level code, and a split or
+// strip plot's book then main_plot (the main plot, or horizontal strip,
+// within the block), a split-split plot's sub_plot and a strip plot's
+// strip (the vertical strip within the block); see DesignColumns. On
+// import a level code that differs from the trial's is an error (the book
+// belongs to another layout), a differing main plot, subplot or strip
+// number a warning, as for block, row and column. Cells hold the current
 // value in the shortest form that reads back to the same number, or are
 // empty for a missing value, so that writing a book and importing it again
 // never changes data.

@@ -160,6 +160,8 @@ type column struct {
 	header string
 	fixed  string // one of the fixed column names, or ""
 	trait  int    // index in Trial.Traits, -1 for none
+	factor int    // index in Trial.Factors of a factor column, -1 for none
+	unit   string // ColMainPlot, ColSubPlot or ColStrip, or ""
 }
 
 // Plan checks a field book table (first non-empty row the header) against
@@ -322,6 +324,18 @@ func PlanBook(t *trial.Trial, b *Book) (*ImportPlan, error) {
 							Message: fmt.Sprintf("the book gives %s %q but the trial has %d", col.fixed, text, want)})
 					}
 				}
+			case col.factor >= 0:
+				if want := t.LevelCode(pl.Treatment, col.factor); text != "" && !strings.EqualFold(text, want) {
+					p.add(Issue{Severity: Error, Line: line, Plot: number, Column: col.header, Text: text,
+						Message: fmt.Sprintf("the book gives level %q of factor %s but the trial has %q on this plot: the book belongs to another layout", text, t.Factors[col.factor].Key, want)})
+				}
+			case col.unit != "":
+				if want := unitNumber(pl, col.unit); text != "" {
+					if v, err := trial.ParseNumber(text, trial.PointOrComma); err != nil || v != float64(want) {
+						p.add(Issue{Severity: Warning, Line: line, Plot: number, Column: col.header, Text: text,
+							Message: fmt.Sprintf("the book gives %s %q but the trial has %d", strings.ReplaceAll(col.unit, "_", " "), text, want)})
+					}
+				}
 			case col.trait >= 0:
 				if msg, bad := problems[[2]int{line, c}]; bad {
 					tr := t.Traits[col.trait]
@@ -423,8 +437,20 @@ func (p *ImportPlan) mapHeader(t *trial.Trial, header []string, line int) ([]col
 	traitAt := map[int]int{}
 	for c, raw := range header {
 		name := strings.TrimSpace(raw)
-		cols[c] = column{header: name, trait: -1}
+		cols[c] = column{header: name, trait: -1, factor: -1}
 		if name == "" {
+			continue
+		}
+		if f, unit, ok := designColumn(t, name); ok {
+			key := "unit " + unit
+			if f >= 0 {
+				key = "factor " + strconv.Itoa(f)
+			}
+			if prev, dup := fixedAt[key]; dup {
+				return nil, fmt.Errorf("line %d: columns %d and %d are both headed %q", line, prev+1, c+1, name)
+			}
+			fixedAt[key] = c
+			cols[c].factor, cols[c].unit = f, unit
 			continue
 		}
 		lower := strings.ToLower(name)

@@ -50,6 +50,7 @@ func Rows(t *trial.Trial) [][]string {
 func rows(t *trial.Trial, decimalComma bool) [][]string {
 	var stored []int
 	header := append([]string(nil), fixedColumns...)
+	header = append(header, DesignColumns(t)...)
 	for j, tr := range t.Traits {
 		if tr.Derived != nil {
 			continue
@@ -66,6 +67,7 @@ func rows(t *trial.Trial, decimalComma bool) [][]string {
 	for i, p := range t.Plots {
 		r := make([]string, 0, len(header))
 		r = append(r, strconv.Itoa(p.Number), strconv.Itoa(p.Block), strconv.Itoa(p.Row), strconv.Itoa(p.Column), p.Treatment, names[p.Treatment])
+		r = append(r, DesignCells(t, p)...)
 		for _, j := range stored {
 			v := math.NaN()
 			if i < len(t.Traits[j].Values) {
