@@ -255,6 +255,9 @@ func HeatMap(t *trial.Trial, traitKey string, opt HeatMapOptions) (*plot.Plot, e
 type FieldMapOptions struct {
 	// Title replaces the trial title on the first line.
 	Title string
+	// ColourBy, the key of one of a factorial trial's factors, colours
+	// the plots by their level of that factor instead of by treatment.
+	ColourBy string
 }
 
 // FieldMap draws the printable field map: the plot grid with the plot
@@ -277,6 +280,13 @@ func FieldMap(t *trial.Trial, opt FieldMapOptions) (*plot.Plot, error) {
 	for i, trt := range t.Treatments {
 		look[trt.Code] = treatmentSwatch(i)
 	}
+	colourBy, err := colourFactor(t, opt.ColourBy)
+	if err != nil {
+		return nil, err
+	}
+	if colourBy >= 0 {
+		look = levelSwatches(t, colourBy)
+	}
 	unknown := swatch{Fill: color.White}
 	for _, pl := range t.Plots {
 		sw, ok := look[pl.Treatment]
@@ -284,7 +294,7 @@ func FieldMap(t *trial.Trial, opt FieldMapOptions) (*plot.Plot, error) {
 			sw = unknown
 		}
 		g.cells = append(g.cells, gridCell{
-			row: pl.Row, col: pl.Column, block: pl.Block, sw: sw,
+			row: pl.Row, col: pl.Column, block: pl.Block, unit: mainPlotUnit(t, pl), sw: sw,
 			lines: []string{strconv.Itoa(pl.Number), pl.Treatment},
 		})
 	}
@@ -293,7 +303,9 @@ func FieldMap(t *trial.Trial, opt FieldMapOptions) (*plot.Plot, error) {
 		title = t.Title
 	}
 	sub := "Field map"
-	if k := t.Design.Kind; k.Known() {
+	if k := t.Design.Kind; k.Known() && t.Factorial() {
+		sub += ": " + factorialDesignWords(t)
+	} else if k.Known() {
 		sub += ": " + k.Name()
 		if t.Design.Reps > 0 {
 			sub += fmt.Sprintf(", %d replicates", t.Design.Reps)
@@ -307,6 +319,8 @@ func FieldMap(t *trial.Trial, opt FieldMapOptions) (*plot.Plot, error) {
 	panel := &sidePanel{size: keySize}
 	n := len(t.Treatments)
 	switch {
+	case colourBy >= 0:
+		panel.entries = append(panel.entries, levelEntries(t, colourBy)...)
 	case n > 120:
 		panel.entries = append(panel.entries, panelEntry{text: fmt.Sprintf("%d treatments: codes\nare listed with names\nin the treatment list", n)})
 	default:
@@ -334,6 +348,9 @@ func FieldMap(t *trial.Trial, opt FieldMapOptions) (*plot.Plot, error) {
 	note := []string{orientationNote, "Cells: plot number, treatment code"}
 	if g.blockCount() > 1 {
 		note = append(note, "Thick lines: block outlines")
+	}
+	if t.Design.Kind == trial.SplitPlot {
+		note = append(note, "dark lines: main plots")
 	}
 	p.X.Label.Text = "Field column    (" + joinNotes(note) + ")"
 	panel.entries = append(orientationEntries(t), panel.entries...)

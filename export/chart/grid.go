@@ -17,6 +17,7 @@ import (
 type gridCell struct {
 	row, col int
 	block    int
+	unit     int // main plot within the block (split plots), 0 for none
 	sw       swatch
 	lines    []string // text written in the cell when it fits
 }
@@ -147,6 +148,7 @@ func (g *fieldGrid) Plot(c draw.Canvas, p *plot.Plot) {
 		side(0, 1, vg.Point{X: r.Max.X, Y: r.Min.Y}, r.Max)
 	}
 	strokeSegments(c, draw.LineStyle{Color: color.Black, Width: vg.Points(2)}, segs)
+	g.plotUnits(c, trX, trY)
 }
 
 // DataRange is the whole grid.
