@@ -60,6 +60,10 @@ type Data struct {
 	// PlotIndex[i], when set, is the index of observation i in the trial's
 	// plots (Result.PlotIndex keeps the fitted ones).
 	PlotIndex []int
+	// Factors, when set, are the crossed treatment factors in design order
+	// (a split plot's main-plot factor first); Treatments are then their
+	// combinations and Design CRD, RCBD, SplitPlot or StripPlot.
+	Factors []FactorData
 }
 
 // Error is a trait that could not be analysed, with the reason in plain words.
@@ -201,10 +205,22 @@ func FromTrial(t *trial.Trial, key string) (*Data, error) {
 		d.Rows, d.Cols = len(rows), len(cols)
 	case trial.SplitPlot, trial.StripPlot:
 		// Analysing such a trial as one list of treatments would test the
-		// main-plot factor against the wrong error, so it is refused.
-		return nil, &Error{Trait: key, Msg: fmt.Sprintf("this trial is a %s, whose analysis needs the error of each stratum; this version of Furlong cannot analyse it yet", t.Design.Kind.Name()), Err: ErrUnknownDesign}
+		// main-plot factor against the wrong error, so it needs factors.
+		if !t.Factorial() {
+			return nil, &Error{Trait: key, Msg: fmt.Sprintf("this trial is a %s but has no treatment factors; give it its factors and levels", t.Design.Kind.Name()), Err: ErrUnknownDesign}
+		}
+		var nums []int
+		blockLevel, nums = levelsOf(t.Plots, func(p trial.Plot) int { return p.Block })
+		d.Blocks = len(nums)
+		for _, b := range nums {
+			d.BlockLabels = append(d.BlockLabels, fmt.Sprintf("block %d", b))
+		}
 	default:
 		return nil, &Error{Trait: key, Msg: fmt.Sprintf("the design kind %q is not one Furlong knows, so the trial cannot be analysed; it may come from a newer Furlong", string(t.Design.Kind)), Err: ErrUnknownDesign}
+	}
+	var plotLevels [][]int
+	if t.Factorial() {
+		plotLevels = factorsFromTrial(t, d)
 	}
 	for i, p := range t.Plots {
 		if ex, reason := t.Excluded(i, key); ex {
@@ -219,8 +235,11 @@ func FromTrial(t *trial.Trial, key string) (*Data, error) {
 		d.Values = append(d.Values, vals[i])
 		d.Plot = append(d.Plot, p.Number)
 		d.PlotIndex = append(d.PlotIndex, i)
+		for f := range plotLevels {
+			d.Factors[f].Index = append(d.Factors[f].Index, plotLevels[f][i])
+		}
 		switch t.Design.Kind {
-		case trial.RCBD:
+		case trial.RCBD, trial.SplitPlot, trial.StripPlot:
 			d.Block = append(d.Block, blockLevel[p.Block])
 		case trial.Latin:
 			d.Row = append(d.Row, rowLevel[p.Row])
@@ -271,6 +290,9 @@ func AnalyzeData(d *Data, o Options) (*Result, error) {
 		TraitKey: d.TraitKey, TraitName: d.TraitName, Unit: d.Unit, Decimals: d.Decimals,
 		HigherBetter: d.HigherBetter, Design: d.Design, Alpha: o.Alpha, Method: o.Method, Transform: o.Transform,
 		Excluded: d.Excluded,
+	}
+	if len(d.Factors) > 0 {
+		return analyzeFactorial(d, o, r)
 	}
 	// Keep the observations with values.
 	var y []float64

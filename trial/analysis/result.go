@@ -52,6 +52,11 @@ type Result struct {
 	Excluded []Excluded // plots left out, with their reasons
 
 	ANOVA *stats.ANOVA
+	// Factorial is the analysis of crossed treatment factors (factorial,
+	// split plot, strip plot): strata ANOVA, effects, SEDs, slices; nil
+	// for one list of treatments. ANOVA, Means and Pairs are filled too
+	// (the treatment combinations), so every view of one list works.
+	Factorial *Factorial
 
 	// Means, one per treatment in the trial's treatment order.
 	Means []Mean

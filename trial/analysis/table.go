@@ -20,6 +20,13 @@ type TableColumns struct {
 	// Responses to analyse; empty means every column that is not a factor
 	// and holds only numbers (and empty cells).
 	Responses []string
+	// Factors, instead of Treatment, are 1 to 3 columns of crossed
+	// treatment factors (a factorial); MainPlot names the one on main
+	// plots (a split plot, needs Block), Strip makes a strip plot of two
+	// factors (the first horizontal, needs Block). See factorial.go.
+	Factors  []string
+	MainPlot string
+	Strip    bool
 }
 
 // TableError is a problem in a data table, with its line (1 = header) and
@@ -146,11 +153,19 @@ func ReadTable(ctx context.Context, src RowSource, mark trial.DecimalMark, c Tab
 		}
 		return &level{col: i, name: header[i], seen: map[string]int{}}, nil
 	}
-	trt, err := newLevel(c.Treatment)
-	if err != nil {
-		return nil, err
+	var trt *level
+	var factors, facs []*level
+	if len(c.Factors) > 0 {
+		if facs, err = factorColumns(c, hline, newLevel); err != nil {
+			return nil, err
+		}
+		factors = append(factors, facs...)
+	} else {
+		if trt, err = newLevel(c.Treatment); err != nil {
+			return nil, err
+		}
+		factors = []*level{trt}
 	}
-	factors := []*level{trt}
 	design := trial.CRD
 	var blk, row, col *level
 	if c.Block != "" {
@@ -161,6 +176,9 @@ func ReadTable(ctx context.Context, src RowSource, mark trial.DecimalMark, c Tab
 		design = trial.RCBD
 	}
 	if c.Row != "" || c.Column != "" {
+		if facs != nil {
+			return nil, &TableError{Line: hline, Msg: "a Latin square cannot hold crossed treatment factors here; give --block for randomised complete blocks, or leave the blocks out"}
+		}
 		if row, err = newLevel(c.Row); err != nil {
 			return nil, err
 		}
@@ -257,6 +275,12 @@ func ReadTable(ctx context.Context, src RowSource, mark trial.DecimalMark, c Tab
 	if len(kept) == 0 {
 		return nil, &TableError{Line: hline, Msg: "no column holds numbers to analyse; name one with --response"}
 	}
+	var fd *factorTable
+	if facs != nil {
+		if fd, err = combinations(facs, c, blk); err != nil {
+			return nil, err
+		}
+	}
 	if row != nil && (len(row.names) != len(trt.names) || len(col.names) != len(trt.names)) {
 		return nil, &TableError{Msg: fmt.Sprintf("a Latin square needs as many rows and columns as treatments: the table has %d treatments, %d rows and %d columns", len(trt.names), len(row.names), len(col.names))}
 	}
@@ -264,9 +288,13 @@ func ReadTable(ctx context.Context, src RowSource, mark trial.DecimalMark, c Tab
 	for _, r := range kept {
 		d := &Data{
 			TraitKey: r.name, TraitName: r.name, Decimals: 2, HigherBetter: true,
-			Kind: trial.Continuous, Design: design, Treatments: trt.names,
-			Treatment: trt.index, Values: r.values, Plot: lines,
+			Kind: trial.Continuous, Design: design, Values: r.values, Plot: lines,
 			Lines: true,
+		}
+		if fd != nil {
+			d.Treatments, d.Treatment, d.Factors, d.Design = fd.treatments, fd.treatment, fd.factors, fd.design
+		} else {
+			d.Treatments, d.Treatment = trt.names, trt.index
 		}
 		if blk != nil {
 			d.Block, d.Blocks, d.BlockLabels = blk.index, len(blk.names), blk.names
