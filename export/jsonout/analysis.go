@@ -72,7 +72,9 @@ func writeTrait(w *Writer, oc analysis.Outcome) {
 	}
 	r := oc.Result
 	a := r.ANOVA
-	if r.Design != "" {
+	if r.Factorial != nil {
+		w.StringField("design", r.Factorial.Design)
+	} else if r.Design != "" {
 		w.StringField("design", string(r.Design))
 	}
 	if r.Transform != stats.NoTransform {
@@ -81,7 +83,11 @@ func writeTrait(w *Writer, oc analysis.Outcome) {
 	w.IntField("n", r.N)
 	w.IntField("missing", r.Missing)
 	w.IntField("excluded", len(r.Excluded))
-	writeANOVA(w, a)
+	if r.Factorial != nil {
+		writeFactorialANOVA(w, r.Factorial)
+	} else {
+		writeANOVA(w, a)
+	}
 	w.NumberField("grand_mean", a.GrandMean)
 	w.NumberField("mse", a.MSE)
 	w.IntField("df_error", a.DFError)
@@ -107,6 +113,9 @@ func writeTrait(w *Writer, oc analysis.Outcome) {
 	writePairs(w, r.Pairs)
 	writeDiagnostics(w, &r.Diagnostics)
 	writeVsCheck(w, r.VsCheck)
+	if r.Factorial != nil {
+		writeFactorial(w, r) // factorial.go
+	}
 	w.Key("warnings")
 	w.Strings(r.Warnings)
 }

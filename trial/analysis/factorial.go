@@ -418,7 +418,11 @@ func analyzeFactorial(d *Data, o Options, r *Result) (*Result, error) {
 		if s.HasTest {
 			fs.F, fs.P, fs.DFDen = ptr(s.F), ptr(s.P), ptr(s.DFDen)
 		}
-		fs.Means = effectMeans(d, []int{s.Factor}, s.Means, s.Comparison, o.Transform != stats.NoTransform, back)
+		fs.Means = effectMeans(d, nil, s.Means, s.Comparison, o.Transform != stats.NoTransform, back)
+		for i := range fs.Means {
+			// A slice's means are the compared factor's levels in order.
+			fs.Means[i].Levels = []string{d.Factors[s.Factor].Levels[i]}
+		}
 		if s.Comparison != nil {
 			var lsd, hsd *float64
 			sedStats(s.Comparison, len(s.Means), &fs.SED, &fs.SEDDF, &fs.SEDRange, &lsd, &hsd, o.Alpha)

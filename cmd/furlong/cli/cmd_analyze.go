@@ -31,6 +31,7 @@ type analyzeOptions struct {
 	unprotected, decimalComma                                       bool
 	check                                                           string
 	lowerBetter                                                     bool
+	factorial                                                       factorialFlags // cmd_analyze_factorial.go
 }
 
 type stringList []string
@@ -43,7 +44,8 @@ func init() {
 		name:    "analyze",
 		summary: "analyse traits: ANOVA, means with LSD and Tukey letters, diagnostics",
 		usage: `furlong analyze TRIAL.furlong [--trait KEY] [--alpha 0.05] [--format text|json|csv] [--transform log|sqrt|arcsin] [--unprotected]
-furlong analyze DATA.csv --treatment COL [--block COL | --row COL --column COL] [--response COL]... [flags]`,
+furlong analyze DATA.csv --treatment COL [--block COL | --row COL --column COL] [--response COL]... [flags]
+furlong analyze DATA.csv --factor COL --factor COL [--factor COL] [--block COL] [--main-plot COL | --strip-plot] [--response COL]... [flags]`,
 		details: `Analyses every trait of a trial (or the one named by --trait) with the ANOVA that fits its design:
 one-way for a completely randomised design, treatment + block for an RCBD, treatment + row + column
 for a Latin square. With missing plots the model is fitted by least squares, each sum of squares is
@@ -57,6 +59,7 @@ Windows-1252 text, any line endings, a "sep=;" first line; blank lines are skipp
 comma-separated file a comma inside a number is refused as ambiguous unless --decimal-comma is
 given; semicolon- and tab-separated files may use decimal commas.
 
+`+factorialHelp+`
 Output: text (aligned tables for a terminal), json (every number at full precision; see the README
 for the fields) or csv (one row per treatment mean).`,
 		flags: func(env Env) (*flag.FlagSet, func(context.Context, []string) error) {
@@ -89,6 +92,7 @@ func analyzeFlags(o *analyzeOptions) *flag.FlagSet {
 	fs.StringVar(&o.check, "check", "", "compare every treatment with this check `code` (Dunnett); default: the trial's one check")
 	fs.BoolVar(&o.lowerBetter, "lower-is-better", false, "CSV: lower values are better (for the one-sided comparison with the check)")
 	fs.BoolVar(&o.decimalComma, "decimal-comma", false, "CSV: the comma-separated file has decimal commas in quoted cells (\"5,23\")")
+	o.factorial.define(fs)
 	return fs
 }
 
@@ -116,8 +120,8 @@ func runAnalyze(ctx context.Context, o analyzeOptions) error {
 	if isCSV(path) {
 		outcomes, err = analyzeCSV(ctx, o, path, opts)
 	} else {
-		if o.treatment != "" || o.block != "" || o.row != "" || o.column != "" || len(o.responses) > 0 {
-			return usagef("analyze: --treatment, --block, --row, --column and --response are for CSV input; a trial file knows its design")
+		if o.treatment != "" || o.block != "" || o.row != "" || o.column != "" || len(o.responses) > 0 || o.factorial.given() {
+			return usagef("analyze: --treatment, --factor, --block, --main-plot, --strip-plot, --row, --column and --response are for CSV input; a trial file knows its design")
 		}
 		var t *trial.Trial
 		t, err = trialfile.Load(path)
@@ -188,6 +192,7 @@ func analyzeCSVTables(ctx context.Context, o analyzeOptions, r io.Reader) ([]*an
 	}
 	tab, err := analysis.ReadTable(ctx, rd, rd.Mark(), analysis.TableColumns{
 		Treatment: o.treatment, Block: o.block, Row: o.row, Column: o.column, Responses: o.responses,
+		Factors: o.factorial.factors, MainPlot: o.factorial.mainPlot, Strip: o.factorial.strip,
 	})
 	if err != nil {
 		if msg := decimalCommaHint(err, rd); msg != "" {
@@ -229,8 +234,11 @@ func analyzeCSV(ctx context.Context, o analyzeOptions, path string, opts analysi
 	if o.trait != "" {
 		return nil, usagef("analyze: --trait is for trial files; use --response for a CSV column")
 	}
-	if o.treatment == "" {
-		return nil, usagef("analyze: say which column holds the treatments with --treatment COL")
+	if err := o.factorial.check(o); err != nil {
+		return nil, err
+	}
+	if o.treatment == "" && !o.factorial.given() {
+		return nil, usagef("analyze: say which column holds the treatments with --treatment COL (or the factors with --factor COL, once per factor)")
 	}
 	if (o.row == "") != (o.column == "") {
 		return nil, usagef("analyze: a Latin square needs both --row and --column")
@@ -359,6 +367,10 @@ func writeResultText(w io.Writer, r *analysis.Result) {
 }
 
 func writeResultTables(w io.Writer, r *analysis.Result) {
+	if r.IsFactorial() {
+		writeFactorialTables(w, r)
+		return
+	}
 	a := r.ANOVA
 	title := r.TraitKey
 	if r.TraitName != "" && r.TraitName != r.TraitKey {
