@@ -59,7 +59,7 @@ Windows-1252 text, any line endings, a "sep=;" first line; blank lines are skipp
 comma-separated file a comma inside a number is refused as ambiguous unless --decimal-comma is
 given; semicolon- and tab-separated files may use decimal commas.
 
-`+factorialHelp+`
+` + factorialHelp + `
 Output: text (aligned tables for a terminal), json (every number at full precision; see the README
 for the fields) or csv (one row per treatment mean).`,
 		flags: func(env Env) (*flag.FlagSet, func(context.Context, []string) error) {
