@@ -58,15 +58,23 @@ func (r *report) writeTrait(name string, tr trial.Trait) error {
 	// Analysis of variance.
 	s.textNoWidth(1, row, "Analysis of variance", sectionStyle)
 	row++
+	if a.IsFactorial() {
+		row = s.writeFactorialANOVA(a, row) // trait_factorial.go
+	}
 	for i, h := range []string{"Source", "df", "SS", "MS", "F", "p"} {
+		if a.IsFactorial() {
+			break
+		}
 		k := headStyle
 		if i > 0 {
 			k = headNumStyle // over right-aligned numbers
 		}
 		s.text(1+i, row, h, k)
 	}
-	row++
-	if a.ANOVA != nil {
+	if !a.IsFactorial() {
+		row++
+	}
+	if a.ANOVA != nil && !a.IsFactorial() {
 		for _, src := range a.ANOVA.Sources {
 			s.text(1, row, export.SourceName(src), styleKey{})
 			s.integer(2, row, src.DF, styleKey{})
@@ -173,6 +181,10 @@ func (r *report) writeTrait(name string, tr trial.Trait) error {
 		row++
 	}
 	row++
+	interactionRow := 0
+	if a.IsFactorial() {
+		row, interactionRow = s.writeFactorialMeans(a, row, scaleDec, string(r.opts.Method))
+	}
 
 	// Statistics.
 	s.textNoWidth(1, row, "Statistics", sectionStyle)
@@ -256,6 +268,9 @@ func (r *report) writeTrait(name string, tr trial.Trait) error {
 				Format: &excelize.GraphicOptions{AltText: "Chart of the means of " + title, PrintObject: &yes, LockAspectRatio: true},
 			}))
 		}
+	}
+	if r.opts.Charts && a.IsFactorial() && s.err == nil {
+		s.addInteractionChart(r.f, name, a, interactionRow, title)
 	}
 	s.printSetup(r.opts.Paper, true, r.t.Title+": "+title)
 	return s.err
