@@ -184,27 +184,32 @@ func writeMeans(w *Writer, r *analysis.Result) {
 }
 
 // writePairs writes "pairs", one compact object per pair of treatments.
+// Long lists are formatted in chunks on every processor and written in
+// order (see writeElements); the bytes are those of one loop.
 func writePairs(w *Writer, pairs []analysis.Pair) {
 	w.Key("pairs")
 	w.BeginArray()
-	// Balanced data repeat the SE, LSD and HSD in every pair.
-	var se, lsd, hsd NumberMemo
-	for i := range pairs {
-		p := &pairs[i]
-		w.BeginCompactObject()
-		w.StringField("a", p.A)
-		w.StringField("b", p.B)
-		w.NumberField("diff", p.Diff)
-		w.NumberFieldMemo("se", p.SE, &se)
-		w.NumberField("p_lsd", p.PLSD)
-		w.NumberField("p_tukey", p.PTukey)
-		w.NumberFieldMemo("lsd", p.LSD, &lsd)
-		w.NumberFieldMemo("hsd", p.HSD, &hsd)
-		w.EndObject()
-		if w.Err() != nil {
-			break
+	writeElements(w, len(pairs), func(sw *Writer, lo, hi int) {
+		// Balanced data repeat the SE, LSD and HSD in every pair.
+		var se, lsd, hsd NumberMemo
+		for i := lo; i < hi; i++ {
+			p := &pairs[i]
+			sw.BeginCompactObject()
+			sw.StringField("a", p.A)
+			sw.StringField("b", p.B)
+			sw.NumberField("diff", p.Diff)
+			sw.NumberFieldMemo("se", p.SE, &se)
+			sw.NumberField("p_lsd", p.PLSD)
+			sw.NumberField("p_tukey", p.PTukey)
+			sw.NumberFieldMemo("lsd", p.LSD, &lsd)
+			sw.NumberFieldMemo("hsd", p.HSD, &hsd)
+			sw.EndObject()
+			if sw.Err() != nil {
+				return
+			}
+			sw.maybeFlush()
 		}
-	}
+	})
 	w.EndArray()
 }
 

@@ -82,7 +82,7 @@ func (w *Writer) write() {
 }
 
 func (w *Writer) maybeFlush() {
-	if len(w.buf) >= flushAt {
+	if w.out != nil && len(w.buf) >= flushAt {
 		w.write()
 	}
 }

@@ -44,9 +44,12 @@ func fitChebTable(f func(float64) float64, a, b float64, n int, tol float64, min
 		}
 		c := 0.5 * (lo + hi)
 		h := 0.5 * (hi - lo)
-		for j := 0; j < n; j++ {
-			vals[j] = f(c + h*cosTab[n+j])
-		}
+		// The n values are independent: computed on every processor.
+		parallelRange(n, func(lo, hi int) {
+			for j := lo; j < hi; j++ {
+				vals[j] = f(c + h*cosTab[n+j])
+			}
+		})
 		coef := make([]float64, n)
 		for m := 0; m < n; m++ {
 			var s float64

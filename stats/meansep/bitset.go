@@ -31,6 +31,21 @@ func (b bitset) meets(c bitset) bool {
 	return false
 }
 
+// meetsExcept reports whether b ∩ c holds a member other than x.
+func (b bitset) meetsExcept(c bitset, x int) bool {
+	xw, xb := x>>6, uint64(1)<<(uint(x)&63)
+	for i, w := range b {
+		v := w & c[i]
+		if i == xw {
+			v &^= xb
+		}
+		if v != 0 {
+			return true
+		}
+	}
+	return false
+}
+
 func (b bitset) equal(c bitset) bool {
 	for i, w := range b {
 		if w != c[i] {

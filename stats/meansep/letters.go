@@ -97,17 +97,20 @@ func letterColumns(means []float64, sig func(i, j int) bool, opt LetterOptions) 
 		}
 		return 0
 	})
+	rank := make([]int, k)
+	for r, i := range order {
+		rank[i] = r
+	}
 	sigSet := make([]bitset, k)
 	for r := range sigSet {
 		sigSet[r] = newBitset(k)
 	}
-	for a := range k {
-		for b := a + 1; b < k; b++ {
-			i, j := order[a], order[b]
-			if i > j {
-				i, j = j, i
-			}
+	// Pairs in level order (i < j), the order a caller stores them in.
+	for i := range k {
+		a := rank[i]
+		for j := i + 1; j < k; j++ {
 			if sig(i, j) {
+				b := rank[j]
 				sigSet[a].set(b)
 				sigSet[b].set(a)
 			}
@@ -318,44 +321,98 @@ func sweep(k int, cols []bitset) []bitset {
 		col.each(func(t int) { m = append(m, int32(t)) })
 		members[c] = m
 	}
-	// shared[i*k+j]: number of columns holding both i and j (i == j: the
-	// number of columns holding i).
-	shared := make([]uint16, k*k) // counts ≤ MaxLetterColumns < 65536
-	for _, m := range members {
-		for _, i := range m {
-			row := shared[int(i)*k : int(i)*k+k]
-			for _, j := range m {
-				row[j]++
+	shared, stride := sharedCounts(k, members)
+	// low[i] holds the j ≠ i that share at most one column with i: a
+	// letter of i in column c can go exactly when i has two or more
+	// letters and no other member of c is in low[i]. Counts only fall, so
+	// low only grows.
+	low := make([]bitset, k)
+	count := make([]int, k)
+	for i := range k {
+		low[i] = newBitset(k)
+		row := shared[i*stride : i*stride+k]
+		for j, n := range row {
+			if n <= 1 && j != i {
+				low[i].set(j)
 			}
 		}
+		count[i] = int(row[i])
 	}
 	for c, col := range cols {
 		m := members[c]
 		for p := 0; p < len(m); {
 			i := int(m[p])
-			row := shared[i*k : i*k+k]
-			removable := row[i] >= 2
-			for _, j := range m {
-				if removable && int(j) != i && row[j] < 2 {
-					removable = false
-					break
-				}
-			}
-			if !removable {
+			if count[i] < 2 || col.meetsExcept(low[i], i) {
 				p++
 				continue
 			}
 			col.clear(i)
 			m = append(m[:p], m[p+1:]...)
+			count[i]--
+			row := shared[i*stride : i*stride+k]
 			row[i]--
 			for _, j := range m {
 				row[j]--
-				shared[int(j)*k+i]--
+				shared[int(j)*stride+i]--
+				if row[j] <= 1 {
+					low[i].set(int(j))
+					low[int(j)].set(i)
+				}
 			}
 		}
 		members[c] = m
 	}
 	return slices.DeleteFunc(cols, func(c bitset) bool { return c.first() < 0 })
+}
+
+// sharedCounts returns, for columns given by their sorted members, the
+// number of columns holding both i and j at shared[i*stride+j] (i == j:
+// the number of columns holding i), stride = k+1. Each column is taken as
+// its runs of consecutive members: a pair of runs adds 1 to a rectangle of
+// the matrix, which a two-dimensional difference array records in four
+// cells, so the work is the squared number of runs per column plus k², not
+// the squared number of members (the columns of a large trial are long
+// runs of neighbouring ranks). The counts are kept modulo 2¹⁶, which is
+// exact because no count exceeds MaxLetterColumns.
+func sharedCounts(k int, members [][]int32) ([]uint16, int) {
+	stride := k + 1
+	d := make([]uint16, stride*stride)
+	var runs [][2]int
+	for _, m := range members {
+		runs = runs[:0]
+		for p := 0; p < len(m); {
+			q := p
+			for q+1 < len(m) && m[q+1] == m[q]+1 {
+				q++
+			}
+			runs = append(runs, [2]int{int(m[p]), int(m[q])})
+			p = q + 1
+		}
+		for _, a := range runs {
+			r0, r1 := a[0]*stride, (a[1]+1)*stride
+			for _, b := range runs {
+				c0, c1 := b[0], b[1]+1
+				d[r0+c0]++
+				d[r0+c1]--
+				d[r1+c0]--
+				d[r1+c1]++
+			}
+		}
+	}
+	// Prefix sums along rows, then down columns.
+	for i := range stride {
+		row := d[i*stride : i*stride+stride]
+		for j := 1; j < stride; j++ {
+			row[j] += row[j-1]
+		}
+	}
+	for i := 1; i < stride; i++ {
+		row, prev := d[i*stride:i*stride+stride], d[(i-1)*stride:i*stride]
+		for j := range row {
+			row[j] += prev[j]
+		}
+	}
+	return d, stride
 }
 
 // sortColumns orders columns (sets of ranks) lexicographically by their

@@ -49,15 +49,19 @@ func (r *Result) Significant(m Method) func(i, j int) bool {
 	if m != LSD && m != Tukey {
 		panic("meansep: unknown method")
 	}
+	if m == LSD {
+		return func(i, j int) bool {
+			if i > j {
+				i, j = j, i
+			}
+			return r.Pairs[pairIndex(k, i, j)].PLSD < alpha
+		}
+	}
 	return func(i, j int) bool {
 		if i > j {
 			i, j = j, i
 		}
-		p := &r.Pairs[pairIndex(k, i, j)]
-		if m == LSD {
-			return p.PLSD < alpha
-		}
-		return p.PTukey < alpha
+		return r.Pairs[pairIndex(k, i, j)].PTukey < alpha
 	}
 }
 

@@ -5,6 +5,7 @@ import (
 
 	"furlong/stats"
 	"furlong/stats/meansep"
+	"furlong/trial"
 )
 
 // separate compares all pairs of least-squares means and letters them by
@@ -18,6 +19,15 @@ func separate(r *Result, a *stats.ANOVA, lsm []float64, o Options) (float64, err
 	if cmp.EqualSE {
 		r.LSD, r.HSD = cmp.LSD, cmp.HSD
 	}
+	lo := meansep.LetterOptions{LowerIsBetter: !r.HigherBetter}
+	// Tukey's letters are built on a second goroutine while the pairs are
+	// copied and the LSD letters built (independent work on cmp, which
+	// both only read).
+	var tk meansep.Lettering
+	var tkErr error
+	var wk trial.Workers
+	wk.Go(func() { tk, tkErr = cmp.TukeyLetters(lo) })
+	defer wk.Wait()
 	r.Pairs = make([]Pair, len(cmp.Pairs))
 	var lsd, hsd Range
 	for n, p := range cmp.Pairs {
@@ -40,15 +50,14 @@ func separate(r *Result, a *stats.ANOVA, lsm []float64, o Options) (float64, err
 	if len(r.Pairs) > 0 && finite(lsd.Min) && finite(lsd.Max) && finite(hsd.Min) && finite(hsd.Max) {
 		r.LSDRange, r.HSDRange = &lsd, &hsd
 	}
-	lo := meansep.LetterOptions{LowerIsBetter: !r.HigherBetter}
 	trtLine, _ := a.Treatment()
 	lsdL, err := cmp.LSDLetters(trtLine.P, o.Unprotected, lo)
 	if err != nil {
 		return 0, err
 	}
-	tk, err := cmp.TukeyLetters(lo)
-	if err != nil {
-		return 0, err
+	wk.Wait()
+	if tkErr != nil {
+		return 0, tkErr
 	}
 	r.LSDLettersGiven = !lsdL.Withheld
 	if lsdL.Withheld && lsdL.Note != "" {
