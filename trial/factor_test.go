@@ -428,3 +428,36 @@ func TestSetPlan(t *testing.T) {
 		t.Error("Clone shares factors or levels")
 	}
 }
+
+// TestParseLevelsRoundTrip: FormatLevels writes what ParseLevels reads
+// back to the same levels, for rates with a unit, named codes and plain
+// codes (the one-line form documented in ParseLevels; common practice
+// for rates: "0, 60, 120 kg N/ha").
+func TestParseLevelsRoundTrip(t *testing.T) {
+	t.Parallel()
+	for _, c := range []struct{ key, in, out string }{
+		{"N", "0,60,120 kg N/ha", "0,60,120 kg N/ha"},
+		{"V", "V1=Amberline, V2 ,V3", "V1=Amberline,V2,V3"},
+		{"D", "2.5,5", "2.5,5"},
+		{"T", "CT=ploughed,NT", "CT=ploughed,NT"},
+	} {
+		ls, err := ParseLevels(c.key, c.in)
+		if err != nil {
+			t.Fatalf("%q: %v", c.in, err)
+		}
+		f := Factor{Key: c.key, Levels: ls}
+		if got := FormatLevels(f); got != c.out {
+			t.Errorf("FormatLevels(ParseLevels(%q)) = %q, want %q", c.in, got, c.out)
+		}
+		again, err := ParseLevels(c.key, FormatLevels(f))
+		if err != nil || !reflect.DeepEqual(again, ls) {
+			t.Errorf("%q does not read back: %+v %v", c.in, again, err)
+		}
+	}
+	if ls, _ := ParseLevels("N", "0,60 kg N/ha"); ls[1].Code != "N60" || *ls[1].Value != 60 || ls[1].Unit != "kg N/ha" || ls[1].Name != "60 kg N/ha" {
+		t.Errorf("rate level %+v", ls[1])
+	}
+	if _, err := ParseFactorSpec("V:Variety"); err == nil {
+		t.Error("a factor without levels was read")
+	}
+}

@@ -223,18 +223,23 @@ func (f *fieldStep) loadMap() {
 		return
 	}
 	t := f.t()
+	f.colourChoices(t)
 	byBlock := f.colorBy.Selected == "Colour by block"
+	byFactor := f.colourFactor(t)
 	plots := make([]fieldmap.Plot, len(t.Plots))
 	for i, p := range t.Plots {
 		g := t.TreatmentIndex(p.Treatment)
 		if byBlock {
 			g = p.Block - 1
 		}
+		if byFactor >= 0 {
+			g = t.Factors[byFactor].LevelIndex(t.LevelCode(p.Treatment, byFactor))
+		}
 		ex := false
 		for _, e := range p.Exclusions {
 			ex = ex || e.Trait == ""
 		}
-		plots[i] = fieldmap.Plot{Row: p.Row, Column: p.Column, Number: p.Number, Code: p.Treatment, Block: p.Block, Group: g, Excluded: ex}
+		plots[i] = fieldmap.Plot{Row: p.Row, Column: p.Column, Number: p.Number, Code: p.Treatment, Block: p.Block, Unit: mapUnit(t, p), Group: g, Excluded: ex}
 	}
 	f.fmap.SetPlots(plots)
 	f.fmap.SetOrientation(northName(t.Layout.Orientation.North), t.Layout.Orientation.Landmark)
@@ -253,7 +258,7 @@ func (f *fieldStep) showDetails(i int) {
 	if t.Design.Kind == trial.CRD { // no blocks
 		fmt.Fprintf(&b, "Plot %d\nfield row %d, column %d\n", p.Number, p.Row, p.Column)
 	} else {
-		fmt.Fprintf(&b, "Plot %d\n%s %d · field row %d, column %d\n", p.Number, blockWord(t), p.Block, p.Row, p.Column)
+		fmt.Fprintf(&b, "Plot %d\n%s %d%s · field row %d, column %d\n", p.Number, blockWord(t), p.Block, mainPlotWords(t, &p), p.Row, p.Column)
 	}
 	if tr := t.Treatment(p.Treatment); tr != nil {
 		fmt.Fprintf(&b, "%s  %s", tr.Code, tr.Name)
@@ -261,6 +266,7 @@ func (f *fieldStep) showDetails(i int) {
 			b.WriteString(" (check)")
 		}
 		b.WriteString("\n")
+		b.WriteString(levelLines(t, tr))
 	}
 	for j := range t.Traits {
 		tr := &t.Traits[j]

@@ -41,7 +41,8 @@ type recordStep struct {
 	hasSel  bool
 	derived map[int][]float64 // trait index → computed values, for derived traits
 	widths  []float32         // of each column, as setWidths set them
-	nfixed  int               // plot, block (not for CRD) and treatment columns
+	nfixed  int               // plot, block (not for CRD), treatment and design columns
+	nbase   int               // plot, block (not for CRD) and treatment columns
 	loaded  string            // the text loadEntry put in the entry
 	// returning is set while the grid goes back to a cell whose typed
 	// text could not be stored.
@@ -255,7 +256,7 @@ func (r *recordStep) loadEntry() {
 	if tr := t.Treatment(p.Treatment); tr != nil {
 		name = tr.Name
 	}
-	where := fmt.Sprintf("Plot %d · %s %d · %s %s", p.Number, blockWord(t), p.Block, p.Treatment, name)
+	where := fmt.Sprintf("Plot %d · %s %d%s · %s %s", p.Number, blockWord(t), p.Block, mainPlotWords(t, p), p.Treatment, name)
 	if t.Design.Kind == trial.CRD {
 		where = fmt.Sprintf("Plot %d · %s %s", p.Number, p.Treatment, name)
 	}

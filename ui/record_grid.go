@@ -10,6 +10,7 @@ import (
 	"fyne.io/fyne/v2/widget"
 
 	"furlong/trial"
+	"furlong/trial/fieldbook"
 )
 
 func (r *recordStep) length() (int, int) {
@@ -25,16 +26,22 @@ func (r *recordStep) setWidths() {
 		r.widths = append(r.widths, w)
 	}
 	// A completely randomised trial has no blocks: no block column.
-	r.nfixed = fixedCols
+	r.nbase = fixedCols
 	if t.Design.Kind == trial.CRD {
-		r.nfixed = fixedCols - 1
+		r.nbase = fixedCols - 1
 	}
-	r.table.StickyColumnCount = r.nfixed
+	design := fieldbook.DesignColumns(t)
+	r.nfixed = r.nbase + len(design)
+	r.table.StickyColumnCount = r.nbase
 	set(70)
-	if r.nfixed == fixedCols {
+	if r.nbase == fixedCols {
 		set(60)
 	}
 	set(210)
+	for _, h := range design {
+		w := fyne.MeasureText(designHeader(t, h), theme.TextSize(), fyne.TextStyle{Bold: true}).Width + 4*theme.Padding()
+		set(min(max(w+2*theme.Padding(), 70), 190))
+	}
 	pad := 4 * theme.Padding()
 	for j := range t.Traits {
 		head := traitLabel(&t.Traits[j]) + " ="
@@ -50,7 +57,10 @@ func (r *recordStep) kind(col int) int {
 	if col >= r.nfixed {
 		return fixedCols
 	}
-	if r.nfixed < fixedCols && col >= colBlock {
+	if col >= r.nbase {
+		return colDesign
+	}
+	if r.nbase < fixedCols && col >= colBlock {
 		return col + 1 // no block column
 	}
 	return col
@@ -91,6 +101,10 @@ func (r *recordStep) updateHeader(id widget.TableCellID, o fyne.CanvasObject) {
 		l.SetText(blockWord(t))
 	case k == colTreatment:
 		l.SetText("Treatment")
+	case k == colDesign:
+		if cols := fieldbook.DesignColumns(t); id.Col-r.nbase < len(cols) {
+			l.SetText(designHeader(t, cols[id.Col-r.nbase]))
+		}
 	case id.Col-r.nfixed < len(t.Traits):
 		tr := &t.Traits[id.Col-r.nfixed]
 		s := traitLabel(tr)
@@ -145,6 +159,10 @@ func (r *recordStep) updateCell(id widget.TableCellID, o fyne.CanvasObject) {
 		text = p.Treatment
 		if tr := t.Treatment(p.Treatment); tr != nil && tr.Name != "" && tr.Name != tr.Code {
 			text += "  " + tr.Name
+		}
+	case k == colDesign:
+		if cells := fieldbook.DesignCells(t, *p); id.Col-r.nbase < len(cells) {
+			text = cells[id.Col-r.nbase]
 		}
 	case id.Col-r.nfixed < len(t.Traits):
 		j := id.Col - r.nfixed

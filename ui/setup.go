@@ -59,6 +59,7 @@ func (s *setupStep) refresh(c change) {
 	}
 	if c&changeStructure != 0 {
 		s.trtList.Refresh()
+		s.fac.load()
 		s.trtButtons()
 		s.traitList.Refresh()
 		s.loadDesign()

@@ -24,6 +24,11 @@ type designTab struct {
 
 	designSel  *widget.RadioGroup
 	reps       *widget.Entry
+	mainSel    *widget.Select // the main-plot (or horizontal-strip) factor
+	subSel     *widget.Select // the subplot factor of a split-split plot
+	mainItem   *widget.FormItem
+	subItem    *widget.FormItem
+	form       *widget.Form
 	designMsg  *widget.Label
 	designDone *widget.Label // what Apply design changed
 	plan       *planPanel    // what the design chosen can detect (setup_plan.go)
@@ -31,9 +36,11 @@ type designTab struct {
 
 // designExplain says in one line what each design is for.
 var designExplain = map[trial.DesignKind]string{
-	trial.CRD:   "Completely randomised: every plot gets a treatment at random. For uniform ground, pots or glasshouse benches.",
-	trial.RCBD:  "Randomised complete blocks: each block holds every treatment once, randomised within the block. For fields with a slope or gradient: lay blocks across it.",
-	trial.Latin: fmt.Sprintf("Latin square: each treatment once in every field row and every column. For gradients in two directions; needs as many replicates as treatments (%d to %d treatments).", trial.MinLatin, trial.MaxLatin),
+	trial.CRD:       "Completely randomised: every plot gets a treatment at random. For uniform ground, pots or glasshouse benches.",
+	trial.RCBD:      "Randomised complete blocks: each block holds every treatment once, randomised within the block. For fields with a slope or gradient: lay blocks across it.",
+	trial.Latin:     fmt.Sprintf("Latin square: each treatment once in every field row and every column. For gradients in two directions; needs as many replicates as treatments (%d to %d treatments).", trial.MinLatin, trial.MaxLatin),
+	trial.SplitPlot: "Split plot: in each block the levels of the main-plot factor go on large main plots at random, and the other factor's levels on subplots side by side within each main plot, at random. For a factor that needs big plots (tillage, irrigation, sowing date); its comparisons are less precise than the subplot factor's. A third factor goes on sub-subplots.",
+	trial.StripPlot: "Strip plot: in each block one factor's levels lie in strips across the block (one field row each) and the other's in strips along it (one field column each), both at random. For two factors that both need machinery passes the length of the block; the interaction is the most precise comparison.",
 }
 
 // designKinds are the designs offered, labelled by designLabels.
@@ -66,6 +73,7 @@ func (s *designTab) build() fyne.CanvasObject {
 	s.designSel.OnChanged = func(l string) {
 		if i := slices.Index(designLabels, l); i >= 0 {
 			s.designMsg.SetText(designExplain[designKinds[i]])
+			s.showFactorPlaces(designKinds[i])
 			s.reps.Enable()
 			if designKinds[i] == trial.Latin {
 				s.reps.SetText(strconv.Itoa(len(s.t().Treatments)))
@@ -86,7 +94,12 @@ func (s *designTab) build() fyne.CanvasObject {
 	s.plan = newPlanPanel(s)
 	apply := widget.NewButtonWithIcon("Apply design", theme.ConfirmIcon(), s.applyDesign)
 	apply.Importance = widget.HighImportance
-	form := widget.NewForm(widget.NewFormItem("Design", s.designSel), widget.NewFormItem("Replicates", s.reps))
+	s.mainSel = widget.NewSelect(nil, nil)
+	s.subSel = widget.NewSelect(nil, nil)
+	s.mainItem = widget.NewFormItem("Main plots", s.mainSel)
+	s.subItem = widget.NewFormItem("Subplots", s.subSel)
+	form := widget.NewForm(widget.NewFormItem("Design", s.designSel), widget.NewFormItem("Replicates", s.reps), s.mainItem, s.subItem)
+	s.form = form
 	left := container.NewVScroll(container.NewPadded(container.NewVBox(form, s.designMsg, container.NewHBox(apply), s.designDone)))
 	split := container.NewHSplit(left, container.NewVScroll(container.NewPadded(s.plan.content)))
 	split.Offset = 0.45
@@ -105,6 +118,7 @@ func (s *designTab) applyDesign() {
 		return
 	}
 	d := trial.Design{Kind: designKinds[i], Reps: n}
+	d.MainFactor, d.SubFactor = s.factorPlaces(d.Kind)
 	if d.Kind == trial.Latin {
 		d.Reps = len(s.t().Treatments)
 	}
@@ -129,9 +143,12 @@ func (s *designTab) applyDesign() {
 
 func (s *designTab) loadDesign() {
 	d := s.t().Design
+	s.offerDesigns()
+	s.loadFactorPlaces()
 	if i := slices.Index(designKinds, d.Kind); i >= 0 {
 		s.designSel.SetSelected(designLabels[i])
 	}
+	s.showFactorPlaces(d.Kind)
 	s.reps.SetText(strconv.Itoa(d.Reps))
 	if d.Kind == trial.Latin {
 		s.reps.Disable()

@@ -200,6 +200,9 @@ func (p *planPanel) inputs() (o planOutcome, msg string) {
 		return o, "Choose a design above to see what it can detect."
 	}
 	o.kind = designKinds[i]
+	if o.kind.Restricted() {
+		return o, "The detectable difference of a " + o.kind.Name() + " depends on the stratum of each comparison (main plots or subplots), which this planning view does not cover yet; it plans completely randomised, block and Latin square designs."
+	}
 	o.treatments = len(d.t().Treatments)
 	if o.treatments < 2 {
 		return o, "Add at least two treatments (Treatments tab) to plan the comparisons."

@@ -24,6 +24,8 @@ type treatmentsTab struct {
 	trtSel  int
 	trtForm treatmentForm
 	trtMsg  *widget.Label // what the last button did
+	fac     *factorEditor // the treatment structure and the factors (setup_factors.go)
+	paste   *widget.Button
 }
 
 // newTreatmentsTab builds the tab.
@@ -180,6 +182,8 @@ func (s *treatmentsTab) build() fyne.CanvasObject {
 	paste := widget.NewButtonWithIcon("Paste list", theme.ContentPasteIcon(), func() {
 		s.pasteTreatments(s.u.app.Clipboard().Content())
 	})
+	s.paste = paste
+	s.fac = newFactorEditor(s)
 	s.trtButtons()
 	help := widget.NewLabel("Paste list adds the names on the clipboard: one per line, or code and name separated by a tab (two columns copied from a spreadsheet).")
 	help.Wrapping = fyne.TextWrapWord
@@ -187,7 +191,7 @@ func (s *treatmentsTab) build() fyne.CanvasObject {
 	s.trtMsg = widget.NewLabel("")
 	s.trtMsg.Wrapping = fyne.TextWrapWord
 	s.trtMsg.Importance = widget.SuccessImportance
-	right := container.NewVBox(form, container.NewHBox(add, update, remove), container.NewHBox(up, down, paste), s.trtMsg, help)
+	right := container.NewVBox(s.fac.object(), form, container.NewHBox(add, update, remove), container.NewHBox(up, down, paste), s.trtMsg, help)
 	split := container.NewHSplit(s.trtList, container.NewVScroll(right))
 	split.Offset = 0.4
 	return split
@@ -266,10 +270,22 @@ func (s *treatmentsTab) trtButtons() {
 			b.Disable()
 		}
 	}
+	// The treatments of a factorial trial are its factors' combinations:
+	// they can be named or made the check, not added, removed or moved.
+	list := !s.t().Factorial() && (s.fac == nil || !s.fac.wantFactor)
 	enable(f.apply, sel)
-	enable(f.remove, sel)
-	enable(f.up, sel && s.trtSel > 0)
-	enable(f.down, sel && s.trtSel < n-1)
+	enable(f.remove, sel && list)
+	enable(f.up, sel && s.trtSel > 0 && list)
+	enable(f.down, sel && s.trtSel < n-1 && list)
+	enable(f.add, list)
+	if s.paste != nil {
+		enable(s.paste, list)
+	}
+	if list {
+		f.code.Enable()
+	} else {
+		f.code.Disable()
+	}
 }
 
 // nextCode proposes an unused code T01, T02, ...

@@ -1,7 +1,7 @@
 // Package fieldmap is a Fyne widget that draws a trial's field plan: one
 // rectangle per plot at its field row and column, labelled with the plot
 // number and treatment code, coloured from the Okabe–Ito palette, with the
-// blocks outlined. Row 1 is at the bottom and column 1 at the left, as on
+// blocks (and the main plots of a split plot) outlined. Row 1 is at the bottom and column 1 at the left, as on
 // the printed map, the heat maps and the workbook; a north arrow and a
 // landmark along the bottom edge tie it to the ground when the caller
 // gives them. Hovering or tapping a plot reports it to the caller.
@@ -41,6 +41,7 @@ type Plot struct {
 	Number      int    // plot number, printed on the plot
 	Code        string // treatment code, printed below the number
 	Block       int    // blocks are outlined
+	Unit        int    // main plot within the block (outlined thinner); 0 for none
 	Group       int    // colour: OkabeIto[Group % len]; negative for no fill
 	Excluded    bool   // drawn hatched grey
 }
@@ -234,6 +235,7 @@ type renderer struct {
 	numbers []*canvas.Text
 	codes   []*canvas.Text
 	blocks  []*canvas.Rectangle
+	units   []*canvas.Rectangle // main-plot outlines
 	mark    *canvas.Rectangle
 	arrow   []*canvas.Line // shaft and the two sides of the head
 	arrowN  *canvas.Text
@@ -250,7 +252,7 @@ func (r *renderer) Objects() []fyne.CanvasObject { return r.objects }
 // Refresh rebuilds the objects when the plots changed and restyles them.
 func (r *renderer) Refresh() {
 	m := r.m
-	if r.mark == nil || len(r.cells) != len(m.plots) || len(r.blocks) != numBlocks(m.plots) {
+	if r.mark == nil || len(r.cells) != len(m.plots) || len(r.blocks) != numBlocks(m.plots) || len(r.units) != len(unitKeys(m.plots)) {
 		r.build()
 	}
 	labelled := len(m.plots) <= maxLabelled
@@ -270,6 +272,9 @@ func (r *renderer) Refresh() {
 	for _, b := range r.blocks {
 		b.StrokeColor = fg
 	}
+	for _, u := range r.units {
+		u.StrokeColor = fg
+	}
 	r.mark.StrokeColor = theme.Color(theme.ColorNamePrimary)
 	for _, l := range r.arrow {
 		l.StrokeColor = fg
@@ -281,6 +286,21 @@ func (r *renderer) Refresh() {
 	}
 	r.Layout(m.Size())
 	canvas.Refresh(m)
+}
+
+// unitKeys lists the (block, main plot) pairs of the plots that have a
+// main plot, in the order they first appear.
+func unitKeys(ps []Plot) [][2]int {
+	seen := map[[2]int]bool{}
+	var out [][2]int
+	for _, p := range ps {
+		k := [2]int{p.Block, p.Unit}
+		if p.Unit != 0 && !seen[k] {
+			seen[k] = true
+			out = append(out, k)
+		}
+	}
+	return out
 }
 
 func numBlocks(ps []Plot) int {
@@ -312,6 +332,13 @@ func (r *renderer) build() {
 			r.codes[i].Alignment = fyne.TextAlignCenter
 			r.objects = append(r.objects, r.numbers[i], r.codes[i])
 		}
+	}
+	r.units = nil
+	for range unitKeys(m.plots) {
+		u := canvas.NewRectangle(color.Transparent)
+		u.StrokeWidth = 1.8
+		r.units = append(r.units, u)
+		r.objects = append(r.objects, u)
 	}
 	r.blocks = nil
 	for range numBlocks(m.plots) {
@@ -433,6 +460,29 @@ func (r *renderer) Layout(s fyne.Size) {
 		b := boxes[k]
 		r.blocks[i].Move(fyne.NewPos(o.X+float32(b.c0-1)*cw, o.Y+float32(m.rows-b.r1)*ch))
 		r.blocks[i].Resize(fyne.NewSize(float32(b.c1-b.c0+1)*cw, float32(b.r1-b.r0+1)*ch))
+	}
+	// Main-plot outlines: the bounding box of each main plot's plots.
+	ubox := map[[2]int]*box{}
+	for _, p := range m.plots {
+		if p.Unit == 0 {
+			continue
+		}
+		k := [2]int{p.Block, p.Unit}
+		b, ok := ubox[k]
+		if !ok {
+			b = &box{p.Row, p.Column, p.Row, p.Column}
+			ubox[k] = b
+		}
+		b.r0, b.c0 = min(b.r0, p.Row), min(b.c0, p.Column)
+		b.r1, b.c1 = max(b.r1, p.Row), max(b.c1, p.Column)
+	}
+	for i, k := range unitKeys(m.plots) {
+		if i >= len(r.units) {
+			break
+		}
+		b := ubox[k]
+		r.units[i].Move(fyne.NewPos(o.X+float32(b.c0-1)*cw, o.Y+float32(m.rows-b.r1)*ch))
+		r.units[i].Resize(fyne.NewSize(float32(b.c1-b.c0+1)*cw, float32(b.r1-b.r0+1)*ch))
 	}
 	mark := m.hover
 	if mark < 0 {

@@ -1,7 +1,6 @@
 package cli
 
 import (
-	"strconv"
 	"strings"
 
 	"furlong/trial"
@@ -37,51 +36,12 @@ the other in vertical strips; each block is one field row per level of the first
 field column per level of the second. In a split plot --plots-per-row must be 0 or a multiple
 of the plots in one main plot.`
 
-// parseFactor reads one --factor value (see newFactorHelp).
+// parseFactor reads one --factor value (see newFactorHelp and
+// trial.ParseFactorSpec).
 func parseFactor(s string) (trial.Factor, error) {
-	head, list, ok := strings.Cut(s, "=")
-	if !ok || strings.TrimSpace(list) == "" {
-		return trial.Factor{}, usagef("new: --factor %q needs its levels after '=', for example --factor \"N=0,60,120 kg N/ha\" or --factor \"V=V1,V2,V3\"", s)
-	}
-	key, name, _ := strings.Cut(head, ":")
-	f := trial.Factor{Key: strings.TrimSpace(key), Name: strings.TrimSpace(name)}
-	if err := trial.CheckFactorKey(f.Key); err != nil {
+	f, err := trial.ParseFactorSpec(s)
+	if err != nil {
 		return trial.Factor{}, usagef("new: --factor %q: %v", s, err)
-	}
-	parts := strings.Split(list, ",")
-	// A unit after the last level, when the levels are numbers: "0,60,120 kg N/ha".
-	unit := ""
-	last := strings.TrimSpace(parts[len(parts)-1])
-	if num, rest, ok := strings.Cut(last, " "); ok && !strings.Contains(num, "=") {
-		if _, err := trial.ParseNumber(num, trial.PointOnly); err == nil {
-			parts[len(parts)-1] = num
-			unit = strings.TrimSpace(rest)
-		}
-	}
-	for _, p := range parts {
-		p = strings.TrimSpace(p)
-		if p == "" {
-			continue
-		}
-		code, lname, named := strings.Cut(p, "=")
-		code = strings.TrimSpace(code)
-		l := trial.Level{Code: code, Name: strings.TrimSpace(lname)}
-		if v, err := trial.ParseNumber(code, trial.PointOnly); err == nil {
-			l.Value = &v
-			l.Unit = unit
-			if c := f.Key + code; len([]rune(c)) <= trial.MaxLevelCodeLen && trial.CheckLevelCode(c) == nil {
-				l.Code = c
-			}
-			if !named {
-				l.Name = strings.TrimSpace(strconv.FormatFloat(v, 'f', -1, 64) + " " + unit)
-			}
-		} else if unit != "" {
-			return trial.Factor{}, usagef("new: --factor %q: a unit after the levels needs every level to be a number, and %q is not", s, code)
-		}
-		if err := trial.CheckLevelCode(l.Code); err != nil {
-			return trial.Factor{}, usagef("new: --factor %q: %v", s, err)
-		}
-		f.Levels = append(f.Levels, l)
 	}
 	return f, nil
 }
