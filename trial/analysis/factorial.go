@@ -495,6 +495,21 @@ func comboMeans(r *Result, d *Data, top *glm.Effect, combo func(int) int, o Opti
 	}
 	r.Means = make([]Mean, k)
 	c := top.Comparison
+	// One t quantile per df, with the df taken to 6 decimals (finer than
+	// a Satterthwaite df is known: the REML optimum is good to about 1e-6):
+	// pairs of a factorial share the error df, pairs of a REML fit share a
+	// few values up to rounding, and each quantile costs more than all the
+	// rest of a pair.
+	tByDF := map[float64]float64{}
+	tc := func(df float64) float64 {
+		key := math.Round(df*1e6) / 1e6
+		v, ok := tByDF[key]
+		if !ok {
+			v = tCrit(o.Alpha, df)
+			tByDF[key] = v
+		}
+		return v
+	}
 	for ti := range k {
 		gm := top.Means[at[ti]]
 		mn := Mean{Treatment: d.Treatments[ti], N: gm.N, Mean: gm.Mean, RawMean: gm.RawMean, SE: gm.SE, BackMean: back(gm.Mean)}
@@ -505,7 +520,7 @@ func comboMeans(r *Result, d *Data, top *glm.Effect, combo func(int) int, o Opti
 			mn.Check = d.Checks[ti]
 		}
 		if gm.DF > 0 {
-			t := tCrit(o.Alpha, gm.DF)
+			t := tc(gm.DF)
 			lo, hi := backLimits(o.Transform, gm.Mean-t*gm.SE, gm.Mean+t*gm.SE, r.Offset)
 			mn.Lower, mn.Upper = &lo, &hi
 		}
@@ -534,9 +549,9 @@ func comboMeans(r *Result, d *Data, top *glm.Effect, combo func(int) int, o Opti
 		if !aok || !bok {
 			continue
 		}
-		lo, hi := p.Interval(o.Alpha)
-		pr := Pair{A: d.Treatments[a], B: d.Treatments[b], Diff: p.Diff, SE: p.SE, Lower: lo, Upper: hi,
-			PLSD: p.PLSD, PTukey: p.PTukey, LSD: (hi - lo) / 2, HSD: q * p.SE / math.Sqrt2}
+		tc := tc(p.DF)
+		pr := Pair{A: d.Treatments[a], B: d.Treatments[b], Diff: p.Diff, SE: p.SE, Lower: p.Diff - tc*p.SE, Upper: p.Diff + tc*p.SE,
+			PLSD: p.PLSD, PTukey: p.PTukey, LSD: tc * p.SE, HSD: q * p.SE / math.Sqrt2}
 		r.Pairs = append(r.Pairs, pr)
 		if n == 0 || len(r.Pairs) == 1 {
 			lsd, hsd = Range{pr.LSD, pr.LSD}, Range{pr.HSD, pr.HSD}

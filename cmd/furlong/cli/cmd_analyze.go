@@ -327,11 +327,14 @@ func writeAnalysisCSV(w io.Writer, outcomes []analysis.Outcome) error {
 		}
 		r := oc.Result
 		a := r.ANOVA
-		trt, _ := a.Treatment()
+		pTrt := ""
+		if trt, ok := a.Treatment(); ok && trt.HasTest {
+			pTrt = g(trt.P) // crossed factors have no one treatment line: empty
+		}
 		for _, m := range r.Means {
 			_ = cw.Write([]string{r.TraitKey, m.Treatment, strconv.Itoa(m.N), g(m.Mean), g(m.RawMean), g(m.SE),
 				m.LettersLSD, m.LettersTukey, g(a.GrandMean), g(a.CVPercent), strconv.Itoa(a.DFError), g(a.MSE),
-				g(trt.P), gp(r.LSD), gp(r.HSD)})
+				pTrt, gp(r.LSD), gp(r.HSD)})
 		}
 	}
 	cw.Flush()
