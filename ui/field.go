@@ -379,16 +379,18 @@ func (f *fieldStep) randomise() {
 func (u *App) exportMapDialog() {
 	snap := cloneTrial(u.doc.t)
 	name := safeFileName(snap.Title) + " field map"
+	by := u.mapColourFactor()
 	u.exportDialog("field map", name+".pdf", []string{".pdf", ".png", ".svg"}, false,
 		func(ctx context.Context, w io.Writer, ext string, _ func(int, int)) error {
-			return writeFieldMap(w, snap, ext)
+			return writeFieldMap(w, snap, ext, by)
 		})
 }
 
 // writeFieldMap draws the printable field map in the format named by the
-// file extension (".png", ".svg", otherwise PDF) on A4 landscape.
-func writeFieldMap(w io.Writer, t *trial.Trial, ext string) error {
-	p, err := chart.FieldMap(t, chart.FieldMapOptions{})
+// file extension (".png", ".svg", otherwise PDF) on A4 landscape,
+// coloured by treatment or by the factor of key colourBy.
+func writeFieldMap(w io.Writer, t *trial.Trial, ext, colourBy string) error {
+	p, err := chart.FieldMap(t, chart.FieldMapOptions{ColourBy: colourBy})
 	if err != nil {
 		return err
 	}

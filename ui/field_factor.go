@@ -7,16 +7,14 @@ import (
 	"furlong/trial"
 )
 
-// colourByFactor starts the label of a colour choice by factor.
-const colourByFactor = "Colour by "
-
 // colourChoices offers colouring by treatment, by block and, in a
-// factorial trial, by each factor ("Colour by Nitrogen (N)"), keeping the
-// choice when it is still offered.
+// factorial trial, by each factor (named by its label, "Nitrogen (N)",
+// short enough for the row of choices above the map), keeping the choice
+// when it is still offered.
 func (f *fieldStep) colourChoices(t *trial.Trial) {
 	opts := []string{"Colour by treatment", "Colour by block"}
 	for i := range t.Factors {
-		opts = append(opts, colourByFactor+factorLabel(&t.Factors[i]))
+		opts = append(opts, factorLabel(&t.Factors[i]))
 	}
 	if slices.Equal(opts, f.colorBy.Options) {
 		return
@@ -33,7 +31,7 @@ func (f *fieldStep) colourChoices(t *trial.Trial) {
 // colourFactor is the factor the map is coloured by, −1 for none.
 func (f *fieldStep) colourFactor(t *trial.Trial) int {
 	for i := range t.Factors {
-		if f.colorBy.Selected == colourByFactor+factorLabel(&t.Factors[i]) {
+		if f.colorBy.Selected == factorLabel(&t.Factors[i]) {
 			return i
 		}
 	}
@@ -74,4 +72,19 @@ func levelLines(t *trial.Trial, tr *trial.Treatment) string {
 		b.WriteString("\n")
 	}
 	return b.String()
+}
+
+// mapColourFactor is the key of the factor the Field step's map is
+// coloured by, "" when it is coloured by treatment or block (the printed
+// map then colours by treatment).
+func (u *App) mapColourFactor() string {
+	f, ok := u.steps[stepField].(*fieldStep)
+	if !ok || f == nil || f.colorBy == nil {
+		return ""
+	}
+	t := u.doc.t
+	if i := f.colourFactor(t); i >= 0 {
+		return t.Factors[i].Key
+	}
+	return ""
 }

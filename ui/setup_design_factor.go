@@ -71,25 +71,15 @@ func (s *designTab) showFactorPlaces(k trial.DesignKind) {
 	if k == trial.StripPlot {
 		s.mainItem.Text = "Horizontal strips"
 	}
-	// A form item cannot be hidden on its own: its widget is.
+	// The form holds the choices only where the design has them.
+	items := s.form.Items[:2:2] // design and replicates
 	if showMain {
-		s.mainSel.Show()
-	} else {
-		s.mainSel.Hide()
+		items = append(items, s.mainItem)
 	}
 	if showSub {
-		s.subSel.Show()
-	} else {
-		s.subSel.Hide()
+		items = append(items, s.subItem)
 	}
-	if !showMain {
-		s.mainItem.Text = ""
-	}
-	if !showSub {
-		s.subItem.Text = ""
-	} else {
-		s.subItem.Text = "Subplots"
-	}
+	s.form.Items = items
 	s.form.Refresh()
 }
 

@@ -67,7 +67,7 @@ func TestFactorStructure(t *testing.T) {
 		t.Error("a Latin square is offered for factors")
 	}
 	s.designSel.SetSelected(trial.SplitPlot.Title())
-	if !s.mainSel.Visible() || s.subSel.Visible() {
+	if !slices.Contains(s.form.Items, s.mainItem) || slices.Contains(s.form.Items, s.subItem) {
 		t.Error("split plot of 2 factors: main-plot choice hidden or subplot choice shown")
 	}
 	s.mainSel.SetSelectedIndex(1)
@@ -92,10 +92,10 @@ func TestFactorStructure(t *testing.T) {
 	}
 	u.showStep(stepField)
 	fs := u.steps[stepField].(*fieldStep)
-	if !slices.Contains(fs.colorBy.Options, "Colour by Variety (V)") {
+	if !slices.Contains(fs.colorBy.Options, "Variety (V)") {
 		t.Errorf("colour choices %v", fs.colorBy.Options)
 	}
-	fs.colorBy.SetSelected("Colour by Variety (V)")
+	fs.colorBy.SetSelected("Variety (V)")
 	for i, p := range fs.fmap.Plots() {
 		pl := u.doc.t.Plots[i]
 		if want := u.doc.t.Factors[1].LevelIndex(u.doc.t.LevelCode(pl.Treatment, 1)); p.Group != want || p.Unit != pl.MainPlot {
