@@ -527,3 +527,43 @@ func benchShapiro(b *testing.B, n int) {
 
 func BenchmarkShapiroWilk1200(b *testing.B) { benchShapiro(b, 1200) }
 func BenchmarkShapiroWilk5000(b *testing.B) { benchShapiro(b, 5000) }
+
+// TestBartlettVariances checks Bartlett's statistic from variances and
+// their df against a hand computation and against Bartlett on the values
+// themselves (same statistic, Snedecor & Cochran's formula).
+func TestBartlettVariances(t *testing.T) {
+	// By hand: s² = 4 and 1, 10 df each: pooled 2.5,
+	// num = 20·ln 2.5 − 10·ln 4 = 4.462871026, C = 1 + (0.2 − 0.05)/3 = 1.05.
+	got, err := BartlettVariances([]float64{4, 1}, []int{10, 10})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := (20*math.Log(2.5) - 10*math.Log(4)) / 1.05
+	if math.Abs(got.ChiSquare-want) > 1e-12 || got.DF != 1 {
+		t.Fatalf("K² = %v (df %d), want %v (df 1)", got.ChiSquare, got.DF, want)
+	}
+	values := []float64{1, 3, 2, 7, 4, 4.5, 2, 9, 1, 1.5, 3, 8}
+	group := []int{0, 0, 0, 0, 1, 1, 1, 1, 2, 2, 2, 2}
+	direct, err := Bartlett(values, group, 3)
+	if err != nil {
+		t.Fatal(err)
+	}
+	vars := make([]float64, 3)
+	for g := 0; g < 3; g++ {
+		s := values[4*g : 4*g+4]
+		m := (s[0] + s[1] + s[2] + s[3]) / 4
+		for _, v := range s {
+			vars[g] += (v - m) * (v - m) / 3
+		}
+	}
+	fromVars, err := BartlettVariances(vars, []int{3, 3, 3})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if math.Abs(direct.ChiSquare-fromVars.ChiSquare) > 1e-12 || math.Abs(direct.P-fromVars.P) > 1e-12 {
+		t.Fatalf("from variances %+v, from values %+v", fromVars, direct)
+	}
+	if _, err := BartlettVariances([]float64{1}, []int{3}); err == nil {
+		t.Fatal("one variance: want an error")
+	}
+}

@@ -139,9 +139,9 @@ func Bartlett(values []float64, group []int, groups int) (ChiSquareTest, error) 
 	if k < 2 {
 		return ChiSquareTest{}, notApplicable("Bartlett", "the test of equal variances needs at least two treatments with data")
 	}
-	var n int
-	var pooled, sumLog, sumInv float64
-	for _, s := range g {
+	vars := make([]float64, k)
+	dfs := make([]int, k)
+	for i, s := range g {
 		if len(s) < 2 {
 			return ChiSquareTest{}, notApplicable("Bartlett", "Bartlett's test needs at least two plots of every treatment")
 		}
@@ -150,23 +150,58 @@ func Bartlett(values []float64, group []int, groups int) (ChiSquareTest, error) 
 		for _, v := range s {
 			ss += (v - m) * (v - m)
 		}
-		df := float64(len(s) - 1)
-		v := ss / df
-		if v <= 0 {
+		dfs[i] = len(s) - 1
+		vars[i] = ss / float64(dfs[i])
+		if vars[i] <= 0 {
 			return ChiSquareTest{}, notApplicable("Bartlett", "a treatment has the same value in every plot, so Bartlett's test cannot be computed")
 		}
-		n += len(s)
-		pooled += ss
+	}
+	return bartlett(vars, dfs), nil
+}
+
+// BartlettVariances is Bartlett's statistic (see Bartlett) from k ≥ 2
+// variance estimates s²ᵢ with νᵢ ≥ 1 degrees of freedom each, for example
+// the error mean squares of the trials of a series. Every variance must be
+// finite and above 0.
+func BartlettVariances(variances []float64, df []int) (ChiSquareTest, error) {
+	if len(variances) != len(df) {
+		return ChiSquareTest{}, notApplicable("Bartlett", "each variance needs its degrees of freedom")
+	}
+	if len(variances) < 2 {
+		return ChiSquareTest{}, notApplicable("Bartlett", "the test of equal variances needs at least two variances")
+	}
+	for i, v := range variances {
+		if !(v > 0) || math.IsInf(v, 0) || df[i] < 1 {
+			return ChiSquareTest{}, notApplicable("Bartlett", "every variance must be above 0 with at least one degree of freedom")
+		}
+	}
+	// The statistic is unit free: scale by the largest variance so that
+	// the logarithms stay well inside the float64 range.
+	top := slices.Max(variances)
+	scaled := make([]float64, len(variances))
+	for i, v := range variances {
+		scaled[i] = v / top
+	}
+	return bartlett(scaled, df), nil
+}
+
+// bartlett computes the statistic from valid variances and their df.
+func bartlett(vars []float64, dfs []int) ChiSquareTest {
+	k := len(vars)
+	var dfe, pooled, sumLog, sumInv float64
+	for i, v := range vars {
+		df := float64(dfs[i])
+		dfe += df
+		pooled += df * v
 		sumLog += df * math.Log(v)
 		sumInv += 1 / df
 	}
-	dfe := float64(n - k)
 	pooled /= dfe
 	num := dfe*math.Log(pooled) - sumLog
 	den := 1 + (sumInv-1/dfe)/(3*float64(k-1))
 	chi := math.Max(num/den, 0) // exactly 0 for equal variances; rounding can dip below
 	df := k - 1
-	return ChiSquareTest{ChiSquare: chi, DF: df, P: mathext.GammaIncRegComp(float64(df)/2, chi/2)}, nil
+	return ChiSquareTest{ChiSquare: chi, DF: df, P: mathext.GammaIncRegComp(float64(df)/2, chi/2)}
 }
 
 func mean(s []float64) float64 {
