@@ -179,7 +179,7 @@ func (t *Trial) SetLayout(l Layout) error {
 	l = l.withDefaults()
 	old := t.Layout.withDefaults()
 	moves := l.Numbering != old.Numbering || l.Walk != old.Walk
-	if t.Design.Kind != Latin { // a Latin square ignores these two
+	if t.Design.Kind != Latin && t.Design.Kind != StripPlot { // a Latin square and a strip plot ignore these two
 		moves = moves || l.PlotsPerRow != old.PlotsPerRow || l.Blocks != old.Blocks
 	}
 	if moves && t.HasData() {

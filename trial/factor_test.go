@@ -461,3 +461,33 @@ func TestParseLevelsRoundTrip(t *testing.T) {
 		t.Error("a factor without levels was read")
 	}
 }
+
+// TestValidateStrata: a hand-edited split or strip plot whose plots break
+// the design's restriction is reported in a plain sentence (the
+// restrictions of Gomez & Gomez 1984, ch. 3–4: a main plot holds one level
+// of the main-plot factor, a strip one level of its factor).
+func TestValidateStrata(t *testing.T) {
+	t.Parallel()
+	for _, c := range []struct {
+		p      plan
+		change func(tr *Trial)
+		want   string
+	}{
+		{factorialPlans()[1], func(tr *Trial) { tr.Plots[0].MainPlot, tr.Plots[len(tr.Plots)/tr.Design.Reps-1].MainPlot = tr.Plots[len(tr.Plots)/tr.Design.Reps-1].MainPlot, tr.Plots[0].MainPlot }, "holds one level of it"},
+		{factorialPlans()[1], func(tr *Trial) { tr.Plots[0].MainPlot = 9 }, "main plot number 9"},
+		{factorialPlans()[4], func(tr *Trial) { tr.Plots[0].SubPlot = 0 }, "subplot number 0"},
+		{factorialPlans()[5], func(tr *Trial) { tr.Plots[0].Strip = 0 }, "vertical strip number 0"},
+	} {
+		tr, err := New(NewOptions{Factors: c.p.fs, Design: c.p.d, Layout: c.p.l, Seed: 3})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := tr.Validate(); err != nil {
+			t.Fatalf("%s: %v", c.p.name, err)
+		}
+		c.change(tr)
+		if err := tr.Validate(); err == nil || !strings.Contains(err.Error(), c.want) {
+			t.Errorf("%s: got %v, want %q", c.p.name, err, c.want)
+		}
+	}
+}

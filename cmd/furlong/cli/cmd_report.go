@@ -81,14 +81,17 @@ The format follows the file name's ending. Charts are sized for an A4 landscape 
 	register(&command{
 		name:    "map",
 		summary: "draw the printable field map (plot numbers and treatments)",
-		usage:   "furlong map TRIAL -o MAP.png|svg|pdf",
+		usage:   "furlong map TRIAL -o MAP.png|svg|pdf [--colour-by FACTOR]",
 		details: `Draws the field map for the crew: every plot with its number and treatment code, a colour per
-treatment, block outlines, the grid's orientation and a key of treatments, on an A4 landscape page.`,
+treatment, block outlines, the grid's orientation and a key of treatments, on an A4 landscape page.
+A split plot's main plots are outlined too; --colour-by KEY colours a factorial trial's plots by
+their level of that factor, with a key of its levels.`,
 		flags: func(env Env) (*flag.FlagSet, func(context.Context, []string) error) {
 			o := mapOptions{env: env}
 			fs := flag.NewFlagSet("map", flag.ContinueOnError)
 			fs.StringVar(&o.out, "o", "", "write the map to this `file` (.png, .svg or .pdf; required)")
 			fs.BoolVar(&o.force, "force", false, "replace the output file if it exists")
+			fs.StringVar(&o.colourBy, "colour-by", "", "colour the plots by their level of the factor of this `key`")
 			return fs, func(ctx context.Context, args []string) error {
 				if len(args) != 1 {
 					return usagef("map: give one trial file")
@@ -251,9 +254,9 @@ func runChart(ctx context.Context, o chartOptions) error {
 
 // mapOptions are the choices of 'furlong map'.
 type mapOptions struct {
-	env        Env
-	trial, out string
-	force      bool
+	env                  Env
+	trial, out, colourBy string
+	force                bool
 }
 
 // runMap draws the printable field map of o.trial to o.out.
@@ -266,7 +269,7 @@ func runMap(ctx context.Context, o mapOptions) error {
 	if err != nil {
 		return err
 	}
-	p, err := chart.FieldMap(t, chart.FieldMapOptions{})
+	p, err := chart.FieldMap(t, chart.FieldMapOptions{ColourBy: o.colourBy})
 	if err != nil {
 		return err
 	}

@@ -113,6 +113,9 @@ func TestNewFactorial(t *testing.T) {
 			}
 			unitLevel[u] = l
 		}
+		if code, _, stderr := run(t, "map", out, "-o", out+".svg", "--colour-by", tr.Factors[0].Key); code != 0 {
+			t.Errorf("%s: map --colour-by: exit %d: %s", c.design, code, stderr)
+		}
 		_, stdout, _ := run(t, "show", out)
 		if !strings.Contains(stdout, c.show) || !strings.Contains(stdout, "Factors (") {
 			t.Errorf("%s: show lacks %q:\n%s", c.design, c.show, stdout)
