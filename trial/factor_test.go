@@ -473,7 +473,9 @@ func TestValidateStrata(t *testing.T) {
 		change func(tr *Trial)
 		want   string
 	}{
-		{factorialPlans()[1], func(tr *Trial) { tr.Plots[0].MainPlot, tr.Plots[len(tr.Plots)/tr.Design.Reps-1].MainPlot = tr.Plots[len(tr.Plots)/tr.Design.Reps-1].MainPlot, tr.Plots[0].MainPlot }, "holds one level of it"},
+		{factorialPlans()[1], func(tr *Trial) {
+			tr.Plots[0].MainPlot, tr.Plots[len(tr.Plots)/tr.Design.Reps-1].MainPlot = tr.Plots[len(tr.Plots)/tr.Design.Reps-1].MainPlot, tr.Plots[0].MainPlot
+		}, "holds one level of it"},
 		{factorialPlans()[1], func(tr *Trial) { tr.Plots[0].MainPlot = 9 }, "main plot number 9"},
 		{factorialPlans()[4], func(tr *Trial) { tr.Plots[0].SubPlot = 0 }, "subplot number 0"},
 		{factorialPlans()[5], func(tr *Trial) { tr.Plots[0].Strip = 0 }, "vertical strip number 0"},
