@@ -309,8 +309,14 @@ func (c *compareStep) showResult(r *analysis.Result) {
 	for _, h := range []string{"Source", "df", "SS", "MS", "F", "P"} {
 		c.anova.Add(cell(h, true))
 	}
+	if r.IsFactorial() {
+		c.showFactorialANOVA(r) // compare_effects.go
+	}
 	if r.ANOVA != nil {
 		for _, src := range r.ANOVA.Sources {
+			if r.IsFactorial() {
+				break
+			}
 			c.anova.Add(cell(export.SourceName(src), false))
 			c.anova.Add(cell(strconv.Itoa(src.DF), false))
 			c.anova.Add(cell(num(src.SS, 5), false))
