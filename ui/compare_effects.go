@@ -114,7 +114,9 @@ func (v *effectsView) display() {
 	v.table.set(head, rows)
 	v.chartBox.Objects = nil
 	if e := v.res.Factorial.Effect(ch.effect); e != nil && len(e.Factors) == 2 {
-		if p, err := safePlot(func() (*plot.Plot, error) { return chart.Interaction(v.res, chart.InteractionOptions{Effect: ch.effect}) }); err == nil {
+		if p, err := safePlot(func() (*plot.Plot, error) {
+			return chart.Interaction(v.res, chart.InteractionOptions{Effect: ch.effect})
+		}); err == nil {
 			v.chartBox.Objects = []fyne.CanvasObject{newChartView(p)}
 		}
 	}
