@@ -205,7 +205,10 @@ func fromV1(ft *trialV1) (*trial.Trial, *fieldError) {
 		t.Treatments = make([]trial.Treatment, len(ft.Treatments))
 	}
 	for i, tr := range ft.Treatments {
-		t.Treatments[i] = trial.Treatment{Code: tr.Code, Name: tr.Name, Role: trial.Role(tr.Role), Description: tr.Description, Rate: tr.Rate, RateUnit: tr.RateUnit, Levels: tr.Levels}
+		t.Treatments[i] = trial.Treatment{Code: tr.Code, Name: tr.Name, Role: trial.Role(tr.Role), Description: tr.Description, Rate: tr.Rate, RateUnit: tr.RateUnit}
+		if len(tr.Levels) > 0 { // an empty list is stored as nil
+			t.Treatments[i].Levels = tr.Levels
+		}
 	}
 	t.Factors = fromFactorsV3(ft.Factors)
 	if len(ft.Plots) > 0 {

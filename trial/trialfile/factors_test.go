@@ -14,7 +14,7 @@ import (
 
 // factorialTrial is an invented 2 × 3 split plot (a fictional nitrogen ×
 // variety trial) laid out and randomised by the trial package.
-func factorialTrial(t *testing.T, kind trial.DesignKind, nf int) *trial.Trial {
+func factorialTrial(t testing.TB, kind trial.DesignKind, nf int) *trial.Trial {
 	t.Helper()
 	v60 := 60.0
 	fs := []trial.Factor{

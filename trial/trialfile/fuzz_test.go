@@ -5,6 +5,8 @@ import (
 	"os"
 	"strings"
 	"testing"
+
+	"furlong/trial"
 )
 
 // FuzzDecode checks that Decode never panics and that whatever it accepts
@@ -29,6 +31,14 @@ func FuzzDecode(f *testing.F) {
 	f.Add([]byte(`{"format":"furlong-trial","version":1,"trial":{"title":"a","Title":"b","ti\u0074le":"c"}}`))
 	f.Add([]byte(`{"format":"furlong-trial","version":1,"trial":{"design":{"kind":"xyz"},"plots":[{"number":1,"block":0,"row":100000000000}]}}`))
 	f.Add([]byte(`{"format":"furlong-trial","version":1,"trial":{"traits":[{"key":"a","decimals":10000000,"higher_better":tru`))
+	for _, kind := range []trial.DesignKind{trial.SplitPlot, trial.StripPlot} {
+		buf.Reset()
+		if err := Encode(&buf, factorialTrial(f, kind, 2)); err != nil {
+			f.Fatal(err)
+		}
+		f.Add(append([]byte(nil), buf.Bytes()...))
+	}
+	f.Add([]byte(`{"format":"furlong-trial","version":3,"trial":{"treatments":[{"code":"a","levels":[]}]}}`))
 	if v0, err := os.ReadFile("testdata/v0-sample.furlong"); err == nil {
 		f.Add(v0)
 	}
