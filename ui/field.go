@@ -239,7 +239,7 @@ func (f *fieldStep) loadMap() {
 		for _, e := range p.Exclusions {
 			ex = ex || e.Trait == ""
 		}
-		plots[i] = fieldmap.Plot{Row: p.Row, Column: p.Column, Number: p.Number, Code: p.Treatment, Block: p.Block, Unit: mapUnit(t, p), Group: g, Excluded: ex}
+		plots[i] = fieldmap.Plot{Row: p.Row, Column: p.Column, Number: p.Number, Code: p.Treatment, Block: p.Block, Unit: mapUnit(t, p), Sub: mapSub(t, p), Group: g, Excluded: ex}
 	}
 	f.fmap.SetPlots(plots)
 	f.fmap.SetOrientation(northName(t.Layout.Orientation.North), t.Layout.Orientation.Landmark)

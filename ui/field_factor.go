@@ -88,3 +88,12 @@ func (u *App) mapColourFactor() string {
 	}
 	return ""
 }
+
+// mapSub is the subplot the map outlines a plot in: its subplot in a
+// split-split plot, none otherwise.
+func mapSub(t *trial.Trial, p trial.Plot) int {
+	if t.SplitSplit() {
+		return p.SubPlot
+	}
+	return 0
+}

@@ -294,7 +294,7 @@ func FieldMap(t *trial.Trial, opt FieldMapOptions) (*plot.Plot, error) {
 			sw = unknown
 		}
 		g.cells = append(g.cells, gridCell{
-			row: pl.Row, col: pl.Column, block: pl.Block, unit: mainPlotUnit(t, pl), sw: sw,
+			row: pl.Row, col: pl.Column, block: pl.Block, unit: mainPlotUnit(t, pl), sub: subPlotUnit(t, pl), sw: sw,
 			lines: []string{strconv.Itoa(pl.Number), pl.Treatment},
 		})
 	}
@@ -351,6 +351,9 @@ func FieldMap(t *trial.Trial, opt FieldMapOptions) (*plot.Plot, error) {
 	}
 	if t.Design.Kind == trial.SplitPlot {
 		note = append(note, "dark lines: main plots")
+		if t.SplitSplit() {
+			note = append(note, "dashed: subplots")
+		}
 	}
 	p.X.Label.Text = "Field column    (" + joinNotes(note) + ")"
 	panel.entries = append(orientationEntries(t), panel.entries...)

@@ -15,6 +15,9 @@ import (
 // than block outlines, heavier than the cell grid.
 var mainPlotColour = color.Gray{Y: 0x40}
 
+// subPlotColour is the dashed line of subplot outlines (split-split plots).
+var subPlotColour = color.Gray{Y: 0x50}
+
 // mainPlotUnit is the main plot a plot belongs to in the field map's
 // outlines: its MainPlot in a split plot, 0 (none) otherwise. The strips
 // of a strip plot are whole field rows and columns of a block, which the
@@ -26,21 +29,32 @@ func mainPlotUnit(t *trial.Trial, pl trial.Plot) int {
 	return 0
 }
 
+// subPlotUnit is the subplot a plot belongs to in the outlines: its
+// SubPlot in a split-split plot, 0 (none) otherwise.
+func subPlotUnit(t *trial.Trial, pl trial.Plot) int {
+	if t.SplitSplit() {
+		return pl.SubPlot
+	}
+	return 0
+}
+
 // plotUnits outlines the main plots: every cell side whose neighbour is
-// in the same block but another main plot.
+// in the same block but another main plot; and, dashed, the subplots of a
+// split-split plot: every side whose neighbour is in the same main plot
+// but another subplot.
 func (g *fieldGrid) plotUnits(c draw.Canvas, trX, trY func(float64) vg.Length) {
 	type pos struct{ r, c int }
-	type unit struct{ block, unit int }
+	type unit struct{ block, unit, sub int }
 	at := make(map[pos]unit, len(g.cells))
 	some := false
 	for _, cell := range g.cells {
-		at[pos{cell.row, cell.col}] = unit{cell.block, cell.unit}
+		at[pos{cell.row, cell.col}] = unit{cell.block, cell.unit, cell.sub}
 		some = some || cell.unit != 0
 	}
 	if !some {
 		return
 	}
-	var segs [][2]vg.Point
+	var segs, subSegs [][2]vg.Point
 	for _, cell := range g.cells {
 		if cell.unit == 0 {
 			continue
@@ -48,8 +62,12 @@ func (g *fieldGrid) plotUnits(c draw.Canvas, trX, trY func(float64) vg.Length) {
 		r := cellRect(trX, trY, cell.col, cell.row)
 		side := func(dr, dc int, a, b vg.Point) {
 			nb, ok := at[pos{cell.row + dr, cell.col + dc}]
-			if ok && nb.block == cell.block && nb.unit != cell.unit && nb.unit != 0 {
+			switch {
+			case !ok || nb.block != cell.block || nb.unit == 0:
+			case nb.unit != cell.unit:
 				segs = append(segs, [2]vg.Point{a, b})
+			case nb.sub != cell.sub && nb.sub != 0 && cell.sub != 0:
+				subSegs = append(subSegs, [2]vg.Point{a, b})
 			}
 		}
 		// Each shared side once: the right and upper neighbours only.
@@ -57,6 +75,7 @@ func (g *fieldGrid) plotUnits(c draw.Canvas, trX, trY func(float64) vg.Length) {
 		side(0, 1, vg.Point{X: r.Max.X, Y: r.Min.Y}, r.Max)
 	}
 	strokeSegments(c, draw.LineStyle{Color: mainPlotColour, Width: vg.Points(1.2)}, segs)
+	strokeSegments(c, draw.LineStyle{Color: subPlotColour, Width: vg.Points(0.9), Dashes: []vg.Length{vg.Points(3), vg.Points(2)}}, subSegs)
 }
 
 // colourFactor returns the index of the factor a field map is coloured

@@ -95,3 +95,57 @@ func TestFieldMapMainPlots(t *testing.T) {
 		t.Errorf("unknown factor: %v", err)
 	}
 }
+
+// TestFieldMapSubPlots: a split-split plot's map also outlines, dashed,
+// every side between two subplots of one main plot (brute force over
+// neighbouring plots, as TestFieldMapMainPlots).
+func TestFieldMapSubPlots(t *testing.T) {
+	t.Parallel()
+	tr, err := trial.New(trial.NewOptions{
+		Title: "Fictional Larkspur Bend tillage by variety by sowing date",
+		Factors: []trial.Factor{
+			{Key: "T", Levels: []trial.Level{{Code: "CT"}, {Code: "NT"}}},
+			{Key: "V", Levels: []trial.Level{{Code: "V1"}, {Code: "V2"}, {Code: "V3"}}},
+			{Key: "S", Levels: []trial.Level{{Code: "early"}, {Code: "late"}}},
+		},
+		Design: trial.Design{Kind: trial.SplitPlot, Reps: 2},
+		Seed:   6, Now: time.Unix(0, 0),
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	type pos struct{ r, c int }
+	at := map[pos]trial.Plot{}
+	for _, p := range tr.Plots {
+		at[pos{p.Row, p.Column}] = p
+	}
+	wantMain, wantSub := 0, 0
+	for _, p := range tr.Plots {
+		for _, d := range []pos{{1, 0}, {0, 1}} {
+			q, ok := at[pos{p.Row + d.r, p.Column + d.c}]
+			switch {
+			case !ok || q.Block != p.Block:
+			case q.MainPlot != p.MainPlot:
+				wantMain++
+			case q.SubPlot != p.SubPlot:
+				wantSub++
+			}
+		}
+	}
+	p, err := FieldMap(tr, FieldMapOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	svg := render(t, p, "svg")
+	if got := mainPlotSegments(svg); got != wantMain {
+		t.Errorf("%d main-plot segments, want %d", got, wantMain)
+	}
+	re := regexp.MustCompile(`<path d="([^"]*)"[^>]*stroke:` + hexOf(subPlotColour))
+	got := 0
+	for _, m := range re.FindAllSubmatch(svg, -1) {
+		got += strings.Count(string(m[1]), "M")
+	}
+	if wantSub == 0 || got != wantSub {
+		t.Errorf("%d subplot segments, want %d", got, wantSub)
+	}
+}

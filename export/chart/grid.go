@@ -18,6 +18,7 @@ type gridCell struct {
 	row, col int
 	block    int
 	unit     int // main plot within the block (split plots), 0 for none
+	sub      int // subplot within the main plot (split-split plots), 0 for none
 	sw       swatch
 	lines    []string // text written in the cell when it fits
 }

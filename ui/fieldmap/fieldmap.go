@@ -42,6 +42,7 @@ type Plot struct {
 	Code        string // treatment code, printed below the number
 	Block       int    // blocks are outlined
 	Unit        int    // main plot within the block (outlined thinner); 0 for none
+	Sub         int    // subplot within the main plot (outlined thinner still); 0 for none
 	Group       int    // colour: OkabeIto[Group % len]; negative for no fill
 	Excluded    bool   // drawn hatched grey
 }
@@ -236,6 +237,7 @@ type renderer struct {
 	codes   []*canvas.Text
 	blocks  []*canvas.Rectangle
 	units   []*canvas.Rectangle // main-plot outlines
+	subs    []*canvas.Rectangle // subplot outlines
 	mark    *canvas.Rectangle
 	arrow   []*canvas.Line // shaft and the two sides of the head
 	arrowN  *canvas.Text
@@ -252,7 +254,7 @@ func (r *renderer) Objects() []fyne.CanvasObject { return r.objects }
 // Refresh rebuilds the objects when the plots changed and restyles them.
 func (r *renderer) Refresh() {
 	m := r.m
-	if r.mark == nil || len(r.cells) != len(m.plots) || len(r.blocks) != numBlocks(m.plots) || len(r.units) != len(unitKeys(m.plots)) {
+	if r.mark == nil || len(r.cells) != len(m.plots) || len(r.blocks) != numBlocks(m.plots) || len(r.units) != len(unitKeys(m.plots)) || len(r.subs) != len(subKeys(m.plots)) {
 		r.build()
 	}
 	labelled := len(m.plots) <= maxLabelled
@@ -275,6 +277,11 @@ func (r *renderer) Refresh() {
 	for _, u := range r.units {
 		u.StrokeColor = fg
 	}
+	for _, u := range r.subs {
+		c := color.NRGBAModel.Convert(fg).(color.NRGBA)
+		c.A = 0xA0
+		u.StrokeColor = c
+	}
 	r.mark.StrokeColor = theme.Color(theme.ColorNamePrimary)
 	for _, l := range r.arrow {
 		l.StrokeColor = fg
@@ -296,6 +303,21 @@ func unitKeys(ps []Plot) [][2]int {
 	for _, p := range ps {
 		k := [2]int{p.Block, p.Unit}
 		if p.Unit != 0 && !seen[k] {
+			seen[k] = true
+			out = append(out, k)
+		}
+	}
+	return out
+}
+
+// subKeys lists the (block, main plot, subplot) triples of the plots that
+// have a subplot, in the order they first appear.
+func subKeys(ps []Plot) [][3]int {
+	seen := map[[3]int]bool{}
+	var out [][3]int
+	for _, p := range ps {
+		k := [3]int{p.Block, p.Unit, p.Sub}
+		if p.Unit != 0 && p.Sub != 0 && !seen[k] {
 			seen[k] = true
 			out = append(out, k)
 		}
@@ -332,6 +354,13 @@ func (r *renderer) build() {
 			r.codes[i].Alignment = fyne.TextAlignCenter
 			r.objects = append(r.objects, r.numbers[i], r.codes[i])
 		}
+	}
+	r.subs = nil
+	for range subKeys(m.plots) {
+		u := canvas.NewRectangle(color.Transparent)
+		u.StrokeWidth = 1
+		r.subs = append(r.subs, u)
+		r.objects = append(r.objects, u)
 	}
 	r.units = nil
 	for range unitKeys(m.plots) {
@@ -483,6 +512,28 @@ func (r *renderer) Layout(s fyne.Size) {
 		b := ubox[k]
 		r.units[i].Move(fyne.NewPos(o.X+float32(b.c0-1)*cw, o.Y+float32(m.rows-b.r1)*ch))
 		r.units[i].Resize(fyne.NewSize(float32(b.c1-b.c0+1)*cw, float32(b.r1-b.r0+1)*ch))
+	}
+	sbox := map[[3]int]*box{}
+	for _, p := range m.plots {
+		if p.Unit == 0 || p.Sub == 0 {
+			continue
+		}
+		k := [3]int{p.Block, p.Unit, p.Sub}
+		b, ok := sbox[k]
+		if !ok {
+			b = &box{p.Row, p.Column, p.Row, p.Column}
+			sbox[k] = b
+		}
+		b.r0, b.c0 = min(b.r0, p.Row), min(b.c0, p.Column)
+		b.r1, b.c1 = max(b.r1, p.Row), max(b.c1, p.Column)
+	}
+	for i, k := range subKeys(m.plots) {
+		if i >= len(r.subs) {
+			break
+		}
+		b := sbox[k]
+		r.subs[i].Move(fyne.NewPos(o.X+float32(b.c0-1)*cw, o.Y+float32(m.rows-b.r1)*ch))
+		r.subs[i].Resize(fyne.NewSize(float32(b.c1-b.c0+1)*cw, float32(b.r1-b.r0+1)*ch))
 	}
 	mark := m.hover
 	if mark < 0 {
