@@ -82,6 +82,9 @@ func fit(m Model, forceQR bool) (*ANOVA, error) {
 				Reason: fmt.Sprintf("value number %d is not a finite number; mark it as missing instead", i+1)}
 		}
 	}
+	if math.IsNaN(m.Origin) || math.IsInf(m.Origin, 0) {
+		return nil, &InputError{Kind: NonFiniteValue, Level: -1, Obs: -1, Reason: "the common part of the values is not a finite number"}
+	}
 	if err := checkLevels(trt, nuis); err != nil {
 		return nil, err
 	}
@@ -148,6 +151,7 @@ func fit(m Model, forceQR bool) (*ANOVA, error) {
 		return nil, &InputError{Kind: ZeroErrorVariance, Level: -1, Obs: -1, Reason: reason}
 	}
 	a := assemble(r, trt, nuis, n, dfe, gm, sst, balanced)
+	sc.origin = m.Origin
 	sc.restore(a)
 	return a, nil
 }
@@ -163,6 +167,7 @@ const maxSpread = 1e150
 type scaling struct {
 	s1, c, s2 float64
 	spread    float64 // s1·s2: the unit of w in the data's own unit
+	origin    float64 // Model.Origin, added back to every level
 }
 
 // standardise returns the responses centred and scaled as scaling
@@ -210,7 +215,7 @@ func pow2Above(v float64) float64 {
 }
 
 // level is a value of the standardised scale in the data's unit.
-func (s scaling) level(w float64) float64 { return s.s1 * (s.c + s.s2*w) }
+func (s scaling) level(w float64) float64 { return s.s1*(s.c+s.s2*w) + s.origin }
 
 // restore puts the results of a fit to the standardised responses back in
 // the data's unit: levels (means, fitted values) through level, differences
@@ -224,11 +229,19 @@ func (s scaling) restore(a *ANOVA) {
 	// CV% from the standardised fit: 100·√MSE / |grand mean|, unit free.
 	gmz := s.c + s.s2*a.GrandMean
 	a.CVPercent = 0
-	if gmz != 0 {
-		a.CVPercent = 100 * s.s2 * math.Sqrt(a.MSE) / math.Abs(gmz)
-	}
 	a.RootMSE = d * math.Sqrt(a.MSE)
-	a.GrandMean = s.s1 * gmz
+	switch {
+	case s.origin != 0:
+		a.GrandMean = s.s1*gmz + s.origin
+		if a.GrandMean != 0 {
+			a.CVPercent = 100 * a.RootMSE / math.Abs(a.GrandMean)
+		}
+	default:
+		if gmz != 0 {
+			a.CVPercent = 100 * s.s2 * math.Sqrt(a.MSE) / math.Abs(gmz)
+		}
+		a.GrandMean = s.s1 * gmz
+	}
 	a.MSE *= d2
 	for i := range a.Sources {
 		a.Sources[i].SS *= d2

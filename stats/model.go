@@ -24,6 +24,15 @@ type Model struct {
 	Response  []float64 // finite values only; drop missing observations before fitting
 	Treatment Factor
 	Nuisance  []Factor // none: one-way; one (block): RCBD; two (row, column): Latin square
+	// Origin, when not 0, is the common part of the values that the caller
+	// has already taken away: the values are Origin + Response[i]. A caller
+	// holding the values as decimal numbers can subtract their shared
+	// leading digits exactly (1000000000000.4 − 1000000000000 = 0.4, which
+	// float64 holds far better than the whole value), so that no digit of
+	// the differences is lost to rounding. Means, the grand mean, fitted
+	// values and CV% are reported on the values' own scale, Origin included;
+	// sums of squares, SEs and residuals do not depend on it.
+	Origin float64
 }
 
 // Source is one line of an analysis of variance table.

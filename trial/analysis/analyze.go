@@ -344,6 +344,14 @@ func AnalyzeData(d *Data, o Options) (*Result, error) {
 		return fail(describeStatsError(d, err, plots), err)
 	}
 	m := stats.Model{Response: ty, Treatment: stats.Factor{Name: "treatment", Levels: k, Index: trt}}
+	if o.Transform == stats.NoTransform {
+		// Values that share many leading digits are analysed as exact
+		// decimal differences from one of them, so none of their digits
+		// is lost to float64 rounding (trial.SharedDigits).
+		if origin, rest, ok := trial.SharedDigits(ty); ok {
+			m.Response, m.Origin = rest, origin
+		}
+	}
 	switch d.Design {
 	case trial.RCBD:
 		m.Nuisance = []stats.Factor{{Name: "block", Role: stats.RoleBlock, Levels: d.Blocks, Index: blk}}
