@@ -74,14 +74,6 @@ func Means(t *trial.Trial, r *analysis.Result, opt MeansOptions) (*plot.Plot, er
 	if err != nil {
 		return nil, err
 	}
-	codes := make([]string, len(bars))
-	lettersShown := false
-	for i, b := range bars {
-		codes[i] = b.code
-		lettersShown = lettersShown || b.letters != ""
-	}
-	pct := formatPercent(alpha)
-
 	first := opt.Title
 	if first == "" && t != nil {
 		first = t.Title
@@ -90,6 +82,23 @@ func Means(t *trial.Trial, r *analysis.Result, opt MeansOptions) (*plot.Plot, er
 	p := newPlot(chartTitle(append([]string{first, r.TraitName + ": treatment means"}, notes...)...))
 	p.Y.Label.Text = name
 	p.X.Label.Text = "Treatment (" + orderNote(opt.Order, r.HigherBetter) + ")"
+	if err := drawMeanBars(p, bars, opt, alpha, errorBarNote(opt.ErrorBars, alpha)); err != nil {
+		return nil, err
+	}
+	return p, nil
+}
+
+// drawMeanBars adds the bars (or points), error bars, letters and key of a
+// means chart to p, whose title and axis labels are set; barNote says what
+// the error bars show.
+func drawMeanBars(p *plot.Plot, bars []meanBar, opt MeansOptions, alpha float64, barNote string) error {
+	codes := make([]string, len(bars))
+	lettersShown := false
+	for i, b := range bars {
+		codes[i] = b.code
+		lettersShown = lettersShown || b.letters != ""
+	}
+	pct := formatPercent(alpha)
 	nominalAxis(p, codes)
 
 	n := len(bars)
@@ -134,7 +143,7 @@ func Means(t *trial.Trial, r *analysis.Result, opt MeansOptions) (*plot.Plot, er
 			}
 			s, err := plotter.NewScatter(set.xys)
 			if err != nil {
-				return nil, err
+				return err
 			}
 			s.GlyphStyle = set.g
 			p.Add(s)
@@ -163,7 +172,7 @@ func Means(t *trial.Trial, r *analysis.Result, opt MeansOptions) (*plot.Plot, er
 	if len(eb.xys) > 0 {
 		e, err := plotter.NewYErrorBars(eb)
 		if err != nil {
-			return nil, err
+			return err
 		}
 		e.LineStyle.Width = vg.Points(0.8)
 		e.CapWidth = vg.Points(min(5, 300/float64(n)))
@@ -190,7 +199,7 @@ func Means(t *trial.Trial, r *analysis.Result, opt MeansOptions) (*plot.Plot, er
 		}
 		l, err := plotter.NewLabels(lab)
 		if err != nil {
-			return nil, err
+			return err
 		}
 		size := p.X.Tick.Label.Font.Size + 1
 		for i := range l.TextStyle {
@@ -246,7 +255,7 @@ func Means(t *trial.Trial, r *analysis.Result, opt MeansOptions) (*plot.Plot, er
 		}
 	}
 	if len(eb.xys) > 0 {
-		panel.entries = append(panel.entries, panelEntry{swatch: &swatch{ErrBar: true}, text: errorBarNote(opt.ErrorBars, alpha)})
+		panel.entries = append(panel.entries, panelEntry{swatch: &swatch{ErrBar: true}, text: barNote})
 	}
 	if lettersShown {
 		method := "LSD"
@@ -258,7 +267,7 @@ func Means(t *trial.Trial, r *analysis.Result, opt MeansOptions) (*plot.Plot, er
 		})
 	}
 	p.Add(panel)
-	return p, nil
+	return nil
 }
 
 // meanBars computes the bars of a means chart in display order, with the
