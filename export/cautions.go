@@ -31,3 +31,17 @@ var EconomicCautions = []string{
 
 // EconomicCautionText is EconomicCautions as one paragraph.
 func EconomicCautionText() string { return strings.Join(EconomicCautions, " ") }
+
+// ProtectionCautions go with every crop-protection output (percent
+// efficacy, disease progress, the operations log): the label is the law,
+// one trial's efficacy is not a recommendation, and local rules and
+// licensed advice come first. Furlong records what was done; it never
+// suggests a product or a rate.
+var ProtectionCautions = []string{
+	"The product label is the law: use a product only as its label and local regulations allow.",
+	"Efficacy in one trial is not a recommendation of a product, rate or timing.",
+	"Follow local regulations and the advice of a licensed adviser before any application.",
+}
+
+// ProtectionCautionText is ProtectionCautions as one paragraph.
+func ProtectionCautionText() string { return strings.Join(ProtectionCautions, " ") }

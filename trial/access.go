@@ -481,5 +481,9 @@ func cloneTrait(tr Trait) Trait {
 		d := *tr.Derived
 		tr.Derived = &d
 	}
+	if tr.Assessment != nil {
+		a := *tr.Assessment
+		tr.Assessment = &a
+	}
 	return tr
 }

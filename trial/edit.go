@@ -135,9 +135,9 @@ func (t *Trial) UpdateTreatment(code string, tr Treatment) error {
 		return err
 	}
 	switch tr.Role {
-	case "", RoleEntry, RoleCheck:
+	case "", RoleEntry, RoleCheck, RoleUntreated:
 	default:
-		return &ValidationError{Field: "Role", Msg: fmt.Sprintf("treatment %q has role %q; a treatment is either an entry or a check", tr.Code, tr.Role)}
+		return &ValidationError{Field: "Role", Msg: fmt.Sprintf("treatment %q has role %q; a treatment is an entry, a check or the untreated check", tr.Code, tr.Role)}
 	}
 	t.Treatments[i] = cloneTreatments([]Treatment{tr})[0]
 	if tr.Code != code {

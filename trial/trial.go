@@ -304,6 +304,13 @@ type Trait struct {
 	// trait as a percentage of the check mean. nil leaves it to the default
 	// (the trial's yield trait only; see Trial.ShowsPercentOfCheck).
 	PercentOfCheck *bool
+
+	// Assessment, when set, makes the trait one assessment of a series
+	// of the same trait over time (see assessment.go).
+	Assessment *Assessment
+	// PreCountOf, when set, marks the trait as the pre-treatment count of
+	// the trait or series with that key (for Henderson–Tilton efficacy).
+	PreCountOf string
 }
 
 // Missing is the value stored for a missing observation.
@@ -330,4 +337,7 @@ type Derivation struct {
 	// Output unit: "t/ha" or "bu/ac"; for bu/ac BushelWeightLb is used.
 	OutputUnit     string
 	BushelWeightLb float64
+	// Series is the key of the assessment series an AUDPC trait is
+	// computed from.
+	Series string
 }

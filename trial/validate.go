@@ -177,9 +177,9 @@ func (p *problems) checkTreatmentsN(ts []Treatment, maxLen int) {
 			}
 		}
 		switch tr.Role {
-		case "", RoleEntry, RoleCheck:
+		case "", RoleEntry, RoleCheck, RoleUntreated:
 		default:
-			p.add(f+".Role", "treatment %q has role %q; a treatment is either an entry or a check", tr.Code, tr.Role)
+			p.add(f+".Role", "treatment %q has role %q; a treatment is an entry, a check or the untreated check", tr.Code, tr.Role)
 		}
 		if tr.Rate != nil && (math.IsNaN(*tr.Rate) || math.IsInf(*tr.Rate, 0)) {
 			p.add(f+".Rate", "treatment %q has no usable rate; enter a number or leave the rate empty", tr.Code)
@@ -310,6 +310,7 @@ func (p *problems) checkTrait(t *Trial, i int, seen map[string]int) {
 		if msg := TransformProblem(tr.Transform, tr.Kind); msg != "" {
 			p.add(f+".Transform", "trait %q: %s", tr.Key, msg)
 		}
+		p.checkAssessment(t, i)
 		if tr.Derived != nil {
 			p.checkDerived(t, i)
 			return
@@ -413,6 +414,10 @@ func (p *problems) checkDerived(t *Trial, i int) {
 	f := fmt.Sprintf("Traits[%d].Derived", i)
 	if tr.Values != nil {
 		p.add(fmt.Sprintf("Traits[%d].Values", i), "trait %q is computed, so it cannot hold recorded values", tr.Key)
+	}
+	if d.Kind == AUDPC || d.Kind == AUDPCStandard {
+		p.checkAUDPC(t, i)
+		return
 	}
 	if d.Kind != AdjustedYield {
 		p.add(f+".Kind", "trait %q uses a formula Furlong does not know (%q)", tr.Key, string(d.Kind))

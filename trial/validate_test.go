@@ -93,7 +93,7 @@ func TestValidationRules(t *testing.T) {
 		{"codes differ in case only", func(tr *Trial) { tr.Treatments[2].Code = "mz-101" },
 			"Treatments[2].Code", "differ only in capitals"},
 		{"bad role", func(tr *Trial) { tr.Treatments[0].Role = "control" },
-			"Treatments[0].Role", "either an entry or a check"},
+			"Treatments[0].Role", "an entry, a check or the untreated check"},
 		{"no design", func(tr *Trial) { tr.Design.Kind = "" },
 			"Design.Kind", "choose a design"},
 		{"unknown design", func(tr *Trial) { tr.Design.Kind = "alpha" },

@@ -132,6 +132,10 @@ func (t *Trial) bushelWeight(d *Derivation) (float64, bool) {
 // reports the impossible ones.
 func (t *Trial) derive(tr *Trait) ([]float64, error) {
 	d := tr.Derived
+	switch d.Kind {
+	case AUDPC, AUDPCStandard:
+		return t.deriveAUDPC(tr)
+	}
 	if d.Kind != AdjustedYield {
 		return nil, fmt.Errorf("trait %q uses a formula this version of Furlong does not know (%q)", tr.Key, d.Kind)
 	}

@@ -113,6 +113,7 @@ func writeTrait(w *Writer, oc analysis.Outcome) {
 	writePairs(w, r.Pairs)
 	writeDiagnostics(w, &r.Diagnostics)
 	writeVsCheck(w, r.VsCheck)
+	writeEfficacy(w, r.Efficacy) // efficacy.go
 	if r.Factorial != nil {
 		writeFactorial(w, r) // factorial.go
 	}

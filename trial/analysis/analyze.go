@@ -64,6 +64,13 @@ type Data struct {
 	// (a split plot's main-plot factor first); Treatments are then their
 	// combinations and Design CRD, RCBD, SplitPlot or StripPlot.
 	Factors []FactorData
+	// Untreated is the code of the untreated check ("" for none) and
+	// PreCount, when set, the pre-treatment count of every observation
+	// (aligned with Values, NaN when missing): see Result.Efficacy.
+	Untreated string
+	PreCount  []float64
+
+	preCountKey string
 }
 
 // Error is a trait that could not be analysed, with the reason in plain words.
@@ -105,7 +112,14 @@ func Analyze(t *trial.Trial, key string, o Options) (*Result, error) {
 	if o.Method == "" {
 		o.Method = meansep.Method(t.MeanSeparation())
 	}
-	return AnalyzeData(d, o)
+	if err := preCounts(t, d); err != nil {
+		return nil, err
+	}
+	r, err := AnalyzeData(d, o)
+	if err == nil {
+		efficacy(r, d)
+	}
+	return r, err
 }
 
 // Outcome is the analysis of one trait: a result or the reason there is none.
@@ -179,6 +193,7 @@ func FromTrial(t *trial.Trial, key string) (*Data, error) {
 		TraitKey: tr.Key, TraitName: tr.Name, Unit: tr.Unit, Decimals: tr.Decimals,
 		HigherBetter: tr.HigherBetter, Kind: tr.Kind, Design: t.Design.Kind,
 		Transform: stats.Transform(tr.Transform), PercentOfCheck: t.ShowsPercentOfCheck(key),
+		Untreated: t.Untreated(),
 	}
 	for _, trt := range t.Treatments {
 		d.Treatments = append(d.Treatments, trt.Code)

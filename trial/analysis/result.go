@@ -83,7 +83,11 @@ type Result struct {
 	Pairs []Pair
 	// VsCheck compares every treatment with one check (Dunnett); nil
 	// unless asked for with CompareWithCheck.
-	VsCheck     *CheckComparison
+	VsCheck *CheckComparison
+	// Efficacy is the percent efficacy of every treatment against the
+	// untreated check, for a trait where lower is better in a trial with
+	// an untreated check; nil otherwise.
+	Efficacy    *Efficacy
 	Diagnostics Diagnostics
 	// Notes are plain-language notes on the analysis: missing and
 	// excluded plots, adjusted sums of squares, the transformation,

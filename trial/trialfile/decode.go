@@ -243,8 +243,12 @@ func fromV1(ft *trialV1) (*trial.Trial, *fieldError) {
 		}
 		if d := tr.Derived; d != nil {
 			tt.Derived = &trial.Derivation{Kind: trial.DerivationKind(d.Kind), WeightTrait: d.WeightTrait, MoistureTrait: d.MoistureTrait,
-				StandardMoisture: d.StandardMoisture, OutputUnit: d.OutputUnit, BushelWeightLb: d.BushelWeightLb}
+				StandardMoisture: d.StandardMoisture, OutputUnit: d.OutputUnit, BushelWeightLb: d.BushelWeightLb, Series: d.Series}
 		}
+		if a := tr.Assessment; a != nil {
+			tt.Assessment = &trial.Assessment{Series: a.Series, Days: a.Days, From: trial.DaysFrom(a.From)}
+		}
+		tt.PreCountOf = tr.PreCountOf
 		vs, idx, err := parseValues(tr.Values)
 		if err != nil && fe == nil {
 			p := path + ".values"

@@ -119,10 +119,14 @@ func toV1(t *trial.Trial) (*trialV1, error) {
 		}
 		if d := tr.Derived; d != nil {
 			fr.Derived = &derivedV1{Kind: string(d.Kind), WeightTrait: d.WeightTrait, MoistureTrait: d.MoistureTrait,
-				StandardMoisture: d.StandardMoisture, OutputUnit: d.OutputUnit, BushelWeightLb: d.BushelWeightLb}
+				StandardMoisture: d.StandardMoisture, OutputUnit: d.OutputUnit, BushelWeightLb: d.BushelWeightLb, Series: d.Series}
 		} else {
 			fr.Values = appendValues(make([]byte, 0, 2+len(tr.Values)*8), tr.Values)
 		}
+		if a := tr.Assessment; a != nil {
+			fr.Assessment = &assessmentV3{Series: a.Series, Days: a.Days, From: string(a.From)}
+		}
+		fr.PreCountOf = tr.PreCountOf
 		ft.Traits[j] = fr
 	}
 	if err != nil {

@@ -107,9 +107,13 @@ func checkBounds(t *trial.Trial) *problem {
 		default:
 			return &problem{path + "kind", errorf(ErrWrongType, "trait %q is of kind %q, which Furlong does not know (continuous, count, percent or score)", tr.Key, string(tr.Kind))}
 		}
-		if dv := tr.Derived; dv != nil {
+		if dv := tr.Derived; dv != nil && (dv.Kind == trial.AUDPC || dv.Kind == trial.AUDPCStandard) {
+			if _, err := t.Series(dv.Series); err != nil {
+				return &problem{path + "derived.series", errorf(ErrUnknownTrait, "trait %q cannot be computed: %v", tr.Key, err)}
+			}
+		} else if dv != nil {
 			if dv.Kind != trial.AdjustedYield {
-				return &problem{path + "derived.kind", errorf(ErrWrongType, "trait %q is computed by the formula %q, which Furlong does not know (%q)", tr.Key, string(dv.Kind), string(trial.AdjustedYield))}
+				return &problem{path + "derived.kind", errorf(ErrWrongType, "trait %q is computed by the formula %q, which Furlong does not know (%q, %q or %q)", tr.Key, string(dv.Kind), string(trial.AdjustedYield), string(trial.AUDPC), string(trial.AUDPCStandard))}
 			}
 			for _, src := range []struct{ name, key string }{{"weight_trait", dv.WeightTrait}, {"moisture_trait", dv.MoistureTrait}} {
 				if st := t.Trait(src.key); st == nil || st.Derived != nil {

@@ -148,6 +148,20 @@ type traitV1 struct {
 	// absent for a derived trait.
 	Values  json.RawMessage `json:"values,omitempty"`
 	Derived *derivedV1      `json:"derived,omitempty"`
+	// Assessment (optional, version 3) links the trait to the other
+	// assessments of its series; PreCountOf marks it as the pre-treatment
+	// count of a trait or series. Absent when not set.
+	Assessment *assessmentV3 `json:"assessment,omitempty"`
+	PreCountOf string        `json:"pre_count_of,omitempty"`
+}
+
+// assessmentV3 is one assessment of a series over time.
+type assessmentV3 struct {
+	Series string `json:"series"`
+	// Days and From: the day count after "treatment" or "sowing"; both
+	// absent when no count was given.
+	Days int    `json:"days,omitempty"`
+	From string `json:"from,omitempty"`
 }
 
 // analysisV2 holds the trial's analysis settings (version 2).
@@ -163,6 +177,8 @@ type derivedV1 struct {
 	StandardMoisture float64 `json:"standard_moisture"`
 	OutputUnit       string  `json:"output_unit"`
 	BushelWeightLb   float64 `json:"bushel_weight_lb"`
+	// Series (optional): the assessment series of an AUDPC trait.
+	Series string `json:"series,omitempty"`
 }
 
 // The version 0 shape: values stored per plot as an object keyed by trait,

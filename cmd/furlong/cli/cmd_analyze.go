@@ -506,6 +506,7 @@ func writeResultTables(w io.Writer, r *analysis.Result) {
 		}
 		tw.Flush()
 	}
+	writeEfficacyText(w, r) // cmd_analyze_efficacy.go
 	for _, s := range r.Warnings {
 		fmt.Fprintf(w, "Note: %s\n", s)
 	}

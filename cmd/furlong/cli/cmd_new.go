@@ -25,6 +25,8 @@ type newOptions struct {
 	rates, rateUnit                                                       string
 	factors                                                               factorFlags
 	mainPlot, subPlot                                                     string
+	untreated                                                             string      // cmd_new_assess.go
+	assess, preCount                                                      assessFlags // cmd_new_assess.go
 }
 
 func init() {
@@ -46,7 +48,7 @@ from those two traits (plot weight in kg, moisture in %), at the crop's standard
 --rates gives each treatment its rate, in the order of --treatments ("0,50,100,150,200"; leave a
 place empty for a treatment without a rate, such as an untreated control: "0,40,,80"), with
 --rate-unit naming the unit ("kg N/ha"); 'furlong response' then fits the response to the rate.
-An existing FILE is not replaced unless --force is given.` + newFactorHelp,
+An existing FILE is not replaced unless --force is given.` + newFactorHelp + newAssessHelp,
 		flags: func(env Env) (*flag.FlagSet, func(context.Context, []string) error) {
 			o := &newOptions{env: env}
 			fs := flag.NewFlagSet("new", flag.ContinueOnError)
@@ -63,6 +65,9 @@ An existing FILE is not replaced unless --force is given.` + newFactorHelp,
 			fs.Var(&o.factors, "factor", "a treatment factor `KEY[:NAME]=LEVEL,...` (repeat for each factor)")
 			fs.StringVar(&o.mainPlot, "main-plot", "", "`KEY` of the factor on main plots (split plot) or horizontal strips (strip plot)")
 			fs.StringVar(&o.subPlot, "sub-plot", "", "`KEY` of the factor on subplots of a split-split plot")
+			fs.StringVar(&o.untreated, "untreated", "", "`CODE` of the untreated check (percent efficacy is worked out against it)")
+			fs.Var(&o.assess, "assess", "a trait assessed on several dates `KEY[:UNIT]=WHEN,...` (repeat for each series)")
+			fs.Var(&o.preCount, "pre-count", "`KEY=TARGET`: trait KEY is the count before treatment of trait or series TARGET")
 			fs.StringVar(&o.title, "title", "", "trial title")
 			fs.StringVar(&o.crop, "crop", "", "crop (maize, soybean, wheat, barley, oats get moisture defaults)")
 			fs.StringVar(&o.season, "season", "", "season, for example 2026")
@@ -162,6 +167,9 @@ func buildNew(o *newOptions) (*trial.Trial, error) {
 	}
 	traits, err := parseTraits(o.traits)
 	if err != nil {
+		return nil, err
+	}
+	if traits, err = applyCropProtection(o, trts, traits); err != nil {
 		return nil, err
 	}
 	if o.yieldFrom != "" {

@@ -100,6 +100,9 @@ func writeShow(ctx context.Context, w io.Writer, t *trial.Trial) error {
 		if tr.Role == trial.RoleCheck {
 			role = "check"
 		}
+		if tr.Role == trial.RoleUntreated {
+			role = "untreated check"
+		}
 		fmt.Fprintln(w, strings.TrimRight(fmt.Sprintf("  %-12s %-30s %s", tr.Code, tr.Name, role), " "))
 	}
 
@@ -111,7 +114,9 @@ func writeShow(ctx context.Context, w io.Writer, t *trial.Trial) error {
 				unit = " (" + tr.Unit + ")"
 			}
 			state := ""
-			if tr.Derived != nil {
+			if note := seriesNote(t, &tr); note != "" { // cmd_show_series.go
+				state = note
+			} else if tr.Derived != nil {
 				state = "derived from " + tr.Derived.WeightTrait + " and " + tr.Derived.MoistureTrait
 			} else if i < len(s.Traits) {
 				ts := s.Traits[i]
