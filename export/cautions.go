@@ -45,3 +45,16 @@ var ProtectionCautions = []string{
 
 // ProtectionCautionText is ProtectionCautions as one paragraph.
 func ProtectionCautionText() string { return strings.Join(ProtectionCautions, " ") }
+
+// SeriesCautions go with every summary of a series of trials: a series
+// over few sites is still limited evidence, local conditions differ, and
+// the summary is not a recommendation.
+var SeriesCautions = []string{
+	"A series over a few sites and seasons is still limited evidence: entries can rank differently in other places and years.",
+	"Local conditions (soil, weather, pests, management) differ from those of the trial sites; look at the sites most like your own.",
+	"These results describe what was tested; they are not a recommendation of any entry or product.",
+	"Follow the product label and local regulations for any crop-protection product, and seek advice from a licensed adviser before acting on these results.",
+}
+
+// SeriesCautionText is SeriesCautions as one paragraph.
+func SeriesCautionText() string { return strings.Join(SeriesCautions, " ") }
