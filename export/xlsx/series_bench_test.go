@@ -66,4 +66,3 @@ func BenchmarkSeriesWorkbook(b *testing.B) {
 		}
 	}
 }
-
