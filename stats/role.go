@@ -31,6 +31,9 @@ const (
 	RoleFactor
 	RoleInteraction
 	RoleErrorStratum
+	// RoleCovariate is the regression on a covariate in an analysis of
+	// covariance (FitCovariate), one degree of freedom.
+	RoleCovariate
 )
 
 var roleNames = [...]string{
@@ -47,6 +50,7 @@ var roleNames = [...]string{
 	RoleFactor:        "factor",
 	RoleInteraction:   "interaction",
 	RoleErrorStratum:  "error stratum",
+	RoleCovariate:     "covariate",
 }
 
 // String is the role in lower-case words ("treatment", "error", ...).
