@@ -71,6 +71,13 @@ type Data struct {
 	PreCount  []float64
 
 	preCountKey string
+
+	// Covariate, when set, holds a covariate's value per observation (NaN
+	// missing): the trait is then analysed by analysis of covariance
+	// (Result.Covariate). CovariateKey and CovariateName name it.
+	Covariate     []float64
+	CovariateKey  string
+	CovariateName string
 }
 
 // Error is a trait that could not be analysed, with the reason in plain words.
@@ -108,6 +115,12 @@ func Analyze(t *trial.Trial, key string, o Options) (*Result, error) {
 	d, err := FromTrial(t, key)
 	if err != nil {
 		return nil, err
+	}
+	// The covariate trait itself is analysed as it is.
+	if o.Covariate != "" && o.Covariate != key {
+		if err := attachCovariate(t, d, o.Covariate); err != nil {
+			return nil, err
+		}
 	}
 	if o.Method == "" {
 		o.Method = meansep.Method(t.MeanSeparation())
@@ -307,8 +320,13 @@ func AnalyzeData(d *Data, o Options) (*Result, error) {
 		Excluded: d.Excluded,
 	}
 	if len(d.Factors) > 0 {
+		if d.Covariate != nil {
+			return nil, &Error{Trait: d.TraitKey, Msg: "analysis of covariance is not available for crossed treatment factors yet; analyse the trait without --covariate"}
+		}
 		return analyzeFactorial(d, o, r)
 	}
+	var x []float64
+	covLeft := 0
 	// Keep the observations with values.
 	var y []float64
 	var trt, blk, row, col, plots, pidx []int
@@ -316,6 +334,13 @@ func AnalyzeData(d *Data, o Options) (*Result, error) {
 		if math.IsNaN(v) {
 			r.Missing++
 			continue
+		}
+		if dropMissingCovariate(d, i) {
+			covLeft++
+			continue
+		}
+		if d.Covariate != nil {
+			x = append(x, d.Covariate[i])
 		}
 		y = append(y, v)
 		trt = append(trt, d.Treatment[i])
@@ -376,7 +401,15 @@ func AnalyzeData(d *Data, o Options) (*Result, error) {
 			{Name: "column", Role: stats.RoleColumn, Levels: d.Cols, Index: col},
 		}
 	}
-	a, err := stats.Fit(m)
+	var a *stats.ANOVA
+	if d.Covariate != nil {
+		a, err = fitCovariate(r, d, m, x, o)
+		if err == nil {
+			r.Covariate.Left = covLeft
+		}
+	} else {
+		a, err = stats.Fit(m)
+	}
 	if err != nil {
 		return fail(describeStatsError(d, err, plots), err)
 	}
@@ -509,7 +542,7 @@ func diagnose(r *Result, d *Data, a *stats.ANOVA, ty, y []float64, trt, blk, plo
 		dg.BartlettK2, dg.BartlettP, dg.VarianceOn = ptr(bt.ChiSquare), ptr(bt.P), on
 		sum.HasBartlett, sum.BartlettK2, sum.BartlettP, sum.VarianceOn = true, bt.ChiSquare, bt.P, on
 	}
-	if d.Design == trial.RCBD && a.Balanced {
+	if d.Design == trial.RCBD && a.Balanced && d.Covariate == nil {
 		if na, err := diag.TukeyNonAdditivity(ty, blk, trt, d.Blocks, len(d.Treatments)); err == nil {
 			dg.NonAdditivityF, dg.NonAdditivityP = ptr(na.F), ptr(na.P)
 			sum.HasNonAdditivity, sum.NonAdditivityF, sum.NonAdditivityP = true, na.F, na.P
@@ -564,6 +597,9 @@ func notes(r *Result, d *Data, a *stats.ANOVA) {
 			note += fmt.Sprintf(" Because some values are 0, %g was added to every value before transforming (and taken off again after back-transforming).", r.Offset)
 		}
 		w = append(w, note)
+	}
+	if r.Covariate != nil {
+		w = append(w, covariateNotes(r)...)
 	}
 	r.Notes = append(w, r.Notes...)
 	r.Warnings = append([]string(nil), r.Notes...)

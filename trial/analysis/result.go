@@ -29,6 +29,9 @@ type Options struct {
 	// remembered method (trial.Trial.MeanSeparation), LSD for a table.
 	// Both letterings are computed whatever the method.
 	Method meansep.Method
+	// Covariate is the key of a trait (or a table's column) to adjust
+	// every analysed trait for by analysis of covariance; "" for none.
+	Covariate string
 }
 
 // Result is the full analysis of one trait.
@@ -57,6 +60,9 @@ type Result struct {
 	// for one list of treatments. ANOVA, Means and Pairs are filled too
 	// (the treatment combinations), so every view of one list works.
 	Factorial *Factorial
+	// Covariate is the covariance adjustment (nil without a covariate):
+	// ANOVA, Means, Pairs and the letters are then the adjusted analysis.
+	Covariate *Covariate
 
 	// Means, one per treatment in the trial's treatment order.
 	Means []Mean

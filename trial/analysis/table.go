@@ -27,6 +27,10 @@ type TableColumns struct {
 	Factors  []string
 	MainPlot string
 	Strip    bool
+	// Covariate names a column of numbers every response is adjusted for
+	// by analysis of covariance (Data.Covariate); it is not analysed
+	// itself.
+	Covariate string
 }
 
 // TableError is a problem in a data table, with its line (1 = header) and
@@ -193,6 +197,18 @@ func ReadTable(ctx context.Context, src RowSource, mark trial.DecimalMark, c Tab
 		isFactor[f.col] = true
 	}
 	var resp []*response
+	var covResp *response
+	if c.Covariate != "" {
+		i, err := find(c.Covariate)
+		if err != nil {
+			return nil, err
+		}
+		if isFactor[i] {
+			return nil, &TableError{Line: hline, Column: header[i], Msg: "this column is a factor and cannot also be the covariate"}
+		}
+		covResp = &response{col: i, name: header[i], explicit: true}
+		isFactor[i] = true // not a response
+	}
 	if len(c.Responses) > 0 {
 		for _, name := range c.Responses {
 			i, err := find(name)
@@ -242,8 +258,8 @@ func ReadTable(ctx context.Context, src RowSource, mark trial.DecimalMark, c Tab
 			}
 		}
 		lines = append(lines, line)
-		for _, r := range resp {
-			if r.dropped {
+		for _, r := range append(resp, covResp) {
+			if r == nil || r.dropped {
 				continue
 			}
 			text := strings.TrimSpace(cell(r.col))
@@ -301,6 +317,9 @@ func ReadTable(ctx context.Context, src RowSource, mark trial.DecimalMark, c Tab
 		}
 		if row != nil {
 			d.Row, d.Column, d.Rows, d.Cols = row.index, col.index, len(row.names), len(col.names)
+		}
+		if covResp != nil {
+			d.Covariate, d.CovariateKey, d.CovariateName = covResp.values, covResp.name, covResp.name
 		}
 		out = append(out, d)
 	}
