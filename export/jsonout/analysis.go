@@ -114,6 +114,7 @@ func writeTrait(w *Writer, oc analysis.Outcome) {
 	writeDiagnostics(w, &r.Diagnostics)
 	writeVsCheck(w, r.VsCheck)
 	writeEfficacy(w, r.Efficacy) // efficacy.go
+	writeCovariate(w, r.Covariate) // covariate.go
 	if r.Factorial != nil {
 		writeFactorial(w, r) // factorial.go
 	}
@@ -164,6 +165,9 @@ func writeMeans(w *Writer, r *analysis.Result) {
 		w.NumberField("mean", m.Mean)
 		w.NumberField("raw_mean", m.RawMean)
 		w.NumberField("se", m.SE)
+		if r.Covariate != nil && i < len(r.Covariate.Unadjusted) {
+			w.NumberField("unadjusted_mean", r.Covariate.Unadjusted[i])
+		}
 		if r.Transform != stats.NoTransform {
 			w.NumberField("back_transformed_mean", m.BackMean)
 		}

@@ -588,7 +588,7 @@ func notes(r *Result, d *Data, a *stats.ANOVA) {
 		sort.Strings(parts)
 		w = append(w, fmt.Sprintf("Excluded from the analysis: %s.", strings.Join(parts, ", ")))
 	}
-	if a.Adjusted {
+	if a.Adjusted && r.Covariate == nil {
 		w = append(w, "Some plots are missing, so each sum of squares is adjusted for the other terms of the model and the lines no longer add up to the total; means are least-squares means.")
 	}
 	if r.Transform != stats.NoTransform {

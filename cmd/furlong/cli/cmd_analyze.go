@@ -31,6 +31,7 @@ type analyzeOptions struct {
 	unprotected, decimalComma                                       bool
 	check                                                           string
 	lowerBetter                                                     bool
+	covariate                                                       string
 	factorial                                                       factorialFlags // cmd_analyze_factorial.go
 }
 
@@ -44,7 +45,7 @@ func init() {
 		name:    "analyze",
 		summary: "analyse traits: ANOVA, means with LSD and Tukey letters, diagnostics",
 		usage: `furlong analyze TRIAL.furlong [--trait KEY] [--alpha 0.05] [--format text|json|csv] [--transform log|sqrt|arcsin] [--unprotected]
-furlong analyze DATA.csv --treatment COL [--block COL | --row COL --column COL] [--response COL]... [flags]
+furlong analyze DATA.csv --treatment COL [--block COL | --row COL --column COL] [--response COL]... [--covariate COL] [flags]
 furlong analyze DATA.csv --factor COL --factor COL [--factor COL] [--block COL] [--main-plot COL | --strip-plot] [--response COL]... [flags]`,
 		details: `Analyses every trait of a trial (or the one named by --trait) with the ANOVA that fits its design:
 one-way for a completely randomised design, treatment + block for an RCBD, treatment + row + column
@@ -58,6 +59,12 @@ and "." are missing. The file is read as 'furlong import' reads a field book: UT
 Windows-1252 text, any line endings, a "sep=;" first line; blank lines are skipped. In a
 comma-separated file a comma inside a number is refused as ambiguous unless --decimal-comma is
 given; semicolon- and tab-separated files may use decimal commas.
+
+--covariate KEY|COL adjusts each trait for a covariate measured on the same plots (a stand count, a
+count before treatment, a soil value): analysis of covariance in a CRD, RCBD or Latin square, with
+means adjusted to the covariate's mean, the test of its slope and of equal slopes across the
+treatments, and a warning when the covariate itself differs between treatments (it must then not
+be used).
 
 ` + factorialHelp + `
 Output: text (aligned tables for a terminal), json (every number at full precision; see the README
@@ -90,6 +97,7 @@ func analyzeFlags(o *analyzeOptions) *flag.FlagSet {
 	fs.StringVar(&o.transform, "transform", "", "analyse transformed values: log, sqrt or arcsin")
 	fs.BoolVar(&o.unprotected, "unprotected", false, "give LSD letters even when the treatment F test is not significant")
 	fs.StringVar(&o.check, "check", "", "compare every treatment with this check `code` (Dunnett); default: the trial's one check")
+	fs.StringVar(&o.covariate, "covariate", "", "adjust for this covariate: a trait `key` of the trial or a CSV column (analysis of covariance)")
 	fs.BoolVar(&o.lowerBetter, "lower-is-better", false, "CSV: lower values are better (for the one-sided comparison with the check)")
 	fs.BoolVar(&o.decimalComma, "decimal-comma", false, "CSV: the comma-separated file has decimal commas in quoted cells (\"5,23\")")
 	o.factorial.define(fs)
@@ -115,7 +123,7 @@ func runAnalyze(ctx context.Context, o analyzeOptions) error {
 	if err != nil {
 		return err
 	}
-	opts := analysis.Options{Alpha: o.alpha, Unprotected: o.unprotected, Transform: tf}
+	opts := analysis.Options{Alpha: o.alpha, Unprotected: o.unprotected, Transform: tf, Covariate: o.covariate}
 	var outcomes []analysis.Outcome
 	if isCSV(path) {
 		outcomes, err = analyzeCSV(ctx, o, path, opts)
@@ -134,6 +142,9 @@ func runAnalyze(ctx context.Context, o analyzeOptions) error {
 				return fmt.Errorf("the trial has no trait %q (it has %s)", o.trait, traitKeys(t))
 			}
 			keys = []string{o.trait}
+		}
+		if keys, err = covariateKeys(t, keys, o.trait, o.covariate); err != nil {
+			return err
 		}
 		outcomes, err = analysis.AnalyzeAll(ctx, t, keys, opts)
 	}
@@ -193,6 +204,7 @@ func analyzeCSVTables(ctx context.Context, o analyzeOptions, r io.Reader) ([]*an
 	tab, err := analysis.ReadTable(ctx, rd, rd.Mark(), analysis.TableColumns{
 		Treatment: o.treatment, Block: o.block, Row: o.row, Column: o.column, Responses: o.responses,
 		Factors: o.factorial.factors, MainPlot: o.factorial.mainPlot, Strip: o.factorial.strip,
+		Covariate: o.covariate,
 	})
 	if err != nil {
 		if msg := decimalCommaHint(err, rd); msg != "" {
@@ -432,7 +444,11 @@ func writeResultTables(w io.Writer, r *analysis.Result) {
 	}
 	if r.LSD == nil && r.HSD == nil {
 		if r.LSDRange != nil && r.HSDRange != nil {
-			line = append(line, fmt.Sprintf("unequal n: LSD(%g) %s–%s, HSD(%g) %s–%s by pair", r.Alpha, num(r.LSDRange.Min, dec), num(r.LSDRange.Max, dec),
+			why := "unequal n"
+			if r.Covariate != nil {
+				why = "adjusted means"
+			}
+			line = append(line, fmt.Sprintf("%s: LSD(%g) %s–%s, HSD(%g) %s–%s by pair", why, r.Alpha, num(r.LSDRange.Min, dec), num(r.LSDRange.Max, dec),
 				r.Alpha, num(r.HSDRange.Min, dec), num(r.HSDRange.Max, dec)))
 		} else {
 			line = append(line, "replication is unequal: each pair has its own standard error")
@@ -442,10 +458,14 @@ func writeResultTables(w io.Writer, r *analysis.Result) {
 		line = append(line, fmt.Sprintf("blocking efficiency vs CRD %.2f", *a.RelativeEfficiency))
 	}
 	fmt.Fprintln(w, strings.Join(line, "   "))
+	writeCovariateText(w, r)
 	fmt.Fprintln(w)
 
 	tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	hdr := "Treatment\tn\tMean\tRaw mean\tSE\tLSD\tTukey\t"
+	if r.Covariate != nil {
+		hdr = "Treatment\tn\tAdjusted mean\tRaw mean\tSE\tLSD\tTukey\t"
+	}
 	if r.Transform != stats.NoTransform {
 		hdr = "Treatment\tn\tBack-transformed\tLower\tUpper\tMean\tRaw mean\tSE\tLSD\tTukey\t"
 	}
