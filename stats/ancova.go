@@ -51,7 +51,7 @@ type Covariance struct {
 // and PairSE for every pair. It is fitted by dense least squares (QR), so
 // it suits trials of up to a few hundred treatments.
 //
-// Besides the errors of Fit, a covariate that does not vary once the
+// m.Origin is honoured as in Fit. Besides the errors of Fit, a covariate that does not vary once the
 // factors are taken out is reported as an *InputError of kind Confounded.
 func FitCovariate(m Model, x []float64) (*ANOVA, *Covariance, error) {
 	n := len(m.Response)
@@ -70,7 +70,7 @@ func FitCovariate(m Model, x []float64) (*ANOVA, *Covariance, error) {
 	}
 	cov := &Covariance{Unadjusted: plain}
 	xm := m
-	xm.Response = x
+	xm.Response, xm.Origin = x, 0
 	if onT, err := Fit(xm); err == nil {
 		cov.OnTreatment = onT
 	}
@@ -80,7 +80,13 @@ func FitCovariate(m Model, x []float64) (*ANOVA, *Covariance, error) {
 	}
 	xbar /= float64(n)
 	cov.Mean = xbar
-	ybar := plain.GrandMean
+	// The response centred on its own mean (m.Origin, the part the caller
+	// took away, is added back to means and fitted values).
+	ybar := 0.0
+	for _, v := range m.Response {
+		ybar += v
+	}
+	ybar /= float64(n)
 	// The covariate centred and scaled to unit spread, the response
 	// centred: the slope is scaled back at the end.
 	xs := 0.0
@@ -188,16 +194,16 @@ func FitCovariate(m Model, x []float64) (*ANOVA, *Covariance, error) {
 		return dot(w, w)
 	}
 	a := &ANOVA{
-		Sources: src, N: n, GrandMean: ybar, MSE: mse, RootMSE: math.Sqrt(mse), DFError: dfe,
+		Sources: src, N: n, GrandMean: m.Origin + ybar, MSE: mse, RootMSE: math.Sqrt(mse), DFError: dfe,
 		RSquared: 1 - full.sse/sst, Balanced: plain.Balanced, Adjusted: true,
 	}
-	if ybar != 0 {
-		a.CVPercent = 100 * math.Sqrt(mse) / ybar
+	if a.GrandMean != 0 {
+		a.CVPercent = 100 * math.Sqrt(mse) / a.GrandMean
 	}
 	a.Means = make([]LevelMean, k)
 	for t := range a.Means {
 		a.Means[t] = LevelMean{N: plain.Means[t].N, RawMean: plain.Means[t].RawMean,
-			Mean: ybar + dot(Ls[t], full.beta), SE: math.Sqrt(mse * quad(Ls[t]))}
+			Mean: m.Origin + ybar + dot(Ls[t], full.beta), SE: math.Sqrt(mse * quad(Ls[t]))}
 	}
 	a.pairSE = func(i, j int) float64 {
 		if i < 0 || i >= k || j < 0 || j >= k {
@@ -219,7 +225,7 @@ func FitCovariate(m Model, x []float64) (*ANOVA, *Covariance, error) {
 	for i := 0; i < n; i++ {
 		mat.Row(row, i, X)
 		f := dot(row, full.beta)
-		a.Fitted[i] = ybar + f
+		a.Fitted[i] = m.Origin + ybar + f
 		a.Residuals[i] = yc[i] - f
 		a.Leverage[i] = math.Min(quad(row), 1)
 	}

@@ -242,3 +242,32 @@ func checkAbs(t *testing.T, what string, got, want, tol float64) {
 		t.Errorf("%s = %.6g, want %.6g ± %g", what, got, want, tol)
 	}
 }
+
+// TestFitCovariateOrigin: values given as Origin + Response give the same
+// analysis as the whole values (common practice: a shift of the response
+// moves the means, not the sums of squares).
+func TestFitCovariateOrigin(t *testing.T) {
+	t.Parallel()
+	m := fiberModel()
+	a0, _, err := FitCovariate(m, fiberX)
+	if err != nil {
+		t.Fatal(err)
+	}
+	shifted := make([]float64, len(fiberY))
+	for i, v := range fiberY {
+		shifted[i] = v - 30
+	}
+	m.Response, m.Origin = shifted, 30
+	a1, c1, err := FitCovariate(m, fiberX)
+	if err != nil {
+		t.Fatal(err)
+	}
+	checkRel(t, "grand mean", a1.GrandMean, a0.GrandMean, 1e-12)
+	checkRel(t, "slope", c1.Slope, 0.954, 1e-3) // Montgomery, from memory
+	for i := range a0.Means {
+		checkRel(t, "mean", a1.Means[i].Mean, a0.Means[i].Mean, 1e-12)
+		checkRel(t, "fitted", a1.Fitted[i], a0.Fitted[i], 1e-12)
+	}
+	tr, _ := c1.OnTreatment.Treatment()
+	checkAbs(t, "Txx", tr.SS, 66.13, 0.01)
+}
