@@ -113,7 +113,7 @@ func writeTrait(w *Writer, oc analysis.Outcome) {
 	writePairs(w, r.Pairs)
 	writeDiagnostics(w, &r.Diagnostics)
 	writeVsCheck(w, r.VsCheck)
-	writeEfficacy(w, r.Efficacy) // efficacy.go
+	writeEfficacy(w, r.Efficacy)   // efficacy.go
 	writeCovariate(w, r.Covariate) // covariate.go
 	if r.Factorial != nil {
 		writeFactorial(w, r) // factorial.go
