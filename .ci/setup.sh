@@ -4,7 +4,8 @@
 set -euo pipefail
 
 debs=(gcc pkg-config libgl1-mesa-dev libx11-dev libxcursor-dev libxrandr-dev
-      libxinerama-dev libxi-dev libxxf86vm-dev)
+      libxinerama-dev libxi-dev libxxf86vm-dev
+      poppler-utils zbar-tools)  # pdftotext/pdftoppm and zbarimg: the PDF report and label tests
 
 sudo=""
 if [ "$(id -u)" -ne 0 ]; then sudo="sudo"; fi
@@ -24,6 +25,7 @@ else
   command -v go >/dev/null 2>&1 || echo "setup: install Go 1.21 or newer from https://go.dev/dl/" >&2
   echo "setup: not a Debian/Ubuntu system; make sure these (or your system's equivalents) are installed:" >&2
   echo "  a C compiler, pkg-config, OpenGL and X11 development headers (GL, X11, Xcursor, Xrandr, Xinerama, Xi, Xxf86vm)" >&2
+  echo "  for the PDF tests: poppler's pdftotext and pdftoppm, and zbar's zbarimg" >&2
 fi
 
 if ! command -v go >/dev/null 2>&1; then

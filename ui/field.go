@@ -16,6 +16,7 @@ import (
 	"fyne.io/fyne/v2/widget"
 
 	"furlong/export/chart"
+	"furlong/export/pdf"
 	"furlong/export/xlsx"
 	"furlong/trial"
 	"furlong/trial/fieldbook"
@@ -380,16 +381,21 @@ func (u *App) exportMapDialog() {
 	snap := cloneTrial(u.doc.t)
 	name := safeFileName(snap.Title) + " field map"
 	by := u.mapColourFactor()
+	paper := u.paper()
 	u.exportDialog("field map", name+".pdf", []string{".pdf", ".png", ".svg"}, false,
 		func(ctx context.Context, w io.Writer, ext string, _ func(int, int)) error {
-			return writeFieldMap(w, snap, ext, by)
+			return writeFieldMap(w, snap, ext, by, paper)
 		})
 }
 
 // writeFieldMap draws the printable field map in the format named by the
-// file extension (".png", ".svg", otherwise PDF) on A4 landscape,
+// file extension (".png", ".svg" on A4 landscape; otherwise a PDF page on
+// the chosen paper with the dimensions on the ground under the map),
 // coloured by treatment or by the factor of key colourBy.
-func writeFieldMap(w io.Writer, t *trial.Trial, ext, colourBy string) error {
+func writeFieldMap(w io.Writer, t *trial.Trial, ext, colourBy string, paper xlsx.Paper) error {
+	if ext != ".png" && ext != ".svg" {
+		return pdf.WriteMap(w, t, pdf.MapOptions{Paper: pdfPaper(paper), ColourBy: colourBy})
+	}
 	p, err := chart.FieldMap(t, chart.FieldMapOptions{ColourBy: colourBy})
 	if err != nil {
 		return err

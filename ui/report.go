@@ -76,6 +76,7 @@ func newReportStep(u *App) *reportStep {
 	)
 	workbook := widget.NewButtonWithIcon("Season report (xlsx)…", theme.DocumentSaveIcon(), r.exportReport)
 	workbook.Importance = widget.HighImportance
+	printable := widget.NewButtonWithIcon("Season report (PDF)…", theme.DocumentPrintIcon(), r.exportReportPDF)
 	bookCSV := widget.NewButtonWithIcon("Field book (CSV)…", theme.DocumentSaveIcon(), u.exportFieldBookCSV)
 	bookXLSX := widget.NewButtonWithIcon("Field book (xlsx)…", theme.DocumentSaveIcon(), u.exportFieldBookXLSX)
 	fmap := widget.NewButtonWithIcon("Field map (PDF/PNG)…", theme.DocumentSaveIcon(), u.exportMapDialog)
@@ -83,7 +84,7 @@ func newReportStep(u *App) *reportStep {
 	caution := widget.NewLabel(export.CautionShort)
 	caution.Importance = widget.WarningImportance
 	caution.Wrapping = fyne.TextWrapWord
-	body := container.NewVBox(heading("Season report"), form, workbook, r.state,
+	body := container.NewVBox(heading("Season report"), form, container.NewGridWithColumns(2, workbook, printable), r.state,
 		widget.NewSeparator(), heading("Other exports"), bookCSV, bookXLSX, fmap, chartBtn,
 		widget.NewSeparator(), caution)
 	r.root = container.NewVScroll(container.NewPadded(body))

@@ -12,6 +12,7 @@ import (
 
 	"furlong/export"
 	"furlong/export/chart"
+	"furlong/export/pdf"
 	"furlong/export/xlsx"
 	"furlong/stats/meansep"
 	"furlong/trial"
@@ -22,22 +23,26 @@ import (
 func init() {
 	register(&command{
 		name:    "report",
-		summary: "write the season report workbook (xlsx)",
-		usage:   "furlong report TRIAL -o REPORT.xlsx [--alpha 0.05] [--method lsd|tukey] [--traits K1,K2] [--paper a4|letter] [--no-charts]",
+		summary: "write the season report (xlsx workbook or PDF)",
+		usage:   "furlong report TRIAL -o REPORT.xlsx|REPORT.pdf [--alpha 0.05] [--method lsd|tukey] [--traits K1,K2] [--paper a4|letter] [--no-charts]",
 		details: `Writes the season report as one workbook: a cover sheet with the trial's details and cautions,
 a summary sheet (every treatment's mean and letters for each trait, grand mean, CV%, LSD or HSD,
 the treatment p-value, and yield as a percentage of the check), one sheet per trait (ANOVA,
 means with letters, statistics, diagnostics in plain words, a chart of the means), the plot data,
-and the field map. Numbers are stored at full precision and shown with each trait's decimals.`,
+and the field map. Numbers are stored at full precision and shown with each trait's decimals.
+With -o REPORT.pdf the same report is written as a PDF document for printing and mailing: the
+cover with the cautions, the summary, a page per trait with its tables and chart, the plot data
+and the field map with its dimensions, on A4 or US Letter (--paper), with page numbers.`,
 		flags: func(env Env) (*flag.FlagSet, func(context.Context, []string) error) {
 			o := reportOptions{env: env}
 			fs := flag.NewFlagSet("report", flag.ContinueOnError)
-			fs.StringVar(&o.out, "o", "", "write the workbook to this `file` (.xlsx; required)")
+			fs.StringVar(&o.out, "o", "", "write the report to this `file` (.xlsx or .pdf; required)")
 			fs.Float64Var(&o.alpha, "alpha", analysis.DefaultAlpha, "significance level of letters and LSD/HSD")
 			fs.StringVar(&o.method, "method", "", "letters shown: lsd or tukey (default: the trial's remembered method)")
 			fs.StringVar(&o.traits, "traits", "", "report only these trait `keys`, comma-separated, in this order")
 			fs.StringVar(&o.paper, "paper", "a4", "paper size, a4 or letter")
 			fs.BoolVar(&o.noCharts, "no-charts", false, "leave the charts out")
+			fs.BoolVar(&o.vsCheck, "vs-check", false, "PDF: add each entry against the trial's check (Dunnett) to the trait pages")
 			fs.BoolVar(&o.force, "force", false, "replace the output file if it exists")
 			return fs, func(ctx context.Context, args []string) error {
 				if len(args) != 1 {
@@ -81,17 +86,20 @@ The format follows the file name's ending. Charts are sized for an A4 landscape 
 	register(&command{
 		name:    "map",
 		summary: "draw the printable field map (plot numbers and treatments)",
-		usage:   "furlong map TRIAL -o MAP.png|svg|pdf [--colour-by FACTOR]",
+		usage:   "furlong map TRIAL -o MAP.png|svg|pdf [--colour-by FACTOR] [--paper a4|letter]",
 		details: `Draws the field map for the crew: every plot with its number and treatment code, a colour per
 treatment, block outlines, the grid's orientation and a key of treatments, on an A4 landscape page.
 A split plot's main plots are outlined too; --colour-by KEY colours a factorial trial's plots by
-their level of that factor, with a key of its levels.`,
+their level of that factor, with a key of its levels. A PDF map is a printable page with the
+dimensions on the ground under the map: plot and harvested sizes, alleys and the whole trial in
+metres, and where north lies.`,
 		flags: func(env Env) (*flag.FlagSet, func(context.Context, []string) error) {
 			o := mapOptions{env: env}
 			fs := flag.NewFlagSet("map", flag.ContinueOnError)
 			fs.StringVar(&o.out, "o", "", "write the map to this `file` (.png, .svg or .pdf; required)")
 			fs.BoolVar(&o.force, "force", false, "replace the output file if it exists")
 			fs.StringVar(&o.colourBy, "colour-by", "", "colour the plots by their level of the factor of this `key`")
+			fs.StringVar(&o.paper, "paper", "a4", "paper size of a PDF map, a4 or letter")
 			return fs, func(ctx context.Context, args []string) error {
 				if len(args) != 1 {
 					return usagef("map: give one trial file")
@@ -108,13 +116,14 @@ type reportOptions struct {
 	env                               Env
 	trial, out, method, traits, paper string
 	alpha                             float64
-	noCharts, force                   bool
+	noCharts, force, vsCheck          bool
 }
 
 // runReport writes the season report workbook of o.trial to o.out.
 func runReport(ctx context.Context, o reportOptions) error {
-	if o.out == "" || !strings.EqualFold(filepath.Ext(o.out), ".xlsx") {
-		return usagef("report: say where to write the workbook with -o REPORT.xlsx")
+	ext := strings.ToLower(filepath.Ext(o.out))
+	if o.out == "" || (ext != ".xlsx" && ext != ".pdf") {
+		return usagef("report: say where to write the report with -o REPORT.xlsx or -o REPORT.pdf")
 	}
 	m, err := parseMethod(o.method)
 	if err != nil {
@@ -141,11 +150,26 @@ func runReport(ctx context.Context, o reportOptions) error {
 	if err != nil {
 		return err
 	}
+	if o.vsCheck {
+		if ext != ".pdf" {
+			return usagef("report: --vs-check goes with a PDF report (-o REPORT.pdf)")
+		}
+		if err := compareWithChecks(results, "", false); err != nil {
+			return err
+		}
+	}
 	var buf bytes.Buffer
-	err = xlsx.WriteReport(ctx, &buf, t, results, xlsx.ReportOptions{
-		Method: m, Alpha: o.alpha, Traits: keys, Version: o.env.Version,
-		Charts: !o.noCharts, Paper: p,
-	})
+	if ext == ".pdf" {
+		err = pdf.WriteReport(ctx, &buf, t, results, pdf.ReportOptions{
+			Method: m, Alpha: o.alpha, Traits: keys, Version: o.env.Version,
+			Charts: !o.noCharts, Paper: pdfPaper(p),
+		})
+	} else {
+		err = xlsx.WriteReport(ctx, &buf, t, results, xlsx.ReportOptions{
+			Method: m, Alpha: o.alpha, Traits: keys, Version: o.env.Version,
+			Charts: !o.noCharts, Paper: p,
+		})
+	}
 	if err != nil {
 		return err
 	}
@@ -254,9 +278,9 @@ func runChart(ctx context.Context, o chartOptions) error {
 
 // mapOptions are the choices of 'furlong map'.
 type mapOptions struct {
-	env                  Env
-	trial, out, colourBy string
-	force                bool
+	env                         Env
+	trial, out, colourBy, paper string
+	force                       bool
 }
 
 // runMap draws the printable field map of o.trial to o.out.
@@ -268,6 +292,22 @@ func runMap(ctx context.Context, o mapOptions) error {
 	t, err := trialfile.Load(o.trial)
 	if err != nil {
 		return err
+	}
+	if format == "pdf" {
+		// The printable page: the map and its dimensions on the ground.
+		paper, err := parsePaper(o.paper)
+		if err != nil {
+			return err
+		}
+		var buf bytes.Buffer
+		if err := pdf.WriteMap(&buf, t, pdf.MapOptions{Paper: pdfPaper(paper), ColourBy: o.colourBy}); err != nil {
+			return err
+		}
+		if err := writeFileNew(o.out, buf.Bytes(), o.force); err != nil {
+			return err
+		}
+		fmt.Fprintf(o.env.Stdout, "wrote %s\n", o.out)
+		return nil
 	}
 	p, err := chart.FieldMap(t, chart.FieldMapOptions{ColourBy: o.colourBy})
 	if err != nil {
@@ -333,4 +373,12 @@ func traitList(t *trial.Trial, s string) ([]string, error) {
 		keys = append(keys, k)
 	}
 	return keys, nil
+}
+
+// pdfPaper is the PDF paper size of a --paper choice.
+func pdfPaper(p xlsx.Paper) pdf.Paper {
+	if p == xlsx.Letter {
+		return pdf.Letter
+	}
+	return pdf.A4
 }

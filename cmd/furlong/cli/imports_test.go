@@ -29,6 +29,7 @@ var importRules = []struct {
 	{"furlong/trial/series", []string{"furlong/trial", "furlong/stats"}, nil},
 	{"furlong/sampledata", []string{"furlong/trial"}, nil},
 	{"furlong/export", []string{"furlong/export", "furlong/trial", "furlong/stats"}, []string{"github.com/xuri/excelize/v2", "gonum.org/v1/plot", "gonum.org/v1/gonum"}},
+	{"furlong/export/pdf", []string{"furlong/export", "furlong/trial", "furlong/stats"}, []string{"gonum.org/v1/plot", "gonum.org/v1/gonum", "codeberg.org/go-pdf/fpdf", "codeberg.org/go-fonts/liberation", "github.com/skip2/go-qrcode"}},
 	{"furlong/ui", []string{"furlong/"}, []string{"fyne.io/fyne/v2", "gonum.org/v1/plot", "gonum.org/v1/gonum", "codeberg.org/go-fonts/liberation"}},
 	{"furlong/cmd/furlong/cli", []string{"furlong/trial", "furlong/stats", "furlong/export", "furlong/sampledata"}, []string{"gonum.org/v1/plot"}},
 	{"furlong/cmd/furlong", []string{"furlong/"}, []string{"fyne.io/fyne/v2"}},
