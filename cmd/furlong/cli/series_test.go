@@ -1,0 +1,309 @@
+package cli
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// The series reference data kept with package trial/series (README there):
+// series-4-sites (R 4.2.2 aov, lm and emmeans on a seeded 4-site RCBD
+// series, refdata round2) and the 1931 half of Immer, Hayes & Powers
+// (1934), J. Am. Soc. Agron. 26, 403–419, as shipped in R's lattice::barley
+// (R 4.2.2 aov and emmeans with sites as blocks).
+const seriesTestdata = "../../../trial/series/testdata"
+
+type seriesRefLine struct {
+	Source string   `json:"source"`
+	DF     int      `json:"df"`
+	SS     float64  `json:"ss"`
+	F      *float64 `json:"f"`
+	P      *float64 `json:"p"`
+}
+
+type seriesRef struct {
+	Combined []seriesRefLine `json:"combined"`
+	ANOVA    []seriesRefLine `json:"anova"`
+	Means    []struct {
+		Treatment string  `json:"treatment"`
+		Mean      float64 `json:"mean"`
+		LSMean    float64 `json:"ls_mean"`
+		SE        float64 `json:"se"`
+	} `json:"means"`
+	FW []struct {
+		Treatment string  `json:"treatment"`
+		Slope     float64 `json:"slope"`
+	} `json:"finlay_wilkinson"`
+}
+
+// seriesOut is the JSON of "furlong series --format json" as the README
+// documents it.
+type seriesOut struct {
+	Traits []struct {
+		Trait  string `json:"trait"`
+		Method string `json:"method"`
+		Sites  []struct {
+			Site      string   `json:"site"`
+			N         int      `json:"n"`
+			GrandMean float64  `json:"grand_mean"`
+			MSE       *float64 `json:"mse"`
+			DFError   int      `json:"df_error"`
+			CV        *float64 `json:"cv_percent"`
+			P         *float64 `json:"p_treatment"`
+			LSD       *float64 `json:"lsd"`
+		} `json:"sites"`
+		SitesEffect string `json:"sites_effect"`
+		Weighted    bool   `json:"weighted"`
+		Bartlett    *struct {
+			K2       float64 `json:"k2"`
+			P        float64 `json:"p"`
+			MSERatio float64 `json:"mse_ratio"`
+			Reading  string  `json:"reading"`
+		} `json:"bartlett"`
+		ANOVA []struct {
+			Source string   `json:"source"`
+			DF     int      `json:"df"`
+			SS     float64  `json:"ss"`
+			MS     *float64 `json:"ms"`
+			F      *float64 `json:"f"`
+			P      *float64 `json:"p"`
+		} `json:"anova"`
+		Means []struct {
+			Treatment      string   `json:"treatment"`
+			Mean           float64  `json:"mean"`
+			SE             float64  `json:"se"`
+			NSites         int      `json:"n_sites"`
+			Letters        string   `json:"letters"`
+			PercentOfCheck *float64 `json:"percent_of_check"`
+		} `json:"means"`
+		Stability []struct {
+			Treatment  string   `json:"treatment"`
+			Slope      *float64 `json:"slope"`
+			SlopeSE    *float64 `json:"slope_se"`
+			DevMS      *float64 `json:"deviation_ms"`
+			Ecovalence float64  `json:"ecovalence"`
+		} `json:"stability"`
+		HeadToHead []struct {
+			Treatment string   `json:"treatment"`
+			Versus    string   `json:"versus"`
+			Sites     int      `json:"sites"`
+			Higher    int      `json:"higher"`
+			Lower     int      `json:"lower"`
+			MeanDiff  float64  `json:"mean_diff"`
+			P         *float64 `json:"p"`
+		} `json:"head_to_head"`
+		Missing []struct {
+			Treatment string   `json:"treatment"`
+			Sites     []string `json:"sites"`
+		} `json:"missing"`
+		Warnings []string `json:"warnings"`
+	} `json:"traits"`
+	Cautions []string `json:"cautions"`
+}
+
+func readSeriesRef(t *testing.T, name string) seriesRef {
+	t.Helper()
+	b, err := os.ReadFile(filepath.Join(seriesTestdata, name))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var r seriesRef
+	if err := json.Unmarshal(b, &r); err != nil {
+		t.Fatal(err)
+	}
+	return r
+}
+
+// runSeriesCmd runs "furlong series ARGS" and returns its standard output,
+// standard error and exit code.
+func runSeriesCmd(t *testing.T, args ...string) (string, string, int) {
+	t.Helper()
+	var out, errb bytes.Buffer
+	code := Main(context.Background(), append([]string{"series"}, args...), Env{Stdout: &out, Stderr: &errb, Version: "test"})
+	return out.String(), errb.String(), code
+}
+
+func seriesJSON(t *testing.T, args ...string) seriesOut {
+	t.Helper()
+	out, errs, code := runSeriesCmd(t, append(args, "--format", "json")...)
+	if code != ExitOK {
+		t.Fatalf("series %v: exit %d: %s", args, code, errs)
+	}
+	var got seriesOut
+	if err := json.Unmarshal([]byte(out), &got); err != nil {
+		t.Fatalf("series JSON: %v\n%s", err, out)
+	}
+	if len(got.Traits) != 1 {
+		t.Fatalf("%d traits, want 1", len(got.Traits))
+	}
+	return got
+}
+
+func nearRel(a, b, tol float64) bool { return math.Abs(a-b) <= tol*math.Max(1, math.Abs(b)) }
+
+// checkFourSites compares the JSON of the 4-site series with R 4.2.2
+// (refdata round2 series-4-sites: aov(yield ~ site + site:block + entry +
+// entry:site) with entry tested against entry × site; emmeans on the site
+// means; Finlay–Wilkinson slopes by lm).
+func checkFourSites(t *testing.T, label string, got seriesOut) {
+	t.Helper()
+	want := readSeriesRef(t, "series-4-sites.expected.json")
+	tr := got.Traits[0]
+	if tr.Method != "combined" || tr.SitesEffect != "random" {
+		t.Errorf("%s: method %q sites %q, want combined, random (every entry in every block at every site)", label, tr.Method, tr.SitesEffect)
+	}
+	for _, w := range want.Combined {
+		found := false
+		for _, l := range tr.ANOVA {
+			if l.Source != w.Source {
+				continue
+			}
+			found = true
+			if l.DF != w.DF || !nearRel(l.SS, w.SS, 1e-9) {
+				t.Errorf("%s %s: df %d ss %.12g, want %d %.12g (R aov)", label, w.Source, l.DF, l.SS, w.DF, w.SS)
+			}
+			if w.F != nil && (l.F == nil || !nearRel(*l.F, *w.F, 1e-9) || !nearRel(*l.P, *w.P, 1e-7)) {
+				t.Errorf("%s %s: F %v p %v, want %g %g (R aov)", label, w.Source, l.F, l.P, *w.F, *w.P)
+			}
+		}
+		if !found {
+			t.Errorf("%s: no ANOVA line %q", label, w.Source)
+		}
+	}
+	if len(tr.Means) != len(want.Means) {
+		t.Fatalf("%s: %d means, want %d", label, len(tr.Means), len(want.Means))
+	}
+	for _, w := range want.Means {
+		ok := false
+		for _, m := range tr.Means {
+			if m.Treatment == w.Treatment {
+				ok = true
+				if !nearRel(m.Mean, w.Mean, 1e-9) || !nearRel(m.SE, w.SE, 1e-9) || m.NSites != 4 {
+					t.Errorf("%s %s: mean %.12g se %.12g sites %d, want %.12g %.12g 4 (R emmeans)", label, w.Treatment, m.Mean, m.SE, m.NSites, w.Mean, w.SE)
+				}
+				// Percent of the check V1 from R's means (common practice: 100 × mean / check mean).
+				if m.PercentOfCheck == nil || !nearRel(*m.PercentOfCheck, 100*w.Mean/want.Means[0].Mean, 1e-9) {
+					t.Errorf("%s %s: percent of check %v", label, w.Treatment, m.PercentOfCheck)
+				}
+			}
+		}
+		if !ok {
+			t.Errorf("%s: no mean of %s", label, w.Treatment)
+		}
+	}
+	for _, w := range want.FW {
+		ok := false
+		for _, s := range tr.Stability {
+			if s.Treatment == w.Treatment {
+				ok = true
+				if s.Slope == nil || !nearRel(*s.Slope, w.Slope, 1e-9) {
+					t.Errorf("%s %s: slope %v, want %g (R lm)", label, w.Treatment, s.Slope, w.Slope)
+				}
+			}
+		}
+		if !ok {
+			t.Errorf("%s: no stability of %s", label, w.Treatment)
+		}
+	}
+	// 4 sites, each an RCBD of 6 entries × 3 blocks: 18 plots and
+	// (6−1)(3−1) = 10 error df (common practice); Bartlett on 4 variances.
+	if len(tr.Sites) != 4 {
+		t.Fatalf("%s: %d sites", label, len(tr.Sites))
+	}
+	for _, s := range tr.Sites {
+		if s.N != 18 || s.DFError != 10 || s.MSE == nil || s.CV == nil || s.P == nil || s.LSD == nil {
+			t.Errorf("%s site %+v: want 18 plots, 10 error df, MSE, CV, p and LSD", label, s)
+		}
+	}
+	if tr.Bartlett == nil || tr.Bartlett.Reading == "" || tr.Bartlett.MSERatio < 1 {
+		t.Errorf("%s: Bartlett %+v", label, tr.Bartlett)
+	}
+	// Head to head with the check: every other entry, each at 4 sites,
+	// higher + lower + ties = sites (common practice).
+	if len(tr.HeadToHead) != 5 {
+		t.Errorf("%s: %d head-to-head lines, want 5", label, len(tr.HeadToHead))
+	}
+	for _, h := range tr.HeadToHead {
+		if h.Versus != "V1" || h.Sites != 4 || h.Higher+h.Lower > 4 || h.P == nil {
+			t.Errorf("%s head to head %+v", label, h)
+		}
+	}
+	if len(got.Cautions) == 0 {
+		t.Errorf("%s: no cautions in the JSON", label)
+	}
+}
+
+func TestSeriesCSVFourSites(t *testing.T) {
+	t.Parallel()
+	got := seriesJSON(t, filepath.Join(seriesTestdata, "series-4-sites.csv"), "--site", "site", "--block", "block", "--treatment", "entry", "--response", "yield", "--check", "V1")
+	checkFourSites(t, "CSV", got)
+}
+
+// TestSeriesBarley checks the two-stage analysis of a table of site means
+// against R 4.2.2 aov and emmeans on Immer, Hayes & Powers (1934), 1931
+// (lattice::barley): with sites as blocks the RCBD ANOVA is the two-stage
+// analysis; complete and with two site means missing.
+func TestSeriesBarley(t *testing.T) {
+	t.Parallel()
+	for _, name := range []string{"barley-1931-rcbd", "barley-1931-rcbd-missing"} {
+		want := readSeriesRef(t, name+".expected.json")
+		got := seriesJSON(t, filepath.Join(seriesTestdata, name+".csv"), "--site", "site", "--treatment", "variety")
+		tr := got.Traits[0]
+		if tr.Method != "two-stage" || tr.Weighted {
+			t.Errorf("%s: method %q weighted %v, want an unweighted two-stage analysis (site means)", name, tr.Method, tr.Weighted)
+		}
+		src := map[string]string{"site": "site", "variety": "treatment", "Residuals": "treatment:site"}
+		for _, w := range want.ANOVA {
+			found := false
+			for _, l := range tr.ANOVA {
+				if l.Source == src[w.Source] {
+					found = true
+					if l.DF != w.DF || !nearRel(l.SS, w.SS, 1e-6) {
+						t.Errorf("%s %s: df %d ss %.10g, want %d %.10g (R aov)", name, l.Source, l.DF, l.SS, w.DF, w.SS)
+					}
+				}
+			}
+			if !found {
+				t.Errorf("%s: no line %q", name, src[w.Source])
+			}
+		}
+		for _, w := range want.Means {
+			found := false
+			for _, m := range tr.Means {
+				if m.Treatment == w.Treatment {
+					found = true
+					if !nearRel(m.Mean, w.LSMean, 1e-6) || !nearRel(m.SE, w.SE, 1e-6) {
+						t.Errorf("%s %s: mean %.10g se %.10g, want %.10g %.10g (R emmeans)", name, w.Treatment, m.Mean, m.SE, w.LSMean, w.SE)
+					}
+				}
+			}
+			if !found {
+				t.Errorf("%s: no mean of %s", name, w.Treatment)
+			}
+		}
+		if missing := strings.HasSuffix(name, "missing"); missing != (len(tr.Missing) == 2) {
+			t.Errorf("%s: missing entries %+v", name, tr.Missing)
+		}
+	}
+}
+
+// TestSeriesText checks that the text output states the method, the
+// sites assumption, the per-site table and the cautions.
+func TestSeriesText(t *testing.T) {
+	t.Parallel()
+	out, errs, code := runSeriesCmd(t, filepath.Join(seriesTestdata, "barley-1931-rcbd-missing.csv"), "--site", "site", "--treatment", "variety", "--check", "Glabron")
+	if code != ExitOK {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	for _, want := range []string{"Method: two-stage", "Sites random", "Weighting: none", "CV%", "Bartlett", "ANOVA across sites", "treatment:site",
+		"% of check", "Stability", "ecovalence", "Head to head with the check Glabron", "not tested everywhere", "Cautions:", "not a recommendation"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("text output lacks %q:\n%s", want, out)
+		}
+	}
+}
