@@ -132,13 +132,22 @@ func (c *fileChooser) ext() string {
 	return c.o.exts[0]
 }
 
-// startFolder is the last folder used, else the home folder, else the
-// working folder.
+// documentsFolder is the user's Documents folder on Windows, "" elsewhere
+// (a variable so that tests can stand in for Windows).
+var documentsFolder = platformDocuments
+
+// startFolder is the last folder used, else the user's Documents folder
+// (Windows), else the home folder, else the working folder.
 func (c *fileChooser) startFolder() string {
-	if d := c.u.prefs.lastFolder; d != "" {
-		if fi, err := os.Stat(d); err == nil && fi.IsDir() {
-			return d
-		}
+	isDir := func(d string) bool {
+		fi, err := os.Stat(d)
+		return d != "" && err == nil && fi.IsDir()
+	}
+	if d := c.u.prefs.lastFolder; isDir(d) {
+		return d
+	}
+	if d := documentsFolder(); isDir(d) {
+		return d
 	}
 	if h, err := os.UserHomeDir(); err == nil {
 		return h

@@ -14,6 +14,7 @@ import (
 const appID = "org.furlong.desktop"
 
 func openWindow(opts cli.WindowOptions, env cli.Env) int {
+	releaseConsole()
 	a := app.NewWithID(appID)
 	w := a.NewWindow("Furlong")
 	fa := ui.New(a, w, ui.Options{Version: version}) // restores the remembered window size
