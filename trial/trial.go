@@ -49,6 +49,8 @@ type Analysis struct {
 	// Method is the mean-separation method, by its stats/meansep name:
 	// MethodLSD ("lsd") or MethodTukey ("tukey"); "" means MethodLSD.
 	Method string
+	// Contrasts are the trial's planned comparisons (contrast.go).
+	Contrasts []Contrast
 }
 
 // Mean-separation methods a trial can remember (the names stats/meansep

@@ -106,7 +106,8 @@ type fieldError struct {
 	err  error
 }
 
-// decodeV1 reads a file of version 1, 2 or 3. Versions 1 and 2 had no
+// decodeV1 reads a file of version 1 to 4. Versions 1 to 3 had no saved
+// contrasts: such a member in them is ignored, as unknown members are. Versions 1 and 2 had no
 // treatment factors: members of version 3 in such a file are ignored, as
 // unknown members are. Version 1 had no analysis
 // settings: members of that name in a version 1 file are ignored, as
@@ -119,6 +120,9 @@ func decodeV1(data []byte, version int) (*trial.Trial, error) {
 	}
 	if f.Trial == nil {
 		return nil, at(data, "trial", errorf(ErrWrongType, "the file holds no trial"))
+	}
+	if version < 4 && f.Trial.Analysis != nil {
+		f.Trial.Analysis.Contrasts = nil
 	}
 	if version < 3 {
 		f.Trial.Factors = nil
@@ -200,6 +204,9 @@ func fromV1(ft *trialV1) (*trial.Trial, *fieldError) {
 	t.Analysis.Method = trial.MethodLSD
 	if ft.Analysis != nil && ft.Analysis.MeanSeparation != "" {
 		t.Analysis.Method = ft.Analysis.MeanSeparation
+	}
+	if ft.Analysis != nil {
+		t.Analysis.Contrasts = decodeContrasts(ft.Analysis.Contrasts)
 	}
 	if len(ft.Treatments) > 0 {
 		t.Treatments = make([]trial.Treatment, len(ft.Treatments))

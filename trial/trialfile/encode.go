@@ -89,7 +89,7 @@ func toV1(t *trial.Trial) (*trialV1, error) {
 			Method: t.Random.Method,
 			Done:   tm("randomisation", t.Random.Done),
 		},
-		Analysis:   &analysisV2{MeanSeparation: t.MeanSeparation()},
+		Analysis:   &analysisV2{MeanSeparation: t.MeanSeparation(), Contrasts: encodeContrasts(t.Analysis.Contrasts)},
 		Treatments: make([]treatmentV1, len(t.Treatments)),
 		Plots:      make([]plotV1, len(t.Plots)),
 		Traits:     make([]traitV1, len(t.Traits)),

@@ -7,7 +7,7 @@ const Format = "furlong-trial"
 
 // Version is the newest file format version this package reads, and the
 // one it writes.
-const Version = 3
+const Version = 4
 
 // The version 3 shape (also read for versions 1 and 2, which lack the
 // members marked "version 2" and "version 3"). Field order here is the
@@ -168,6 +168,22 @@ type assessmentV3 struct {
 type analysisV2 struct {
 	// MeanSeparation is "lsd" or "tukey"; absent or "" is "lsd".
 	MeanSeparation string `json:"mean_separation"`
+	// Contrasts (version 4): the trial's saved planned comparisons.
+	Contrasts []contrastV4 `json:"contrasts,omitempty"`
+}
+
+// contrastV4 is one saved contrast (version 4): two groups of treatment
+// codes, or a coefficient per treatment.
+type contrastV4 struct {
+	Name         string           `json:"name"`
+	First        []string         `json:"first,omitempty"`
+	Second       []string         `json:"second,omitempty"`
+	Coefficients []contrastTermV4 `json:"coefficients,omitempty"`
+}
+
+type contrastTermV4 struct {
+	Treatment string  `json:"treatment"`
+	Weight    float64 `json:"weight"`
 }
 
 type derivedV1 struct {
