@@ -115,6 +115,7 @@ func writeTrait(w *Writer, oc analysis.Outcome) {
 	writeVsCheck(w, r.VsCheck)
 	writeEfficacy(w, r.Efficacy)   // efficacy.go
 	writeCovariate(w, r.Covariate) // covariate.go
+	writeContrasts(w, r.Contrasts) // contrasts.go
 	if r.Factorial != nil {
 		writeFactorial(w, r) // factorial.go
 	}

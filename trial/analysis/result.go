@@ -93,7 +93,10 @@ type Result struct {
 	// Efficacy is the percent efficacy of every treatment against the
 	// untreated check, for a trait where lower is better in a trial with
 	// an untreated check; nil otherwise.
-	Efficacy    *Efficacy
+	Efficacy *Efficacy
+	// Contrasts are the user's planned comparisons; nil unless asked for
+	// with EstimateContrasts.
+	Contrasts   *ContrastSet
 	Diagnostics Diagnostics
 	// Notes are plain-language notes on the analysis: missing and
 	// excluded plots, adjusted sums of squares, the transformation,

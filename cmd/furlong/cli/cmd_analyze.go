@@ -32,6 +32,8 @@ type analyzeOptions struct {
 	check                                                           string
 	lowerBetter                                                     bool
 	covariate                                                       string
+	contrasts                                                       stringList
+	adjust                                                          string
 	factorial                                                       factorialFlags // cmd_analyze_factorial.go
 }
 
@@ -45,6 +47,7 @@ func init() {
 		name:    "analyze",
 		summary: "analyse traits: ANOVA, means with LSD and Tukey letters, diagnostics",
 		usage: `furlong analyze TRIAL.furlong [--trait KEY] [--alpha 0.05] [--format text|json|csv] [--transform log|sqrt|arcsin] [--unprotected]
+                [--check CODE] [--contrast "NAME=A,B vs C"]... [--adjust none|bonferroni|holm|scheffe]
 furlong analyze DATA.csv --treatment COL [--block COL | --row COL --column COL] [--response COL]... [--covariate COL] [flags]
 furlong analyze DATA.csv --factor COL --factor COL [--factor COL] [--block COL] [--main-plot COL | --strip-plot] [--response COL]... [flags]`,
 		details: `Analyses every trait of a trial (or the one named by --trait) with the ANOVA that fits its design:
@@ -67,6 +70,7 @@ treatments, and a warning when the covariate itself differs between treatments (
 be used).
 
 ` + factorialHelp + `
+` + contrastHelp + `
 Output: text (aligned tables for a terminal), json (every number at full precision; see the README
 for the fields) or csv (one row per treatment mean).`,
 		flags: func(env Env) (*flag.FlagSet, func(context.Context, []string) error) {
@@ -99,6 +103,8 @@ func analyzeFlags(o *analyzeOptions) *flag.FlagSet {
 	fs.StringVar(&o.check, "check", "", "compare every treatment with this check `code` (Dunnett); default: the trial's one check")
 	fs.StringVar(&o.covariate, "covariate", "", "adjust for this covariate: a trait `key` of the trial or a CSV column (analysis of covariance)")
 	fs.BoolVar(&o.lowerBetter, "lower-is-better", false, "CSV: lower values are better (for the one-sided comparison with the check)")
+	fs.Var(&o.contrasts, "contrast", "estimate a contrast: \"NAME=A,B vs C\" or \"NAME=A:1,B:1,C:-2\" (repeatable)")
+	fs.StringVar(&o.adjust, "adjust", "none", "adjust the contrasts' p-values: none, bonferroni, holm or scheffe")
 	fs.BoolVar(&o.decimalComma, "decimal-comma", false, "CSV: the comma-separated file has decimal commas in quoted cells (\"5,23\")")
 	o.factorial.define(fs)
 	return fs
@@ -123,6 +129,15 @@ func runAnalyze(ctx context.Context, o analyzeOptions) error {
 	if err != nil {
 		return err
 	}
+	adj, err := stats.ParseAdjustment(o.adjust)
+	if err != nil {
+		return usagef("analyze: --adjust: %s", err)
+	}
+	given, err := parseContrastFlags(o.contrasts)
+	if err != nil {
+		return err
+	}
+	var saved []trial.Contrast
 	opts := analysis.Options{Alpha: o.alpha, Unprotected: o.unprotected, Transform: tf, Covariate: o.covariate}
 	var outcomes []analysis.Outcome
 	if isCSV(path) {
@@ -147,11 +162,15 @@ func runAnalyze(ctx context.Context, o analyzeOptions) error {
 			return err
 		}
 		outcomes, err = analysis.AnalyzeAll(ctx, t, keys, opts)
+		saved = t.Analysis.Contrasts
 	}
 	if err != nil {
 		return err
 	}
 	if err := compareWithChecks(outcomes, o.check, o.lowerBetter && isCSV(path)); err != nil {
+		return err
+	}
+	if err := estimateContrasts(outcomes, saved, given, adj); err != nil {
 		return err
 	}
 	switch o.format {
@@ -527,6 +546,7 @@ func writeResultTables(w io.Writer, r *analysis.Result) {
 		tw.Flush()
 	}
 	writeEfficacyText(w, r) // cmd_analyze_efficacy.go
+	writeContrastsText(w, r, dec)
 	for _, s := range r.Warnings {
 		fmt.Fprintf(w, "Note: %s\n", s)
 	}

@@ -210,6 +210,11 @@ func writeFactorialTables(w io.Writer, r *analysis.Result) {
 		}
 		fmt.Fprintf(w, "Diagnostics (residuals within the lowest stratum): %s\n", strings.Join(parts, "; "))
 	}
+	cdec := analysis.MeanDecimals(r.Decimals)
+	if r.Transform != stats.NoTransform {
+		cdec = analysis.TransformedDecimals
+	}
+	writeContrastsText(w, r, cdec)
 	for _, s := range r.Warnings {
 		fmt.Fprintf(w, "Note: %s\n", s)
 	}
