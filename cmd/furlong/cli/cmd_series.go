@@ -115,6 +115,9 @@ func runSeries(ctx context.Context, o seriesOptions) error {
 	if o.save != "" && filepath.Ext(o.save) != series.FileExt {
 		return usagef("series: --save writes a series file, so its name must end in %s (not %q)", series.FileExt, o.save)
 	}
+	if _, err := series.ParseSites(o.sites); err != nil {
+		return usagef("series: --sites must be random or fixed, not %q", o.sites)
+	}
 	if len(o.paths) == 0 {
 		return usagef("series: give two or more trial files, a series file (%s) or one CSV table", series.FileExt)
 	}
@@ -147,8 +150,8 @@ func runSeries(ctx context.Context, o seriesOptions) error {
 		return err
 	}
 	sites, err := series.ParseSites(o.sites)
-	if err != nil {
-		return usagef("series: --sites must be random or fixed, not %q", o.sites)
+	if err != nil { // from a series file
+		return fmt.Errorf("the series file's sites option must be random or fixed, not %q", o.sites)
 	}
 	opts := series.Options{Check: o.check, Sites: sites, Weighted: o.weighted, Alpha: o.alpha, Method: method}
 	results := make([]*series.Result, 0, len(in.traits))

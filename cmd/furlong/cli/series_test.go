@@ -3,12 +3,19 @@ package cli
 import (
 	"bytes"
 	"context"
+	"encoding/csv"
 	"encoding/json"
 	"math"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
+
+	"github.com/xuri/excelize/v2"
+
+	"furlong/export/xlsx"
+	"furlong/trial/series"
 )
 
 // The series reference data kept with package trial/series (README there):
@@ -304,6 +311,172 @@ func TestSeriesText(t *testing.T) {
 		"% of check", "Stability", "ecovalence", "Head to head with the check Glabron", "not tested everywhere", "Cautions:", "not a recommendation"} {
 		if !strings.Contains(out, want) {
 			t.Errorf("text output lacks %q:\n%s", want, out)
+		}
+	}
+}
+
+// writeFourSiteTrials lays out the 4-site reference series as 4 trial
+// files (furlong new, fieldbook, import) holding the same plot values and
+// returns their paths.
+func writeFourSiteTrials(t *testing.T, dir string) []string {
+	t.Helper()
+	b, err := os.ReadFile(filepath.Join(seriesTestdata, "series-4-sites.csv"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	rows, err := csv.NewReader(bytes.NewReader(b)).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	// rows: plot, site, block, entry, yield
+	values := map[string]map[string]string{} // site -> block/entry -> yield
+	var sites []string
+	for _, r := range rows[1:] {
+		if values[r[1]] == nil {
+			values[r[1]] = map[string]string{}
+			sites = append(sites, r[1])
+		}
+		values[r[1]][r[2]+"/"+r[3]] = r[4]
+	}
+	var paths []string
+	for i, site := range sites {
+		path := filepath.Join(dir, strings.ToLower(site)+".furlong")
+		run := func(args ...string) {
+			t.Helper()
+			var out, errb bytes.Buffer
+			if code := Main(context.Background(), args, Env{Stdout: &out, Stderr: &errb}); code != ExitOK {
+				t.Fatalf("%v: exit %d: %s", args, code, errb.String())
+			}
+		}
+		run("new", "-o", path, "--design", "rcbd", "--treatments", "V1*,V2,V3,V4,V5,V6", "--reps", "3",
+			"--seed", strconv.Itoa(100+i), "--traits", "yield:t/ha", "--site", site, "--season", "2026")
+		book := filepath.Join(dir, site+"-book.csv")
+		run("fieldbook", path, "-o", book)
+		fb, err := os.ReadFile(book)
+		if err != nil {
+			t.Fatal(err)
+		}
+		brows, err := csv.NewReader(bytes.NewReader(fb)).ReadAll()
+		if err != nil {
+			t.Fatal(err)
+		}
+		// header: plot, block, row, column, treatment, treatment_name, yield
+		for _, r := range brows[1:] {
+			v, ok := values[site][r[1]+"/"+r[4]]
+			if !ok {
+				t.Fatalf("%s: no value for block %s entry %s", site, r[1], r[4])
+			}
+			r[len(r)-1] = v
+		}
+		var nb bytes.Buffer
+		cw := csv.NewWriter(&nb)
+		cw.WriteAll(brows)
+		if err := os.WriteFile(book, nb.Bytes(), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		run("import", path, book)
+		paths = append(paths, path)
+	}
+	return paths
+}
+
+// TestSeriesTrialFiles runs the command on 4 trial files holding the
+// reference series' plots: the same combined analysis as R's (see
+// checkFourSites), the check taken from the trials, a series file saved
+// and reopened, and the workbook written.
+func TestSeriesTrialFiles(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	paths := writeFourSiteTrials(t, dir)
+	got := seriesJSON(t, paths...)
+	checkFourSites(t, "trial files", got)
+	if s := got.Traits[0].Sites[0].Site; s != "Farm1" {
+		t.Errorf("first site %q, want Farm1 (from the trial's details)", s)
+	}
+
+	// --save, then reopen the series file: the same numbers.
+	sf := filepath.Join(dir, "region"+series.FileExt)
+	if _, errs, code := runSeriesCmd(t, append(paths, "--save", sf, "--sites", "fixed")...); code != ExitOK {
+		t.Fatalf("--save: exit %d: %s", code, errs)
+	}
+	again := seriesJSON(t, sf)
+	if again.Traits[0].SitesEffect != "fixed" {
+		t.Errorf("reopened series: sites %q, want fixed (saved with the series)", again.Traits[0].SitesEffect)
+	}
+	again = seriesJSON(t, sf, "--sites", "random")
+	checkFourSites(t, "series file", again)
+
+	// A trial gone: the series file says which.
+	if err := os.Remove(paths[2]); err != nil {
+		t.Fatal(err)
+	}
+	_, errs, code := runSeriesCmd(t, sf)
+	if code != ExitFailure || !strings.Contains(errs, filepath.Base(paths[2])) {
+		t.Errorf("missing trial: exit %d, %q; want exit 1 naming %s", code, errs, filepath.Base(paths[2]))
+	}
+}
+
+func TestSeriesWorkbook(t *testing.T) {
+	t.Parallel()
+	out := filepath.Join(t.TempDir(), "series.xlsx")
+	_, errs, code := runSeriesCmd(t, filepath.Join(seriesTestdata, "series-4-sites.csv"), "--site", "site", "--block", "block", "--treatment", "entry", "--check", "V1", "-o", out)
+	if code != ExitOK {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	f, err := excelize.OpenFile(out)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	sheets := strings.Join(f.GetSheetList(), "|")
+	for _, want := range []string{xlsx.SeriesCoverSheet, xlsx.SeriesSummarySheet, "yield"} {
+		if !strings.Contains(sheets, want) {
+			t.Errorf("sheets %s: no %q", sheets, want)
+		}
+	}
+}
+
+// TestSeriesErrors checks the messages and exit codes of mistakes.
+func TestSeriesErrors(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	four := filepath.Join(seriesTestdata, "series-4-sites.csv")
+	overlap := filepath.Join(dir, "overlap.csv")
+	// Two sites sharing 1 of 4 entries (common practice: a series compares the same entries).
+	os.WriteFile(overlap, []byte("site,trt,y\nA,x1,1\nA,x2,2\nA,x3,3\nA,x4,4\nB,x1,1.5\nB,y2,2\nB,y3,3\nB,y4,4\n"), 0o644)
+	run := func(args ...string) (string, string, int) {
+		var out, errb bytes.Buffer
+		code := Main(context.Background(), args, Env{Stdout: &out, Stderr: &errb})
+		return out.String(), errb.String(), code
+	}
+	a := filepath.Join(dir, "a.furlong")
+	b := filepath.Join(dir, "b.furlong")
+	c := filepath.Join(dir, "c.furlong")
+	run("new", "-o", a, "--treatments", "4", "--reps", "3", "--seed", "1", "--traits", "yield:t/ha")
+	run("new", "-o", b, "--treatments", "4", "--reps", "3", "--seed", "2", "--traits", "yield:bu/ac")
+	run("new", "-o", c, "--treatments", "4", "--reps", "3", "--seed", "3", "--traits", "height:cm")
+	for _, tc := range []struct {
+		args []string
+		code int
+		want string
+	}{
+		{[]string{"series"}, ExitUsage, "give two or more trial files"},
+		{[]string{"series", a}, ExitUsage, "at least two trial files"},
+		{[]string{"series", a, filepath.Join(dir, "nowhere.furlong")}, ExitFailure, "cannot find"},
+		{[]string{"series", a, b}, ExitFailure, "different units"},
+		{[]string{"series", a, c}, ExitFailure, "no trait in common"},
+		{[]string{"series", a, c, "--trait", "yield"}, ExitFailure, "has no trait"},
+		{[]string{"series", overlap, "--site", "site", "--treatment", "trt"}, ExitFailure, "shares only 1 of its 4 entries"},
+		{[]string{"series", four, "--treatment", "entry"}, ExitUsage, "needs --site"},
+		{[]string{"series", four, "--site", "site", "--treatment", "entry", "-o", filepath.Join(dir, "x.pdf")}, ExitUsage, "must end in .xlsx"},
+		{[]string{"series", four, "--site", "site", "--treatment", "entry", "--format", "xml"}, ExitUsage, "--format must be"},
+		{[]string{"series", four, "--site", "site", "--treatment", "entry", "--sites", "some"}, ExitUsage, "--sites must be"},
+		{[]string{"series", four, "--site", "site", "--treatment", "entry", "--method", "duncan"}, ExitUsage, "--method must be"},
+		{[]string{"series", a, b, "--site", "site"}, ExitUsage, "are for a CSV table"},
+	} {
+		_, errs, code := run(tc.args...)
+		if code != tc.code || !strings.Contains(errs, tc.want) {
+			t.Errorf("%v: exit %d %q; want exit %d with %q", tc.args[1:], code, errs, tc.code, tc.want)
 		}
 	}
 }
