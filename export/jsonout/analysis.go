@@ -129,28 +129,33 @@ func writeANOVA(w *Writer, a *stats.ANOVA) {
 	w.Key("anova")
 	w.BeginArray()
 	for _, s := range a.Sources {
-		w.BeginCompactObject()
-		w.StringField("source", s.Name)
-		w.IntField("df", s.DF)
-		w.NumberField("ss", s.SS)
-		w.Key("ms")
+		var ms *float64
 		if s.Role != stats.RoleTotal {
-			w.Number(s.MS)
-		} else {
-			w.Null()
+			ms = &s.MS
 		}
-		if s.HasTest {
-			w.NumberField("f", s.F)
-			w.NumberField("p", s.P)
-		} else {
-			w.Key("f")
-			w.Null()
-			w.Key("p")
-			w.Null()
-		}
-		w.EndObject()
+		writeSource(w, s, ms)
 	}
 	w.EndArray()
+}
+
+// writeSource writes one ANOVA line as a compact object: source, df, ss,
+// ms (null when ms is nil), and f and p (null for a line without a test).
+func writeSource(w *Writer, s stats.Source, ms *float64) {
+	w.BeginCompactObject()
+	w.StringField("source", s.Name)
+	w.IntField("df", s.DF)
+	w.NumberField("ss", s.SS)
+	w.NullableNumberField("ms", ms)
+	if s.HasTest {
+		w.NumberField("f", s.F)
+		w.NumberField("p", s.P)
+	} else {
+		w.Key("f")
+		w.Null()
+		w.Key("p")
+		w.Null()
+	}
+	w.EndObject()
 }
 
 // writeMeans writes "means", one compact object per treatment in the

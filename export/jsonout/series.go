@@ -91,21 +91,7 @@ func seriesTrait(w *Writer, r *series.Result) {
 	w.Key("anova")
 	w.BeginArray()
 	for _, s := range r.ANOVA {
-		w.BeginCompactObject()
-		w.StringField("source", s.Name)
-		w.IntField("df", s.DF)
-		w.NumberField("ss", s.SS)
-		w.NullableNumberField("ms", finite(s.MS))
-		if s.HasTest {
-			w.NumberField("f", s.F)
-			w.NumberField("p", s.P)
-		} else {
-			w.Key("f")
-			w.Null()
-			w.Key("p")
-			w.Null()
-		}
-		w.EndObject()
+		writeSource(w, s, finite(s.MS))
 	}
 	w.EndArray()
 	w.IntField("df_error", r.DFError)
