@@ -86,6 +86,10 @@ type SummaryTrait struct {
 	// ANOVA has no treatment test.
 	P    float64
 	HasP bool
+	// VsCheck is the comparison of every entry with the check (Dunnett)
+	// when the analysis carries one, nil otherwise; the cells then carry
+	// each entry's reading.
+	VsCheck *analysis.CheckComparison
 }
 
 // SummaryRow is one treatment of a Summary.
@@ -104,6 +108,41 @@ type SummaryCell struct {
 	// PercentOfCheck is the mean as a percentage of the trait's check mean,
 	// nil when the trait does not show it.
 	PercentOfCheck *float64
+	// VsCheck is the entry's reading against the check when the trait has
+	// the comparison: VsBetter, VsWorse, VsNotDifferent, or VsIsCheck for
+	// the check itself; "" otherwise.
+	VsCheck string
+}
+
+// Readings of an entry against the check in a summary cell: short, for a
+// column beside the means.
+const (
+	VsBetter       = "better"
+	VsWorse        = "worse"
+	VsNotDifferent = "ns"
+	VsIsCheck      = "check"
+)
+
+// HasVsCheck reports whether any trait of the summary compares the entries
+// with the check.
+func (s *Summary) HasVsCheck() bool {
+	for _, st := range s.Traits {
+		if st.VsCheck != nil {
+			return true
+		}
+	}
+	return false
+}
+
+// VsCheckNote explains the summary's column of readings against the check.
+func (s *Summary) VsCheckNote() string {
+	for _, st := range s.Traits {
+		if vc := st.VsCheck; vc != nil {
+			level := strconv.FormatFloat(100*(1-vc.Alpha), 'f', -1, 64) + "%"
+			return "vs check: each entry against the check by Dunnett's comparisons; better or worse (in each trait's better direction) where the simultaneous " + level + " interval of the difference leaves out zero, ns where it does not. The trait sheets give the differences, intervals and p-values."
+		}
+	}
+	return ""
 }
 
 // MSDText writes a least significant difference for a table: the single
@@ -241,6 +280,9 @@ func NewSummary(t *trial.Trial, results []analysis.Outcome, keys []string, metho
 			st.MSD = MSD(r.Result, method)
 			st.MSDRange = MSDRange(r.Result, method)
 			st.CheckMean = r.Result.CheckMean
+			if vc := r.Result.VsCheck; vc != nil && len(vc.Rows) > 0 {
+				st.VsCheck = vc
+			}
 			if src, ok := r.Result.ANOVA.Treatment(); ok && src.HasTest {
 				st.P, st.HasP = src.P, true
 			}
@@ -259,7 +301,8 @@ func NewSummary(t *trial.Trial, results []analysis.Outcome, keys []string, metho
 			for _, m := range st.Result.Means {
 				if m.Treatment == tm.Code {
 					if finite(m.BackMean) {
-						row.Cells[j] = SummaryCell{OK: true, Mean: m.BackMean, Letters: Letters(m, method), PercentOfCheck: m.PercentOfCheck}
+						row.Cells[j] = SummaryCell{OK: true, Mean: m.BackMean, Letters: Letters(m, method), PercentOfCheck: m.PercentOfCheck,
+							VsCheck: vsReading(st.VsCheck, tm.Code)}
 					}
 					break
 				}
@@ -269,6 +312,28 @@ func NewSummary(t *trial.Trial, results []analysis.Outcome, keys []string, metho
 	}
 
 	return s
+}
+
+// vsReading is the summary reading of entry code against the check.
+func vsReading(vc *analysis.CheckComparison, code string) string {
+	if vc == nil {
+		return ""
+	}
+	if code == vc.Check {
+		return VsIsCheck
+	}
+	for _, r := range vc.Rows {
+		if r.Treatment == code {
+			switch r.Verdict {
+			case "better":
+				return VsBetter
+			case "worse":
+				return VsWorse
+			}
+			return VsNotDifferent
+		}
+	}
+	return ""
 }
 
 func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
@@ -331,4 +396,18 @@ func SourceName(s stats.Source) string {
 		return "—"
 	}
 	return strings.ToUpper(n[:1]) + n[1:]
+}
+
+// AdjustmentText says in words how the p-values of a set of contrasts were
+// adjusted: "p not adjusted", "p adjusted by Holm", ...
+func AdjustmentText(adj stats.Adjustment) string {
+	switch adj {
+	case stats.Bonferroni:
+		return "p adjusted by Bonferroni"
+	case stats.Holm:
+		return "p adjusted by Holm"
+	case stats.Scheffe:
+		return "p adjusted by Scheffé (protects contrasts chosen after looking at the data)"
+	}
+	return "p not adjusted"
 }

@@ -190,8 +190,7 @@ func (r *reportStep) exportReport() {
 // writeReport analyses the chosen traits of a snapshot and writes the
 // season report workbook; it is the work behind the report's save dialog.
 func writeReport(ctx context.Context, w io.Writer, t *trial.Trial, keys []string, opts xlsx.ReportOptions, progress func(int, int)) error {
-	// The one analyse loop (each trait on its own scale, the report's method).
-	results, err := analysis.AnalyzeAll(ctx, t, keys, analysis.Options{Alpha: opts.Alpha, Method: opts.Method})
+	results, err := analyseForReport(ctx, t, keys, opts)
 	if err != nil {
 		return err
 	}
@@ -205,6 +204,21 @@ func writeReport(ctx context.Context, w io.Writer, t *trial.Trial, keys []string
 		}
 	}
 	return xlsx.WriteReport(ctx, w, t, results, opts)
+}
+
+// analyseForReport is the analysis behind both season reports (workbook and
+// PDF): the one analyse loop (each trait on its own scale, the report's
+// method), then each entry against the trial's check and the trial's saved
+// contrasts (analysis.AddExtras), as 'furlong report' does.
+func analyseForReport(ctx context.Context, t *trial.Trial, keys []string, opts xlsx.ReportOptions) ([]analysis.Outcome, error) {
+	results, err := analysis.AnalyzeAll(ctx, t, keys, analysis.Options{Alpha: opts.Alpha, Method: opts.Method})
+	if err != nil {
+		return nil, err
+	}
+	if err := analysis.AddExtras(results, t.Analysis.Contrasts, analysis.Extras{VsCheck: true}); err != nil {
+		return nil, err
+	}
+	return results, ctx.Err()
 }
 
 // exportChart writes the means chart of the trait shown in Compare.

@@ -7,7 +7,6 @@ import (
 	"furlong/export/pdf"
 	"furlong/export/xlsx"
 	"furlong/trial"
-	"furlong/trial/analysis"
 )
 
 // pdfPaper is the PDF paper size of the Report step's choice.
@@ -34,28 +33,16 @@ func (r *reportStep) exportReportPDF() {
 }
 
 // writeReportPDF analyses the chosen traits of a snapshot and writes the
-// PDF season report, each entry compared with the trial's check when it
-// has one.
+// PDF season report (analyseForReport: each entry compared with the trial's
+// check when it has one, and the saved contrasts).
 func writeReportPDF(ctx context.Context, w io.Writer, t *trial.Trial, keys []string, opts xlsx.ReportOptions, progress func(int, int)) error {
-	results, err := analysis.AnalyzeAll(ctx, t, keys, analysis.Options{Alpha: opts.Alpha, Method: opts.Method})
+	results, err := analyseForReport(ctx, t, keys, opts)
 	if err != nil {
 		return err
 	}
 	steps := len(keys)
-	for i, o := range results {
-		if o.Result != nil {
-			if code := analysis.CheckOf(o.Result); code != "" && !o.Result.IsFactorial() {
-				if vc, err := analysis.CompareWithCheck(o.Result, code); err == nil {
-					o.Result.VsCheck = vc
-				}
-			}
-		}
-		if err := ctx.Err(); err != nil {
-			return err
-		}
-		if progress != nil {
-			progress(i+1, 2*steps+1)
-		}
+	if progress != nil {
+		progress(steps, 2*steps+1)
 	}
 	return pdf.WriteReport(ctx, w, t, results, pdf.ReportOptions{
 		Method: opts.Method, Alpha: opts.Alpha, Traits: keys, Version: opts.Version,

@@ -268,6 +268,10 @@ func writeSummary(d *doc, t *trial.Trial, sum *export.Summary, opts ReportOption
 				tb.heads = append(tb.heads, "% of check")
 				tb.right = append(tb.right, true)
 			}
+			if st.VsCheck != nil {
+				tb.heads = append(tb.heads, "vs check")
+				tb.right = append(tb.right, false)
+			}
 		}
 		for _, r := range sum.Rows {
 			name := r.Name
@@ -285,6 +289,9 @@ func writeSummary(d *doc, t *trial.Trial, sum *export.Summary, opts ReportOption
 				if st.CheckMean != nil {
 					row = append(row, numPtr(c.PercentOfCheck, 0))
 				}
+				if st.VsCheck != nil {
+					row = append(row, orDash(c.VsCheck))
+				}
 			}
 			tb.rows = append(tb.rows, row)
 			tb.bold = append(tb.bold, r.Check)
@@ -294,6 +301,9 @@ func writeSummary(d *doc, t *trial.Trial, sum *export.Summary, opts ReportOption
 			for _, st := range sum.Traits[start:end] {
 				row = append(row, f(st))
 				if st.CheckMean != nil {
+					row = append(row, "")
+				}
+				if st.VsCheck != nil {
 					row = append(row, "")
 				}
 			}
@@ -343,6 +353,9 @@ func writeSummary(d *doc, t *trial.Trial, sum *export.Summary, opts ReportOption
 	}
 	if sum.HasPercentOfCheck() {
 		d.note("% of check: each mean as a percentage of the mean of the check entries.")
+	}
+	if note := sum.VsCheckNote(); note != "" {
+		d.note(note)
 	}
 }
 
@@ -430,6 +443,15 @@ func writeTrait(d *doc, t *trial.Trial, tr trial.Trait, results []analysis.Outco
 		heads = append(heads, "% of check")
 		right = append(right, true)
 	}
+	eff := a.Efficacy
+	if eff != nil {
+		heads = append(heads, "% efficacy (Abbott)")
+		right = append(right, true)
+		if eff.PreCount != "" {
+			heads = append(heads, "% efficacy (H–T)")
+			right = append(right, true)
+		}
+	}
 	tb := table{heads: heads, right: right, maxCol: 80}
 	for _, m := range a.Means {
 		label := m.Name
@@ -444,10 +466,32 @@ func writeTrait(d *doc, t *trial.Trial, tr trial.Trait, results []analysis.Outco
 		if a.CheckMean != nil {
 			row = append(row, numPtr(m.PercentOfCheck, 0))
 		}
+		if eff != nil {
+			if er := eff.Row(m.Treatment); er != nil {
+				row = append(row, numPtr(er.Abbott, 1))
+				if eff.PreCount != "" {
+					row = append(row, numPtr(er.HendersonTilton, 1))
+				}
+			} else {
+				row = append(row, "untreated")
+				if eff.PreCount != "" {
+					row = append(row, "")
+				}
+			}
+		}
 		tb.rows = append(tb.rows, row)
 		tb.bold = append(tb.bold, m.Check)
 	}
 	d.table(tb)
+	if eff != nil {
+		note := fmt.Sprintf("%% efficacy against the untreated check %s (mean %s): Abbott, (untreated − treatment)/untreated × 100 on the means.",
+			eff.Untreated, num(eff.UntreatedMean, meanDec))
+		if eff.PreCount != "" {
+			note += " Henderson–Tilton (H–T): (1 − Ta·Cb/(Tb·Ca)) × 100 with the counts before (trait " + eff.PreCount + ") and after."
+		}
+		d.note(note)
+		d.note("Caution: " + export.ProtectionCautionText())
+	}
 
 	if opts.Charts {
 		if err := meansChart(d, t, a, opts); err != nil {
@@ -490,6 +534,24 @@ func writeTrait(d *doc, t *trial.Trial, tr trial.Trait, results []analysis.Outco
 		for _, r := range vc.Rows {
 			tb.rows = append(tb.rows, []string{r.Treatment, num(r.Diff, scaleDec), num(r.SE, scaleDec),
 				num(r.Lower, scaleDec), num(r.Upper, scaleDec), stats.FormatP(r.PTwoSided), stats.FormatP(r.PBetter), r.Verdict})
+		}
+		d.table(tb)
+	}
+
+	// The user's contrasts, when the analysis carries them
+	// (analysis.EstimateAllContrasts).
+	if set := a.Contrasts; set != nil && len(set.Rows) > 0 {
+		d.section("Contrasts", 25)
+		scale := ""
+		if transformed {
+			scale = " on the " + a.Transform.Scale() + " scale the trait is analysed on"
+		}
+		d.note("Planned comparisons of the treatment means" + scale + ": each estimate with its standard error from the model and a t test on the error df; " + export.AdjustmentText(set.Adjust) + ".")
+		tb := table{heads: []string{"Contrast", "Definition", "Estimate", "SE", "df", "t", "p", "p adjusted"},
+			right: []bool{false, false, true, true, true, true, true, true}, maxCol: 60}
+		for _, c := range set.Rows {
+			tb.rows = append(tb.rows, []string{c.Name, c.Definition, num(c.Estimate, scaleDec), num(c.SE, scaleDec),
+				strconv.Itoa(c.DF), num(c.T, 3), stats.FormatP(c.P), stats.FormatP(c.PAdjusted)})
 		}
 		d.table(tb)
 	}

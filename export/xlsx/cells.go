@@ -87,6 +87,20 @@ type sheet struct {
 	name   string
 	widths map[int]float64
 	err    error
+	// later are pictures to add once the columns have their widths: a
+	// picture is anchored to cells, so it is stretched when a column under
+	// it widens after it is placed.
+	later []func()
+}
+
+// placeLater runs the pictures' placement kept for after fitColumns.
+func (s *sheet) placeLater() {
+	for _, f := range s.later {
+		if s.err == nil {
+			f()
+		}
+	}
+	s.later = nil
 }
 
 func newSheet(f *excelize.File, st *styles, name string) *sheet {

@@ -357,7 +357,7 @@ func (r *report) writeSummary(name string) error {
 		s.text(1+c, sub, h, withBottom(headLeft))
 		s.setStyle(1+c, top, headLeft)
 	}
-	type group struct{ mean, letters, pct int }
+	type group struct{ mean, letters, pct, vs int }
 	groups := make([]group, len(sum.Traits))
 	col := 4
 	lines := 1.0
@@ -365,8 +365,12 @@ func (r *report) writeSummary(name string) error {
 		g := group{mean: col, letters: col + 1}
 		last := col + 1
 		if st.CheckMean != nil {
-			g.pct = col + 2
-			last = col + 2
+			g.pct = last + 1
+			last++
+		}
+		if st.VsCheck != nil {
+			g.vs = last + 1
+			last++
 		}
 		groups[j] = g
 		label := traitLabel(st.Name, st.Unit)
@@ -381,6 +385,9 @@ func (r *report) writeSummary(name string) error {
 		s.text(g.letters, sub, "group", withBottom(headCentre))
 		if g.pct > 0 {
 			s.text(g.pct, sub, "% check", withBottom(headRight))
+		}
+		if g.vs > 0 {
+			s.text(g.vs, sub, "vs check", withBottom(headCentre))
 		}
 		lines = math.Max(lines, math.Ceil(displayWidth(label)*1.1/float64(8*(last-col+1))))
 		col = last + 1
@@ -410,6 +417,9 @@ func (r *report) writeSummary(name string) error {
 				if g.pct > 0 {
 					s.setStyle(g.pct, row, band)
 				}
+				if g.vs > 0 {
+					s.setStyle(g.vs, row, band)
+				}
 				continue
 			}
 			s.num(g.mean, row, c.Mean, withFill(numStyle(st.MeanDecimals), band.fill))
@@ -420,6 +430,16 @@ func (r *report) writeSummary(name string) error {
 				} else {
 					s.text(g.pct, row, dash, withFill(dashStyle, band.fill))
 				}
+			}
+			if g.vs > 0 {
+				k := styleKey{halign: "center", fill: band.fill}
+				switch c.VsCheck {
+				case export.VsBetter, export.VsWorse:
+					k.bold = true
+				case export.VsIsCheck:
+					k.italic = true
+				}
+				s.text(g.vs, row, c.VsCheck, k)
 			}
 		}
 		row++
@@ -433,7 +453,7 @@ func (r *report) writeSummary(name string) error {
 	// Columns: trait (A–C), grand mean (D), CV% (E), LSD or HSD (F–H
 	// merged: a range needs the room), p (I), reading (J on).
 	const msdFrom, msdTo, pCol, readCol = 6, 8, 9, 10
-	for c, h := range map[int]string{1: "Trait", 4: "Grand mean", 5: "CV%", msdFrom: msdHead, pCol: "p (treatments)", readCol: "F test"} {
+	for c, h := range map[int]string{1: "Trait", 4: "Grand mean", 5: "CV%", msdFrom: msdHead, pCol: "p", readCol: "F test of the treatments"} {
 		k := withBottom(headLeft)
 		if c >= 4 && c <= pCol {
 			k = withBottom(headRight)
@@ -501,6 +521,10 @@ func (r *report) writeSummary(name string) error {
 			row++
 			break
 		}
+	}
+	if note := sum.VsCheckNote(); note != "" {
+		s.textNoWidth(1, row, note, noteStyle)
+		row++
 	}
 	for _, st := range sum.Traits {
 		if st.Result != nil && st.MSD == nil && st.MSDRange != nil {

@@ -102,7 +102,7 @@ func TestReportSummaryNumbers(t *testing.T) {
 		{"Grand mean", yield.ANOVA.GrandMean, exp.GrandMean},
 		{"CV%", yield.ANOVA.CVPercent, exp.CV},
 		{"LSD (0.05)", *yield.LSD, exp.LSD},
-		{"p (treatments)", yieldTrt.P, *exp.ANOVA[1].P},
+		{"p", yieldTrt.P, *exp.ANOVA[1].P},
 	} {
 		c := []int{4, 5, 6, 9}[i] // the LSD spans F–H
 		if got := textAt(t, f, SummarySheet, cell(c, stat-1)); got != want.label {
@@ -540,7 +540,14 @@ func TestReportCharts(t *testing.T) {
 	tr, _ := barleyTrial(t)
 	f, _ := writeReport(t, tr, barleyResults(t, tr), ReportOptions{Charts: true, Method: meansep.Tukey})
 	for _, sh := range []string{"Yield", "收获"} {
-		c := cell(chartCol, findRow(t, f, sh, 1, "Treatment"))
+		head := findRow(t, f, sh, 1, "Treatment")
+		rows, err := f.GetRows(sh)
+		if err != nil {
+			t.Fatal(err)
+		}
+		// The chart sits right of the means table (one free column), never
+		// over its last columns.
+		c := cell(len(rows[head-1])+2, head)
 		pics, err := f.GetPictures(sh, c)
 		if err != nil {
 			t.Fatal(err)
@@ -548,7 +555,8 @@ func TestReportCharts(t *testing.T) {
 		// A PNG file starts with the signature 89 50 4E 47 0D 0A 1A 0A (PNG
 		// specification, ISO/IEC 15948, section 5.2).
 		if len(pics) != 1 || !bytes.HasPrefix(pics[0].File, []byte("\x89PNG\r\n\x1a\n")) {
-			t.Errorf("%s: %d pictures at %s", sh, len(pics), c)
+			all, _ := f.GetPictureCells(sh)
+			t.Errorf("%s: %d pictures at %s (pictures at %v)", sh, len(pics), c, all)
 		}
 	}
 	cells, err := f.GetPictureCells("Lodging")

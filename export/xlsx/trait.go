@@ -119,6 +119,13 @@ func (r *report) writeTrait(name string, tr trial.Trait) error {
 	if a.CheckMean != nil {
 		heads = append(heads, "% of check")
 	}
+	eff := a.Efficacy
+	if eff != nil {
+		heads = append(heads, "% efficacy (Abbott)")
+		if eff.PreCount != "" {
+			heads = append(heads, "% efficacy (Henderson–Tilton)")
+		}
+	}
 	if transformed {
 		sc := a.Transform.Scale()
 		heads = append(heads, "LS mean ("+sc+")", "Raw mean ("+sc+")", "SE ("+sc+")")
@@ -168,6 +175,30 @@ func (r *report) writeTrait(name string, tr trial.Trait) error {
 			}
 			c++
 		}
+		if eff != nil {
+			pct := func(v *float64) {
+				if v == nil {
+					s.text(c, row, dash, dashStyle)
+				} else {
+					s.num(c, row, *v, styleKey{numFmt: percentFormat})
+				}
+				c++
+			}
+			if er := eff.Row(m.Treatment); er != nil {
+				pct(er.Abbott)
+				if eff.PreCount != "" {
+					pct(er.HendersonTilton)
+				}
+			} else {
+				// The untreated check itself.
+				s.text(c, row, "untreated", styleKey{halign: "center", italic: true})
+				c++
+				if eff.PreCount != "" {
+					s.setStyle(c, row, styleKey{})
+					c++
+				}
+			}
+		}
 		if transformed {
 			s.numOrDash(c, row, m.Mean, numStyle(scaleDec))
 			s.numOrDash(c+1, row, m.RawMean, numStyle(scaleDec))
@@ -180,7 +211,21 @@ func (r *report) writeTrait(name string, tr trial.Trait) error {
 			strconv.FormatFloat(*a.CheckMean, 'f', meanDec, 64)), noteStyle)
 		row++
 	}
+	if eff != nil {
+		note := fmt.Sprintf("%% efficacy against the untreated check %s (mean %s): Abbott, (untreated − treatment)/untreated × 100 on the means.",
+			eff.Untreated, strconv.FormatFloat(eff.UntreatedMean, 'f', meanDec, 64))
+		if eff.PreCount != "" {
+			note += " Henderson–Tilton: (1 − Ta·Cb/(Tb·Ca)) × 100 with the counts before (trait " + eff.PreCount + ") and after."
+		}
+		s.textNoWidth(1, row, note, noteStyle)
+		row++
+		s.textNoWidth(1, row, "Caution: "+export.ProtectionCautionText(), noteStyle)
+		row++
+	}
+	meansChartCol := max(chartCol, meansFirstCol+len(heads)+1)
 	row++
+	row = s.writeVsCheck(r.f, r.t, a, row, scaleDec, r.opts.Charts)
+	row = s.writeContrasts(a, row, scaleDec)
 	interactionRow := 0
 	if a.IsFactorial() {
 		row, interactionRow = s.writeFactorialMeans(a, row, scaleDec, string(r.opts.Method))
@@ -247,6 +292,7 @@ func (r *report) writeTrait(name string, tr trial.Trait) error {
 	s.widths[1] = maxF(s.widths[1], 10)
 	s.freeze(0, 0)
 	s.fitColumns(6, 40)
+	s.placeLater()
 	if r.opts.Charts && s.err == nil {
 		var c chartPNG
 		if ch, ok := r.charts[tr.Key]; ok {
@@ -260,10 +306,10 @@ func (r *report) writeTrait(name string, tr trial.Trait) error {
 		png, err := c.png, c.err
 		if err != nil {
 			// A chart that cannot be drawn leaves a note, not a failed report.
-			s.textNoWidth(chartCol, meansHead, err.Error(), noteStyle)
+			s.textNoWidth(meansChartCol, meansHead, err.Error(), noteStyle)
 		} else {
 			yes := true
-			s.fail(r.f.AddPictureFromBytes(name, cellName(chartCol, meansHead), &excelize.Picture{
+			s.fail(r.f.AddPictureFromBytes(name, cellName(meansChartCol, meansHead), &excelize.Picture{
 				Extension: ".png", File: png,
 				Format: &excelize.GraphicOptions{AltText: "Chart of the means of " + title, PrintObject: &yes, LockAspectRatio: true},
 			}))

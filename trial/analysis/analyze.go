@@ -317,7 +317,7 @@ func AnalyzeData(d *Data, o Options) (*Result, error) {
 	r := &Result{
 		TraitKey: d.TraitKey, TraitName: d.TraitName, Unit: d.Unit, Decimals: d.Decimals,
 		HigherBetter: d.HigherBetter, Design: d.Design, Alpha: o.Alpha, Method: o.Method, Transform: o.Transform,
-		Excluded: d.Excluded,
+		Excluded: d.Excluded, Untreated: d.Untreated,
 	}
 	if len(d.Factors) > 0 {
 		if d.Covariate != nil {

@@ -41,6 +41,10 @@ type Result struct {
 	Unit         string
 	Decimals     int
 	HigherBetter bool
+	// Untreated is the code of the trial's untreated check ("" for none):
+	// the reference of the comparisons with the check when the trial has
+	// no other check (CheckOf).
+	Untreated string
 
 	Design    trial.DesignKind
 	Alpha     float64

@@ -132,8 +132,10 @@ func CompareWithCheck(r *Result, check string) (*CheckComparison, error) {
 	return out, nil
 }
 
-// CheckOf returns the code of the result's one check treatment, or "" when
-// it has none or several.
+// CheckOf returns the code of the treatment the entries of r are compared
+// with: the result's one check; with no check, the untreated check (a
+// crop-protection trial's reference); "" when there is neither, or several
+// checks.
 func CheckOf(r *Result) string {
 	code := ""
 	for _, m := range r.Means {
@@ -142,6 +144,13 @@ func CheckOf(r *Result) string {
 				return ""
 			}
 			code = m.Treatment
+		}
+	}
+	if code == "" {
+		for _, m := range r.Means {
+			if m.Treatment == r.Untreated {
+				return m.Treatment
+			}
 		}
 	}
 	return code

@@ -133,7 +133,7 @@ func runAnalyze(ctx context.Context, o analyzeOptions) error {
 	if err != nil {
 		return usagef("analyze: --adjust: %s", err)
 	}
-	given, err := parseContrastFlags(o.contrasts)
+	given, err := parseContrastFlags("analyze", o.contrasts)
 	if err != nil {
 		return err
 	}
@@ -167,10 +167,8 @@ func runAnalyze(ctx context.Context, o analyzeOptions) error {
 	if err != nil {
 		return err
 	}
-	if err := compareWithChecks(outcomes, o.check, o.lowerBetter && isCSV(path)); err != nil {
-		return err
-	}
-	if err := estimateContrasts(outcomes, saved, given, adj); err != nil {
+	if err := analysis.AddExtras(outcomes, saved, analysis.Extras{VsCheck: true, Check: o.check,
+		LowerBetter: o.lowerBetter && isCSV(path), Contrasts: given, Adjust: adj}); err != nil {
 		return err
 	}
 	switch o.format {
@@ -301,39 +299,6 @@ func analyzeCSV(ctx context.Context, o analyzeOptions, path string, opts analysi
 }
 
 // ---- output ----
-
-// compareWithChecks adds the comparisons with the check to every result:
-// the check given, or the one check of the trial. A check given that a
-// trait cannot be compared with is an error; a trial's own check that
-// cannot be used becomes a warning.
-func compareWithChecks(outcomes []analysis.Outcome, check string, lowerBetter bool) error {
-	for _, oc := range outcomes {
-		r := oc.Result
-		if r == nil {
-			continue
-		}
-		if lowerBetter {
-			r.HigherBetter = false
-		}
-		code := check
-		if code == "" {
-			code = analysis.CheckOf(r)
-		}
-		if code == "" {
-			continue
-		}
-		vc, err := analysis.CompareWithCheck(r, code)
-		if err != nil {
-			if check != "" {
-				return err
-			}
-			r.Warnings = append(r.Warnings, "No comparison with the check: "+Message(err))
-			continue
-		}
-		r.VsCheck = vc
-	}
-	return nil
-}
 
 // writeAnalysisJSON writes the outcomes as the JSON document of --format
 // json, streamed (export/jsonout holds the mapping of a result to its keys).

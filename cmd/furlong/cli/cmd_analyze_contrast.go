@@ -6,6 +6,7 @@ import (
 	"strconv"
 	"text/tabwriter"
 
+	"furlong/export"
 	"furlong/stats"
 	"furlong/trial"
 	"furlong/trial/analysis"
@@ -23,54 +24,17 @@ looking at the data (against every possible contrast). Contrasts are on the anal
 transformed trait. Split and strip plots are not supported yet.
 `
 
-// parseContrastFlags reads the --contrast values.
-func parseContrastFlags(vals []string) ([]trial.Contrast, error) {
+// parseContrastFlags reads the --contrast values of command cmd.
+func parseContrastFlags(cmd string, vals []string) ([]trial.Contrast, error) {
 	var out []trial.Contrast
 	for _, v := range vals {
 		c, err := trial.ParseContrast(v)
 		if err != nil {
-			return nil, usagef("analyze: --contrast %s", err)
+			return nil, usagef("%s: --contrast %s", cmd, err)
 		}
 		out = append(out, c)
 	}
 	return out, nil
-}
-
-// estimateContrasts adds the contrasts to every result: the trial's saved
-// contrasts (saved, nil for a CSV table) with those given on the command
-// line (given) replacing saved ones of the same name. A contrast given that
-// cannot be estimated is an error; a saved one becomes a warning.
-func estimateContrasts(outcomes []analysis.Outcome, saved, given []trial.Contrast, adj stats.Adjustment) error {
-	var cs []trial.Contrast
-	isGiven := map[string]bool{}
-	for _, c := range given {
-		isGiven[c.Name] = true
-	}
-	for _, c := range saved {
-		if !isGiven[c.Name] {
-			cs = append(cs, c)
-		}
-	}
-	cs = append(cs, given...)
-	if len(cs) == 0 {
-		return nil
-	}
-	for _, oc := range outcomes {
-		r := oc.Result
-		if r == nil {
-			continue
-		}
-		set, err := analysis.EstimateContrasts(r, cs, adj)
-		if err != nil {
-			if len(given) > 0 {
-				return err
-			}
-			r.Warnings = append(r.Warnings, "No contrasts: "+Message(err))
-			continue
-		}
-		r.Contrasts = set
-	}
-	return nil
 }
 
 // writeContrastsText prints the contrasts table of a result.
@@ -79,15 +43,7 @@ func writeContrastsText(w io.Writer, r *analysis.Result, dec int) {
 	if set == nil || len(set.Rows) == 0 {
 		return
 	}
-	adj := "p not adjusted"
-	switch set.Adjust {
-	case stats.Bonferroni:
-		adj = "p adjusted by Bonferroni"
-	case stats.Holm:
-		adj = "p adjusted by Holm"
-	case stats.Scheffe:
-		adj = "p adjusted by Scheffé"
-	}
+	adj := export.AdjustmentText(set.Adjust)
 	fmt.Fprintf(w, "\nContrasts (t tests on %d error df; %s):\n", set.Rows[0].DF, adj)
 	num := func(v float64) string { return strconv.FormatFloat(v, 'f', dec, 64) }
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)

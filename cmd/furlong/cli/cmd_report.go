@@ -14,6 +14,7 @@ import (
 	"furlong/export/chart"
 	"furlong/export/pdf"
 	"furlong/export/xlsx"
+	"furlong/stats"
 	"furlong/stats/meansep"
 	"furlong/trial"
 	"furlong/trial/analysis"
@@ -24,7 +25,8 @@ func init() {
 	register(&command{
 		name:    "report",
 		summary: "write the season report (xlsx workbook or PDF)",
-		usage:   "furlong report TRIAL -o REPORT.xlsx|REPORT.pdf [--alpha 0.05] [--method lsd|tukey] [--traits K1,K2] [--paper a4|letter] [--no-charts]",
+		usage: `furlong report TRIAL -o REPORT.xlsx|REPORT.pdf [--alpha 0.05] [--method lsd|tukey] [--traits K1,K2] [--paper a4|letter] [--no-charts]
+                [--vs-check=false] [--check CODE] [--contrast "NAME=A,B vs C"]... [--adjust none|bonferroni|holm|scheffe]`,
 		details: `Writes the season report as one workbook: a cover sheet with the trial's details and cautions,
 a summary sheet (every treatment's mean and letters for each trait, grand mean, CV%, LSD or HSD,
 the treatment p-value, and yield as a percentage of the check), one sheet per trait (ANOVA,
@@ -32,7 +34,14 @@ means with letters, statistics, diagnostics in plain words, a chart of the means
 and the field map. Numbers are stored at full precision and shown with each trait's decimals.
 With -o REPORT.pdf the same report is written as a PDF document for printing and mailing: the
 cover with the cautions, the summary, a page per trait with its tables and chart, the plot data
-and the field map with its dimensions, on A4 or US Letter (--paper), with page numbers.`,
+and the field map with its dimensions, on A4 or US Letter (--paper), with page numbers.
+
+When the trial has a check (or --check CODE names one), every entry is compared with it by
+Dunnett's comparisons: a "vs check" column on the summary (better, worse or ns) and, on each trait's
+sheet or page, the differences with their simultaneous intervals, adjusted p-values and a chart;
+--vs-check=false leaves this out. The trial's saved contrasts, and any given with --contrast (as in
+'furlong analyze'), get a table on each trait's sheet or page, with --adjust for their p-values. A
+crop-protection trial with an untreated check shows percent efficacy beside the means.`,
 		flags: func(env Env) (*flag.FlagSet, func(context.Context, []string) error) {
 			o := reportOptions{env: env}
 			fs := flag.NewFlagSet("report", flag.ContinueOnError)
@@ -42,7 +51,10 @@ and the field map with its dimensions, on A4 or US Letter (--paper), with page n
 			fs.StringVar(&o.traits, "traits", "", "report only these trait `keys`, comma-separated, in this order")
 			fs.StringVar(&o.paper, "paper", "a4", "paper size, a4 or letter")
 			fs.BoolVar(&o.noCharts, "no-charts", false, "leave the charts out")
-			fs.BoolVar(&o.vsCheck, "vs-check", false, "PDF: add each entry against the trial's check (Dunnett) to the trait pages")
+			fs.BoolVar(&o.vsCheck, "vs-check", true, "compare each entry with the check (Dunnett) on the summary and the trait sheets; --vs-check=false leaves it out")
+			fs.StringVar(&o.check, "check", "", "compare with this treatment `code` (default: the trial's check)")
+			fs.Var(&o.contrasts, "contrast", "estimate a contrast: \"NAME=A,B vs C\" or \"NAME=A:1,B:1,C:-2\" (repeatable; the trial's saved ones are estimated too)")
+			fs.StringVar(&o.adjust, "adjust", "none", "adjust the contrasts' p-values: none, bonferroni, holm or scheffe")
 			fs.BoolVar(&o.force, "force", false, "replace the output file if it exists")
 			return fs, func(ctx context.Context, args []string) error {
 				if len(args) != 1 {
@@ -115,6 +127,8 @@ metres, and where north lies.`,
 type reportOptions struct {
 	env                               Env
 	trial, out, method, traits, paper string
+	check, adjust                     string
+	contrasts                         stringList
 	alpha                             float64
 	noCharts, force, vsCheck          bool
 }
@@ -136,6 +150,17 @@ func runReport(ctx context.Context, o reportOptions) error {
 	if err != nil {
 		return err
 	}
+	adj, err := stats.ParseAdjustment(o.adjust)
+	if err != nil {
+		return usagef("report: --adjust: %s", err)
+	}
+	given, err := parseContrastFlags("report", o.contrasts)
+	if err != nil {
+		return err
+	}
+	if o.check != "" && !o.vsCheck {
+		return usagef("report: --check goes with the comparison with the check; leave out --vs-check=false")
+	}
 	t, err := trialfile.Load(o.trial)
 	if err != nil {
 		return err
@@ -150,13 +175,9 @@ func runReport(ctx context.Context, o reportOptions) error {
 	if err != nil {
 		return err
 	}
-	if o.vsCheck {
-		if ext != ".pdf" {
-			return usagef("report: --vs-check goes with a PDF report (-o REPORT.pdf)")
-		}
-		if err := compareWithChecks(results, "", false); err != nil {
-			return err
-		}
+	if err := analysis.AddExtras(results, t.Analysis.Contrasts, analysis.Extras{VsCheck: o.vsCheck, Check: o.check,
+		Contrasts: given, Adjust: adj}); err != nil {
+		return err
 	}
 	var buf bytes.Buffer
 	if ext == ".pdf" {

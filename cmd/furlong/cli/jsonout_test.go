@@ -112,7 +112,7 @@ func outcomesOf(t *testing.T, c jsonCase) []analysis.Outcome {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if err := compareWithChecks(outs, o.check, false); err != nil {
+	if err := analysis.CompareAllWithCheck(outs, o.check, false); err != nil {
 		t.Fatal(err)
 	}
 	return outs

@@ -21,7 +21,7 @@ func TestReportAndMapPDF(t *testing.T) {
 		args  []string
 		magic string
 	}{
-		{[]string{"report", trialPath, "-o", filepath.Join(dir, "r.pdf"), "--paper", "letter", "--no-charts"}, "%PDF-"},
+		{[]string{"report", trialPath, "-o", filepath.Join(dir, "r.pdf"), "--paper", "letter", "--no-charts", "--vs-check=false"}, "%PDF-"},
 		{[]string{"report", trialPath, "-o", filepath.Join(dir, "r.xlsx"), "--no-charts"}, "PK"},
 		{[]string{"map", trialPath, "-o", filepath.Join(dir, "m.pdf")}, "%PDF-"},
 	} {
@@ -46,8 +46,18 @@ func TestReportAndMapPDF(t *testing.T) {
 	if code != 2 || !strings.Contains(errs, "REPORT.pdf") {
 		t.Errorf("report -o r.docx: exit %d, %q; want 2 and a hint of .xlsx or .pdf", code, errs)
 	}
-	code, _, errs = run(t, "report", trialPath, "-o", filepath.Join(dir, "r2.xlsx"), "--vs-check")
-	if code != 2 || !strings.Contains(errs, "PDF") {
-		t.Errorf("report --vs-check to xlsx: exit %d, %q; want 2", code, errs)
+	for _, tc := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"--check", "CHK", "--vs-check=false"}, "--check goes with"},
+		{[]string{"--contrast", "new=HM01 vs NOPE"}, "NOPE"},
+		{[]string{"--contrast", "new=HM01 vs CHK", "--adjust", "sometimes"}, "--adjust"},
+	} {
+		args := append([]string{"report", trialPath, "-o", filepath.Join(dir, "r2.xlsx")}, tc.args...)
+		code, _, errs = run(t, args...)
+		if code == 0 || !strings.Contains(errs, tc.want) {
+			t.Errorf("%v: exit %d, %q; want an error naming %q", tc.args, code, errs, tc.want)
+		}
 	}
 }
