@@ -16,7 +16,8 @@ import (
 const contrastHelp = `Contrasts (planned comparisons): --contrast "NAME=A,B vs C" compares the mean of treatments A and B
 with the mean of C (each side's treatments weighted equally); --contrast "NAME=A:1,B:1,C:-2" gives a
 coefficient to each treatment named (the others 0; the coefficients must add up to 0). Repeat the
-flag for several contrasts. A trial's saved contrasts (in its file) are estimated too; a
+flag for several contrasts. A trial's saved contrasts ('furlong contrasts TRIAL --add ...', or the
+window's Compare step) are estimated too; a
 --contrast of the same name replaces a saved one. Each contrast has its estimate, standard error
 (from the model, so missing plots count), t test on the error df and p; --adjust bonferroni or holm
 adjusts the p-values for the number of contrasts, --adjust scheffe protects contrasts chosen after
@@ -26,11 +27,16 @@ transformed trait. Split and strip plots are not supported yet.
 
 // parseContrastFlags reads the --contrast values of command cmd.
 func parseContrastFlags(cmd string, vals []string) ([]trial.Contrast, error) {
+	return parseContrastValues(cmd, "--contrast", vals)
+}
+
+// parseContrastValues reads contrasts given with flag name of command cmd.
+func parseContrastValues(cmd, name string, vals []string) ([]trial.Contrast, error) {
 	var out []trial.Contrast
 	for _, v := range vals {
 		c, err := trial.ParseContrast(v)
 		if err != nil {
-			return nil, usagef("%s: --contrast %s", cmd, err)
+			return nil, usagef("%s: %s: %s", cmd, name, err)
 		}
 		out = append(out, c)
 	}
