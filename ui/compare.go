@@ -57,6 +57,9 @@ type compareStep struct {
 	limits      bool
 	limitsWidth float32
 	limitsLevel float64
+	// eff is the percent efficacy of the trait shown against the
+	// untreated check, a sixth column of the means table (nil: none).
+	eff *analysis.Efficacy
 	// views are the further views beside "This trait" (compare_views.go).
 	views []compareView
 	root  fyne.CanvasObject
@@ -105,7 +108,7 @@ func newCompareStep(u *App) *compareStep {
 	c.warnings = widget.NewLabel("")
 	c.warnings.Wrapping = fyne.TextWrapWord
 	c.means = widget.NewTableWithHeaders(
-		func() (int, int) { return len(c.meanRows), 5 },
+		func() (int, int) { return len(c.meanRows), c.meanCols() },
 		func() fyne.CanvasObject { return compactCell("", false) },
 		c.updateMean)
 	c.means.ShowHeaderColumn = false
@@ -217,6 +220,11 @@ func (c *compareStep) keyForLabel(s string) string {
 // refresh follows trait changes; the analyser recomputes on data changes.
 func (c *compareStep) refresh(ch change) {
 	t := c.u.doc.t
+	for _, v := range c.views {
+		if r, ok := v.(interface{ refresh(change) }); ok {
+			r.refresh(ch)
+		}
+	}
 	if m := c.u.trialMethod(); m != c.method {
 		c.method = m // the trial's remembered method (opened, or undone)
 		c.methodSel.SetSelected(methodLabel(m))
@@ -258,6 +266,7 @@ func (c *compareStep) show(s *resultSet) {
 	c.anova.Objects = nil
 	c.statsBox.Objects = nil
 	c.meanRows = nil
+	c.eff = nil
 	c.limits = false
 	if msg := resultProblem(s, tr); msg != "" {
 		c.warnings.SetText(msg)
@@ -365,7 +374,15 @@ func (c *compareStep) showResult(r *analysis.Result) {
 		add("Plots analysed", fmt.Sprintf("%d (missing %d, excluded %d)", r.N, r.Missing, len(r.Excluded)))
 		c.showChecks(r)
 	}
-	c.warnings.SetText(strings.Join(r.Warnings, "\n"))
+	warn := slices.Clone(r.Warnings)
+	if e := r.Efficacy; e != nil {
+		w := "% efficacy against the untreated check " + e.Untreated + ": Abbott, (untreated − treatment)/untreated × 100 on the means"
+		if e.PreCount != "" {
+			w += "; H–T: Henderson–Tilton with the counts before (trait " + e.PreCount + ") and after"
+		}
+		warn = append(warn, w+". Caution: "+export.ProtectionCautionText())
+	}
+	c.warnings.SetText(strings.Join(warn, "\n"))
 	rows := slices.Clone(r.Means)
 	if c.u.prefs.meansOrder == orderBestFirst {
 		slices.SortStableFunc(rows, func(a, b analysis.Mean) int {
@@ -382,6 +399,7 @@ func (c *compareStep) showResult(r *analysis.Result) {
 		})
 	}
 	c.meanRows = rows
+	c.eff = r.Efficacy
 	c.shownDecimals = r.Decimals
 	c.limits = r.Transform != stats.NoTransform
 	c.limitsLevel = 1 - r.Alpha
@@ -414,7 +432,12 @@ func (c *compareStep) meansWidth() float32 {
 		}
 		w += cw
 	}
-	return w + float32(len(meansColumns))*theme.Padding() + theme.ScrollBarSize()
+	cols := len(meansColumns)
+	if c.eff != nil {
+		w += c.effWidth()
+		cols++
+	}
+	return w + float32(cols)*theme.Padding() + theme.ScrollBarSize()
 }
 
 // widthFloor lays out one object filling the container, with a minimum
@@ -447,6 +470,9 @@ func (c *compareStep) fitTreatmentColumn() {
 	}
 	c.treatWidth = min(w, treatColMax)
 	c.means.SetColumnWidth(0, c.treatWidth)
+	if c.eff != nil {
+		c.means.SetColumnWidth(5, c.effWidth())
+	}
 	c.fitLimitsColumn()
 }
 
@@ -494,6 +520,8 @@ func (c *compareStep) meanText(row, col int) string {
 			return m.LettersTukey
 		}
 		return m.LettersLSD
+	case 5:
+		return c.efficacyText(m.Treatment)
 	}
 	return ""
 }

@@ -28,7 +28,7 @@ type compareView interface {
 
 // newViews makes the further views of Compare, in the order of their tabs.
 func (c *compareStep) newViews() []compareView {
-	return []compareView{newPairsView(c), newVsCheckView(c), newEffectsView(c)}
+	return []compareView{newPairsView(c), newVsCheckView(c), newContrastsView(c), newEffectsView(c)}
 }
 
 // meansHeader is the heading of column col of the means table: the SE
@@ -37,7 +37,58 @@ func (c *compareStep) meansHeader(col int) string {
 	if col == 3 && c.limits {
 		return levelText(c.limitsLevel) + " limits"
 	}
+	if col == 5 {
+		if c.eff != nil && c.eff.PreCount != "" {
+			return "% efficacy A / H–T"
+		}
+		return "% efficacy"
+	}
 	return []string{"Treatment", "Plots", "Mean", "SE", "Letters"}[col]
+}
+
+// meanCols is the number of columns of the means table: a sixth for the
+// percent efficacy against the untreated check of a crop-protection trait.
+func (c *compareStep) meanCols() int {
+	if c.eff != nil {
+		return len(meansColumns) + 1
+	}
+	return len(meansColumns)
+}
+
+// effWidth is the width of the efficacy column.
+func (c *compareStep) effWidth() float32 {
+	w := cellTextWidth("untreated")
+	if c.eff != nil && c.eff.PreCount != "" {
+		w = max(w, fyne.MeasureText("% efficacy A / H–T", theme.TextSize(), fyne.TextStyle{Bold: true}).Width+3*theme.Padding())
+	}
+	return max(w, fyne.MeasureText("% efficacy", theme.TextSize(), fyne.TextStyle{Bold: true}).Width+3*theme.Padding())
+}
+
+// efficacyText is a treatment's percent efficacy (Abbott; with
+// pre-treatment counts, Abbott / Henderson–Tilton), "untreated" for the
+// untreated check itself.
+func (c *compareStep) efficacyText(code string) string {
+	e := c.eff
+	if e == nil {
+		return ""
+	}
+	if code == e.Untreated {
+		return "untreated"
+	}
+	row := e.Row(code)
+	if row == nil {
+		return ""
+	}
+	p := func(v *float64) string {
+		if v == nil {
+			return "–"
+		}
+		return fixed(*v, 1)
+	}
+	if e.PreCount != "" {
+		return p(row.Abbott) + " / " + p(row.HendersonTilton)
+	}
+	return p(row.Abbott)
 }
 
 // levelText is a confidence level as a percentage: 0.95 → "95 %".
