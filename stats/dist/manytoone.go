@@ -33,9 +33,14 @@ import (
 //     P(max|T_i| > c) = ∫ f_S(s) ∫ φ(w) [1 − Π_i (Φ(a_i) − Φ(b_i))] dw ds,
 //     a_i = (cs − λ_i w)/√(1−λ_i²),  b_i = (−cs − λ_i w)/√(1−λ_i²),
 //
-//     evaluated by adaptive Gauss–Kronrod quadrature in both variables, to
-//     an absolute error of about 1e-12 (Error reports 1e-11, a bound with
-//     room). Terms with the same λ are grouped, so large k costs little.
+//     The inner integral H(u) (over w, for u = c·s) is a fixed
+//     Gauss–Legendre rule on pieces scaled to the steepest λ, tabulated once
+//     per distribution as a piecewise Chebyshev interpolant in u; the outer
+//     integral over s is adaptive Gauss–Kronrod on that table, so every
+//     critical value and p-value after the first costs microseconds. Tests
+//     hold it to 1e-11 of nested adaptive quadrature in both variables
+//     (itself good to about 1e-12); Error reports 1e-11. Terms with the
+//     same λ are grouped, so large k costs little.
 //
 //   - Lattice: a general R (for example a blocked layout with missing plots)
 //     with k ≤ LatticeMaxK: the separation-of-variables transformation of
@@ -61,7 +66,7 @@ type ManyToOne struct {
 	chol, cholFactor []float64
 	sCache           [][]float64
 	tables           [2]*condTable
-	outerS, outerW   []float64
+	breaks           []float64
 	tol              float64
 	residual         float64
 }
@@ -214,49 +219,36 @@ func (d *ManyToOne) Quantile(alpha float64, twoSided bool) float64 {
 
 // ---- product structure ----
 
-// productSurvival integrates over S the conditional survival H(c·s).
+// productSurvival integrates over S the conditional survival H(c·s), with
+// H read from its Chebyshev table (cheap, so the outer integral can be
+// adaptive: H(c·s) changes on the scale 1/c in s, which no fixed rule
+// follows for every c).
 func (d *ManyToOne) productSurvival(c float64, twoSided bool) float64 {
-	h := func(u float64) float64 { return d.condSurvival(u, twoSided) }
-	if d.method == FactorMethod {
-		h = d.table(twoSided).at
-	}
+	t := d.table(twoSided)
 	if math.IsInf(d.nu, 1) {
-		return h(c)
+		return t.at(c)
 	}
-	if d.method == FactorMethod {
-		// Many critical values over one table: a fixed Gauss–Legendre
-		// rule over the S pieces, weights times densities computed once.
-		if d.outerS == nil {
-			d.outerS, d.outerW = outerRule(d.nu)
-		}
-		var sum float64
-		for i, s := range d.outerS {
-			sum += d.outerW[i] * h(c*s)
-		}
-		return sum
+	if d.breaks == nil {
+		d.breaks = sBreaks(d.nu)
 	}
-	breaks := sBreaks(d.nu)
-	f := func(s float64) pair {
-		return pair{math.Exp(logScaledChiDensity(s, d.nu)) * h(c*s), 0}
+	f := func(s float64) pair { return pair{sDensity(s, d.nu) * t.at(c*s), 0} }
+	var sum float64
+	for i := 1; i < len(d.breaks); i++ {
+		sum += adaptiveGK(f, d.breaks[i-1], d.breaks[i], outerRel, outerAbs, outerDepth).v
 	}
-	return integratePieces(f, breaks, 1e-11, 1e-15).v
+	return sum
 }
 
-// outerRule returns nodes and weights (times the density of S) of a
-// 24-point Gauss–Legendre rule on each piece between sBreaks.
-func outerRule(nu float64) (nodes, weights []float64) {
-	b := sBreaks(nu)
-	x := make([]float64, 24)
-	w := make([]float64, 24)
-	for i := 1; i < len(b); i++ {
-		quad.Legendre{}.FixedLocations(x, w, b[i-1], b[i])
-		for j := range x {
-			nodes = append(nodes, x[j])
-			weights = append(weights, w[j]*math.Exp(logScaledChiDensity(x[j], nu)))
-		}
-	}
-	return nodes, weights
-}
+// The outer integral's panels are accepted at a Kronrod–Gauss difference
+// of outerRel relative or outerAbs absolute; the Kronrod estimate is far
+// more accurate than that difference (the error of the 15-point rule on a
+// smooth panel is about the square of it). outerDepth bounds the
+// bisections of a piece.
+const (
+	outerRel   = 1e-11
+	outerAbs   = 1e-16
+	outerDepth = 24
+)
 
 // sBreaks returns break points for integrals over S = χ_ν/√ν covering all
 // but about 1e-16 of its probability.
@@ -269,49 +261,59 @@ func sBreaks(nu float64) []float64 {
 	return b
 }
 
-// condSurvival is 1 − P(all comparisons inside the limits | S = s) for
-// u = c·s: ∫ φ(w) [1 − Π_i (1 − q_i(w))] dw.
-func (d *ManyToOne) condSurvival(u float64, twoSided bool) float64 {
-	f := func(w float64) pair {
-		var logIn float64
-		for g, l := range d.lambda {
-			sd := math.Sqrt(1 - l*l)
-			q := normSurvival((u - l*w) / sd)
-			if twoSided {
-				q += normSurvival((u + l*w) / sd)
-			}
-			if q >= 1 {
-				return pair{phi(w), 0}
-			}
-			logIn += float64(d.count[g]) * math.Log1p(-q)
-		}
-		return pair{-math.Expm1(logIn) * phi(w), 0}
+// sDensity is the density of S = χ_ν/√ν. Below s = ½ it is computed
+// directly, 2a^a/Γ(a) s^(ν−1) e^(−a s²) with a = ν/2 (logScaledChiDensity
+// forms s² − 1 and loses s² below 1e-8, which matters when ν = 1 and the
+// density does not vanish at 0); there no large terms cancel unless ν is
+// large, and then the density is below e^(−0.6a).
+func sDensity(s, nu float64) float64 {
+	if s <= 0 {
+		return 0
 	}
-	return integratePieces(f, []float64{-9, -4, -1.5, 0, 1.5, 4, 9}, 1e-11, 1e-16).v
+	if s >= 0.5 {
+		return math.Exp(logScaledChiDensity(s, nu))
+	}
+	a := nu / 2
+	lg, _ := math.Lgamma(a)
+	return math.Exp(ln2 + a*math.Log(a) - lg + (nu-1)*math.Log(s) - a*s*s)
 }
 
-// wRule holds fixed Gauss–Legendre nodes over w and their weights times
-// φ(w), for tabulating condSurvival (smooth in w; 24 nodes on each of six
-// pieces reach about 1e-12).
-var wRuleX, wRuleW = func() ([]float64, []float64) {
-	b := []float64{-9, -5, -2.5, 0, 2.5, 5, 9}
+// wEnd bounds the inner integral over the common factor W: the standard
+// normal mass beyond ±wEnd is below 3e-19.
+const wEnd = 9.0
+
+// wRule returns Gauss–Legendre nodes over w ∈ [−wEnd, wEnd] and their
+// weights times φ(w), for the λ values of d: 24 nodes on each of equal
+// pieces no wider than 2.5 (ample for φ itself) nor than 2.5·min √(1−λ²)/|λ|,
+// the scale on which Φ((u − λw)/√(1−λ²)) changes with w.
+func wRule(lambda []float64) (xs, ws []float64) {
+	width := 2.5
+	for _, l := range lambda {
+		if l != 0 {
+			width = math.Min(width, 2.5*math.Sqrt(1-l*l)/math.Abs(l))
+		}
+	}
+	pieces := max(6, int(math.Ceil(2*wEnd/width)))
 	x := make([]float64, 24)
 	w := make([]float64, 24)
-	var xs, ws []float64
-	for i := 1; i < len(b); i++ {
-		quad.Legendre{}.FixedLocations(x, w, b[i-1], b[i])
+	for i := 0; i < pieces; i++ {
+		a := -wEnd + 2*wEnd*float64(i)/float64(pieces)
+		b := -wEnd + 2*wEnd*float64(i+1)/float64(pieces)
+		quad.Legendre{}.FixedLocations(x, w, a, b)
 		for j := range x {
 			xs = append(xs, x[j])
 			ws = append(ws, w[j]*phi(x[j]))
 		}
 	}
 	return xs, ws
-}()
+}
 
-// condSurvivalFixed is condSurvival by the fixed rule wRule.
-func (d *ManyToOne) condSurvivalFixed(u float64, twoSided bool) float64 {
+// condSurvival is 1 − P(all comparisons inside the limits | S = s) for
+// u = c·s, H(u) = ∫ φ(w) [1 − Π_i (1 − q_i(w))] dw, by the fixed rule
+// (xs, ws) from wRule.
+func (d *ManyToOne) condSurvival(u float64, twoSided bool, xs, ws []float64) float64 {
 	var sum float64
-	for i, w := range wRuleX {
+	for i, w := range xs {
 		var logIn float64
 		full := false
 		for g, l := range d.lambda {
@@ -327,10 +329,10 @@ func (d *ManyToOne) condSurvivalFixed(u float64, twoSided bool) float64 {
 			logIn += float64(d.count[g]) * math.Log1p(-q)
 		}
 		if full {
-			sum += wRuleW[i]
+			sum += ws[i]
 			continue
 		}
-		sum += -math.Expm1(logIn) * wRuleW[i]
+		sum += -math.Expm1(logIn) * ws[i]
 	}
 	return sum
 }
@@ -560,20 +562,20 @@ var primes = [...]int{2, 3, 5, 7, 11, 13, 17, 19, 23, 29, 31, 37, 41, 43, 47, 53
 	179, 181, 191, 193, 197, 199, 211, 223, 227, 229, 233, 239, 241, 251, 257, 263, 269, 271, 277, 281,
 	283, 293, 307, 311, 313, 317, 331, 337, 347, 349}
 
-// condTable is condSurvival tabulated on a uniform grid of u, read by local
-// 8-point Lagrange interpolation: the factor approximation evaluates it at
-// many points for many critical values, and condSurvival is analytic in u,
-// so the interpolation error (about h⁸ max|H⁽⁸⁾|/8!, below 1e-12 here) is
-// far below the approximation's own.
+// condTable is H(u) = condSurvival tabulated for u in [lo, hi] as a
+// piecewise Chebyshev interpolant (fitChebTable) whose pieces are bisected
+// until the last four coefficients sum to at most condTol: H is analytic in
+// u, so the interpolation error is far below that. Two-sided, only u ≥ 0
+// is needed (c ≥ 0 and s > 0). Beyond the ends H is within 1e-30 of its
+// value there (H(hEnd) ≤ 2k·Φ̄(12); one-sided, 1 − H(−hEnd) ≤ Φ(−12)).
 type condTable struct {
-	lo, h float64
-	v     []float64
+	lo, hi float64
+	t      *chebTable
 }
 
 const (
-	tableLo   = -12.0
-	tableHi   = 12.0
-	tableStep = 0.05
+	hEnd    = 12.0
+	condTol = 1e-14
 )
 
 func (d *ManyToOne) table(twoSided bool) *condTable {
@@ -584,45 +586,17 @@ func (d *ManyToOne) table(twoSided bool) *condTable {
 	if d.tables[i] != nil {
 		return d.tables[i]
 	}
-	n := int(math.Round((tableHi-tableLo)/tableStep)) + 1
-	t := &condTable{lo: tableLo, h: tableStep, v: make([]float64, n)}
-	for j := n - 1; j >= 0; j-- { // from the top, so mirrored values exist
-		u := tableLo + float64(j)*tableStep
-		if twoSided && u < 0 {
-			// Even extension: 1 − H vanishes like u^k at 0, so the extended
-			// function keeps k − 1 derivatives there.
-			t.v[j] = t.v[n-1-j]
-			continue
-		}
-		t.v[j] = d.condSurvivalFixed(u, twoSided)
+	xs, ws := wRule(d.lambda)
+	t := &condTable{lo: -hEnd, hi: hEnd}
+	if twoSided {
+		t.lo = 0
 	}
+	t.t = fitChebTable(func(u float64) float64 { return d.condSurvival(u, twoSided, xs, ws) },
+		t.lo, t.hi, chebPoints, condTol, 2, tableMaxBisect)
 	d.tables[i] = t
 	return t
 }
 
 func (t *condTable) at(u float64) float64 {
-	n := len(t.v)
-	x := (u - t.lo) / t.h
-	if x <= 0 {
-		return t.v[0]
-	}
-	if x >= float64(n-1) {
-		return t.v[n-1]
-	}
-	const pts = 8
-	first := int(math.Floor(x)) - pts/2 + 1
-	first = max(0, min(first, n-pts))
-	var sum float64
-	for a := 0; a < pts; a++ {
-		w := 1.0
-		xa := float64(first + a)
-		for b := 0; b < pts; b++ {
-			if b != a {
-				xb := float64(first + b)
-				w *= (x - xb) / (xa - xb)
-			}
-		}
-		sum += w * t.v[first+a]
-	}
-	return sum
+	return t.t.eval(math.Min(math.Max(u, t.lo), t.hi))
 }
