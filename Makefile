@@ -7,7 +7,7 @@ VERSION  := $(shell sed -n 's/^ *Version *= *"\(.*\)"/\1/p' FyneApp.toml)
 LDFLAGS  := -X main.version=$(VERSION)
 export LANG ?= C.UTF-8
 
-.PHONY: setup build demo test screenshots clean
+.PHONY: setup build demo test screenshots dist distcheck clean
 
 setup:
 	@bash .ci/setup.sh
@@ -24,5 +24,13 @@ test: setup
 screenshots: build
 	@bash .ci/screenshots.sh $(BIN) ui/screenshots
 
+# The Linux and Windows packages under dist/ (see DEVELOPERS.md, "Making a release").
+dist: setup
+	@bash .ci/dist.sh
+
+# make dist, then the packages' smoke tests (the Windows program under wine).
+distcheck: dist
+	@bash .ci/distcheck.sh
+
 clean:
-	rm -rf bin
+	rm -rf bin dist

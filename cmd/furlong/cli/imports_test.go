@@ -33,6 +33,7 @@ var importRules = []struct {
 	{"furlong/ui", []string{"furlong/"}, []string{"fyne.io/fyne/v2", "gonum.org/v1/plot", "gonum.org/v1/gonum", "codeberg.org/go-fonts/liberation"}},
 	{"furlong/cmd/furlong/cli", []string{"furlong/trial", "furlong/stats", "furlong/export", "furlong/sampledata"}, []string{"gonum.org/v1/plot"}},
 	{"furlong/cmd/furlong", []string{"furlong/"}, []string{"fyne.io/fyne/v2"}},
+	{"furlong/cmd/disttool", nil, []string{"github.com/xuri/excelize/v2"}},
 }
 
 // TestImportRules walks every package of the module with go/build and fails
