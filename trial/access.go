@@ -2,6 +2,7 @@ package trial
 
 import (
 	"fmt"
+	"slices"
 	"sync"
 	"time"
 	"weak"
@@ -407,6 +408,8 @@ func (t *Trial) Clone() *Trial {
 	c.Factors = cloneFactors(t.Factors)
 	c.Treatments = cloneTreatments(t.Treatments)
 	c.Traits = cloneTraits(t.Traits)
+	c.Operations = cloneOperations(t.Operations)
+	c.Analysis.Contrasts = slices.Clone(t.Analysis.Contrasts)
 	c.Plots = make([]Plot, len(t.Plots))
 	for i, p := range t.Plots {
 		p.Exclusions = append([]Exclusion(nil), p.Exclusions...)

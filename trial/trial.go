@@ -40,6 +40,10 @@ type Trial struct {
 
 	// Analysis holds the analysis settings remembered with the trial.
 	Analysis Analysis
+
+	// Operations is the trial's log of what was done, in date order:
+	// sowing, applications, assessments (operations.go).
+	Operations []Operation
 }
 
 // Analysis holds the settings of a trial's analysis that every view of it

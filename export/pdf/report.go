@@ -70,6 +70,9 @@ func WriteReport(ctx context.Context, w io.Writer, t *trial.Trial, results []ana
 	traits := export.ReportTraits(t, opts.Traits)
 	sum := export.NewSummary(t, results, opts.Traits, opts.Method, opts.Alpha)
 	total := 4 + len(traits)
+	if len(t.Operations) > 0 {
+		total++
+	}
 	done := 0
 	step := func() error {
 		done++
@@ -103,6 +106,12 @@ func WriteReport(ctx context.Context, w io.Writer, t *trial.Trial, results []ana
 	}
 	if err := step(); err != nil {
 		return err
+	}
+	if len(t.Operations) > 0 {
+		writeOperations(d, t)
+		if err := step(); err != nil {
+			return err
+		}
 	}
 	return d.finish(w)
 }
@@ -198,6 +207,10 @@ func writeCover(d *doc, t *trial.Trial, sum *export.Summary, opts ReportOptions)
 		rows = append(rows, [2]string{"Excluded plots", "none"})
 	} else {
 		rows = append(rows, [2]string{"Excluded plots", fmt.Sprintf("%d: %s", len(excluded), strings.Join(excluded, ", "))})
+	}
+	if n := len(t.Operations); n > 0 {
+		rows = append(rows, [2]string{"Log of operations", fmt.Sprintf("%d entries, from %s to %s (last page)", n,
+			t.Operations[0].Date.Format("2 January 2006"), t.Operations[n-1].Date.Format("2 January 2006"))})
 	}
 	if t.Random.Done.IsZero() {
 		rows = append(rows, [2]string{"Randomisation", "not randomised"})
@@ -678,4 +691,31 @@ func meansChart(d *doc, t *trial.Trial, a *analysis.Result, opts ReportOptions) 
 	}
 	d.SetY(d.GetY() + h + 2)
 	return nil
+}
+
+// writeOperations prints the trial's log of operations, in date order, with
+// the crop-protection cautions when it records an application.
+func writeOperations(d *doc, t *trial.Trial) {
+	d.AddPage()
+	d.heading("Log of operations", 15)
+	d.note("What was done on the trial, day by day, as recorded: products and rates as typed from their labels, water volume, equipment, the weather at application (air temperature, wind speed and direction, relative humidity), the growth stage and who applied or assessed.")
+	if export.HasApplication(t.Operations) {
+		d.note("Caution: " + export.ProtectionCautionText())
+	}
+	d.Ln(2)
+	tb := table{heads: []string{"Date", "Operation", "Treatments", "Details"}, right: []bool{false, false, false, false}, maxCol: 110}
+	for _, o := range t.Operations {
+		// One line per part of the details (product and rate; equipment;
+		// weather; stage; ...), so that nothing is cut off.
+		parts := strings.Split(orDash(export.OperationDetails(o)), "; ")
+		for k, part := range parts {
+			row := []string{"", "", "", part}
+			if k == 0 {
+				row = []string{o.Date.Format("2006-01-02"), o.Kind.Title(), o.TreatmentsText(), part}
+			}
+			tb.rows = append(tb.rows, row)
+			tb.bold = append(tb.bold, false)
+		}
+	}
+	d.table(tb)
 }

@@ -46,6 +46,9 @@ const (
 	SummarySheet  = "Summary"
 	DataSheet     = "Data"
 	FieldMapSheet = "Field map"
+	// OperationsSheet is the trial's log of operations, after the field
+	// map, when the log has entries.
+	OperationsSheet = "Operations"
 )
 
 type report struct {
@@ -109,11 +112,17 @@ func WriteReport(ctx context.Context, w io.Writer, t *trial.Trial, results []ana
 	// "Data" does not take their place.
 	r.names.name(DataSheet, "")
 	r.names.name(FieldMapSheet, "")
+	if len(t.Operations) > 0 {
+		r.names.name(OperationsSheet, "")
+	}
 	for i := range r.traits {
 		tr := r.traits[i]
 		add(tr.Name, tr.Key, func(name string) error { return r.writeTrait(name, tr) })
 	}
 	steps = append(steps, step{DataSheet, r.writeData}, step{FieldMapSheet, r.writeFieldMap})
+	if len(t.Operations) > 0 {
+		steps = append(steps, step{OperationsSheet, r.writeOperations})
+	}
 
 	for i, s := range steps {
 		if err := ctx.Err(); err != nil {
@@ -257,6 +266,10 @@ func (r *report) writeCover(name string) error {
 		line("Excluded plots", "none")
 	} else {
 		line("Excluded plots", fmt.Sprintf("%d: %s", len(excluded), strings.Join(excluded, ", ")))
+	}
+	if n := len(t.Operations); n > 0 {
+		line("Log of operations", fmt.Sprintf("%d entries, from %s to %s: see the %s sheet", n,
+			t.Operations[0].Date.Format("2 January 2006"), t.Operations[n-1].Date.Format("2 January 2006"), OperationsSheet))
 	}
 	row++
 	switch {

@@ -106,7 +106,8 @@ type fieldError struct {
 	err  error
 }
 
-// decodeV1 reads a file of version 1 to 4. Versions 1 to 3 had no saved
+// decodeV1 reads a file of version 1 to 5. Versions 1 to 4 had no log of
+// operations: such a member in them is ignored. Versions 1 to 3 had no saved
 // contrasts: such a member in them is ignored, as unknown members are. Versions 1 and 2 had no
 // treatment factors: members of version 3 in such a file are ignored, as
 // unknown members are. Version 1 had no analysis
@@ -120,6 +121,9 @@ func decodeV1(data []byte, version int) (*trial.Trial, error) {
 	}
 	if f.Trial == nil {
 		return nil, at(data, "trial", errorf(ErrWrongType, "the file holds no trial"))
+	}
+	if version < 5 {
+		f.Trial.Operations = nil
 	}
 	if version < 4 && f.Trial.Analysis != nil {
 		f.Trial.Analysis.Contrasts = nil
@@ -207,6 +211,13 @@ func fromV1(ft *trialV1) (*trial.Trial, *fieldError) {
 	}
 	if ft.Analysis != nil {
 		t.Analysis.Contrasts = decodeContrasts(ft.Analysis.Contrasts)
+	}
+	if ops, oe := decodeOperations(ft.Operations); oe != nil {
+		if fe == nil {
+			fe = oe
+		}
+	} else {
+		t.Operations = ops
 	}
 	if len(ft.Treatments) > 0 {
 		t.Treatments = make([]trial.Treatment, len(ft.Treatments))

@@ -91,6 +91,7 @@ func toV1(t *trial.Trial) (*trialV1, error) {
 		},
 		Analysis:   &analysisV2{MeanSeparation: t.MeanSeparation(), Contrasts: encodeContrasts(t.Analysis.Contrasts)},
 		Treatments: make([]treatmentV1, len(t.Treatments)),
+		Operations: encodeOperations(t.Operations),
 		Plots:      make([]plotV1, len(t.Plots)),
 		Traits:     make([]traitV1, len(t.Traits)),
 	}

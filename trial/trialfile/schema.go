@@ -7,7 +7,7 @@ const Format = "furlong-trial"
 
 // Version is the newest file format version this package reads, and the
 // one it writes.
-const Version = 4
+const Version = 5
 
 // The version 3 shape (also read for versions 1 and 2, which lack the
 // members marked "version 2" and "version 3"). Field order here is the
@@ -37,6 +37,8 @@ type trialV1 struct {
 	Factors       []factorV3    `json:"factors,omitempty"` // version 3
 	Plots         []plotV1      `json:"plots"`
 	Traits        []traitV1     `json:"traits"`
+	// Operations (version 5): the log of what was done (operations.go).
+	Operations []operationV5 `json:"operations,omitempty"`
 }
 
 type siteV1 struct {

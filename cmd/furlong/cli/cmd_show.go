@@ -85,6 +85,10 @@ func writeShow(ctx context.Context, w io.Writer, t *trial.Trial) error {
 		line("Randomised", "not yet")
 	}
 	line("Notes", t.Notes)
+	if n := len(t.Operations); n > 0 {
+		line("Log", fmt.Sprintf("%d operations, %s to %s ('furlong log' lists them)", n,
+			t.Operations[0].Date.Format("2 Jan 2006"), t.Operations[n-1].Date.Format("2 Jan 2006")))
+	}
 
 	checks := "no check"
 	switch {

@@ -146,6 +146,23 @@ func build() (*trial.Trial, error) {
 	for k := range t.Traits {
 		t.Traits[k].Assessed = time.Date(2026, 8, 21, 0, 0, 0, 0, time.UTC)
 	}
+	// The season's log: what the farm crew did, as they would record it.
+	day := func(m time.Month, d int) time.Time { return time.Date(2026, m, d, 0, 0, 0, 0, time.UTC) }
+	for _, op := range []trial.Operation{
+		{Kind: trial.OpSowing, Date: day(time.April, 2), Equipment: "plot drill, 8 rows", Notes: "350 seeds/m², 3 cm deep, into a fine seedbed", Assessor: "Hollowmere trials team"},
+		{Kind: trial.OpOther, Date: day(time.May, 6), Product: "granular nitrogen top-dressing (farm stock)", Rate: ptr(60), RateUnit: "kg N/ha",
+			Equipment: "hand spreader", GrowthStage: "25", Scale: "BBCH", Notes: "whole trial, as the surrounding field"},
+		{Kind: trial.OpAssessment, Date: day(time.July, 10), Traits: []string{"ht"}, GrowthStage: "69", Scale: "BBCH", Assessor: "Hollowmere trials team",
+			Notes: "plot 206's reading lost (logger battery)"},
+		{Kind: trial.OpAssessment, Date: day(time.August, 14), Traits: []string{"lodg"}, GrowthStage: "87", Scale: "BBCH", Assessor: "Hollowmere trials team",
+			Notes: "plot 403 grazed by deer at heading"},
+		{Kind: trial.OpHarvest, Date: day(time.August, 21), Traits: []string{"wt", "mst"}, Equipment: "plot combine with weigh bin and moisture meter",
+			Notes: "12 m² harvested per plot"},
+	} {
+		if err := t.AddOperation(op); err != nil {
+			return nil, err
+		}
+	}
 	t.Modified = time.Date(2026, 8, 24, 16, 0, 0, 0, time.UTC)
 	return t, t.Validate()
 }
