@@ -128,3 +128,48 @@ func TestManyToOneOrthant(t *testing.T) {
 		}
 	}
 }
+
+func TestManyToOneLatticeQuantile(t *testing.T) {
+	t.Parallel()
+	// The lattice method's critical value comes from Newton steps started
+	// at the one-factor critical value; at it the lattice survival must be
+	// alpha to within the stated error. The matrices: an RCBD with 10
+	// entries in 4 blocks and two plots missing, as in the demo trial
+	// (common practice: (X'X)⁻¹ of the additive model), where the one-factor
+	// critical value is already within the error, and the 4 × 4 matrix of
+	// TestManyToOneLatticeGeneral, far from one-factor, where it is not.
+	general := []float64{
+		1, 0.5, 0.45, 0.5,
+		0.5, 1, 0.62, 0.4,
+		0.45, 0.62, 1, 0.5,
+		0.5, 0.4, 0.5, 1,
+	}
+	for _, tc := range []struct {
+		r      []float64
+		k      int
+		nu     float64
+		moves  bool
+		alphas []float64
+		sides  []bool
+	}{
+		{rcbdCorr(10, 4, [][2]int{{1, 0}, {7, 2}}), 9, 25, false, []float64{0.05, 0.01}, []bool{true, false}},
+		{general, 4, 12, true, []float64{0.05}, []bool{true}},
+	} {
+		d, err := NewManyToOne(tc.r, tc.k, tc.nu, 0)
+		if err != nil || d.Method() != LatticeMethod {
+			t.Fatalf("%v %v", err, d.Method())
+		}
+		for _, alpha := range tc.alphas {
+			for _, two := range tc.sides {
+				c := d.Quantile(alpha, two)
+				if p := d.Survival(c, two); math.Abs(p-alpha) > d.Error() {
+					t.Errorf("k=%d alpha=%g two=%v: critical %.8f has survival %.9f", tc.k, alpha, two, c, p)
+				}
+				f := bisectQuantile(alpha, two, func(c float64) float64 { return d.productSurvival(c, two) })
+				if tc.moves && math.Abs(f-c) < 1e-4 {
+					t.Errorf("k=%d alpha=%g two=%v: critical %.8f is the one-factor one", tc.k, alpha, two, c)
+				}
+			}
+		}
+	}
+}
