@@ -25,6 +25,7 @@ type setupStep struct {
 	*treatmentsTab
 	*designTab
 	*traitsTab
+	log *logTab
 }
 
 func newSetupStep(u *App) *setupStep {
@@ -33,12 +34,14 @@ func newSetupStep(u *App) *setupStep {
 		treatmentsTab: newTreatmentsTab(u),
 		designTab:     newDesignTab(u),
 		traitsTab:     newTraitsTab(u),
+		log:           newLogTab(u),
 	}
 	tabs := container.NewAppTabs(
 		container.NewTabItem("Details", s.detailsTab.content),
 		container.NewTabItem("Treatments", s.treatmentsTab.content),
 		container.NewTabItem("Design", s.designTab.content),
 		container.NewTabItem("Traits", s.traitsTab.content),
+		container.NewTabItem("Log", s.log.content),
 	)
 	s.problems = widget.NewLabel("")
 	s.problems.Wrapping = fyne.TextWrapWord
@@ -56,6 +59,9 @@ func (s *setupStep) refresh(c change) {
 	t := s.t()
 	if c&(changeDetails|changeFile) != 0 && c != changeDetails {
 		s.detailsTab.load(t)
+	}
+	if c&(changeDetails|changeFile|changeStructure) != 0 {
+		s.log.load(t)
 	}
 	if c&changeStructure != 0 {
 		s.trtList.Refresh()
