@@ -70,7 +70,7 @@ type ManyToOne struct {
 	chol, cholFactor []float64
 	sCache           [][]float64
 	tables           [2]*condTable
-	breaks           []float64
+	panels           []outerPanel
 	tol              float64
 	residual         float64
 }
@@ -235,9 +235,12 @@ func bisectQuantile(alpha float64, twoSided bool, sf func(float64) float64) floa
 // one-factor structure (exact and cheap), Newton steps with that
 // structure's slope. The general survival differs from the one-factor one
 // by a small smooth function, so each step shrinks the error by the ratio
-// of the slopes; it stops when Survival(c) is within a quarter of the
-// lattice tolerance of alpha or the step is below 1e-7, and otherwise
-// (at most latticeNewton evaluations) returns the best c seen.
+// of the slopes; it stops when Survival(c) is within 1e-9 of alpha or the
+// step is below 1e-9, and otherwise (at most latticeNewton evaluations)
+// returns the best c seen. Survival is a deterministic function of c (the
+// points are fixed), so this is the root a bisection of it would find, and
+// the intervals agree with the p-values (an interval excludes 0 exactly
+// when p < alpha) except within 1e-9 of alpha.
 func (d *ManyToOne) latticeQuantile(alpha float64, twoSided bool) float64 {
 	c := bisectQuantile(alpha, twoSided, func(c float64) float64 { return clamp01(d.productSurvival(c, twoSided)) })
 	best, bestGap := c, math.Inf(1)
@@ -246,7 +249,7 @@ func (d *ManyToOne) latticeQuantile(alpha float64, twoSided bool) float64 {
 		if math.Abs(gap) < bestGap {
 			best, bestGap = c, math.Abs(gap)
 		}
-		if math.Abs(gap) <= d.tol/4 {
+		if math.Abs(gap) <= 1e-9 {
 			break
 		}
 		const h = 1e-4
@@ -256,7 +259,7 @@ func (d *ManyToOne) latticeQuantile(alpha float64, twoSided bool) float64 {
 		}
 		step := gap / slope
 		c -= step
-		if math.Abs(step) <= 1e-7 {
+		if math.Abs(step) <= 1e-9 {
 			// Not evaluated at the new c; the step is below any
 			// resolution the lattice's p-values have.
 			return c
@@ -273,21 +276,95 @@ const latticeNewton = 8
 // productSurvival integrates over S the conditional survival H(c·s), with
 // H read from its Chebyshev table (cheap, so the outer integral can be
 // adaptive: H(c·s) changes on the scale 1/c in s, which no fixed rule
-// follows for every c).
+// follows for every c). The first level of the adaptive rule, the 15
+// Kronrod nodes of each piece between sBreaks and the density of S there,
+// is the same for every c and kept (outerPanels); a piece is bisected only
+// when its Kronrod–Gauss difference asks for it, exactly as adaptiveGK
+// would.
 func (d *ManyToOne) productSurvival(c float64, twoSided bool) float64 {
 	t := d.table(twoSided)
 	if math.IsInf(d.nu, 1) {
 		return t.at(c)
 	}
-	if d.breaks == nil {
-		d.breaks = sBreaks(d.nu)
+	if d.panels == nil {
+		d.panels = outerPanels(d.nu)
 	}
 	f := func(s float64) pair { return pair{sDensity(s, d.nu) * t.at(c*s), 0} }
 	var sum float64
-	for i := 1; i < len(d.breaks); i++ {
-		sum += adaptiveGK(f, d.breaks[i-1], d.breaks[i], outerRel, outerAbs, outerDepth).v
+	for i := range d.panels {
+		p := &d.panels[i]
+		fc := p.dens[7] * t.at(c*p.x[7])
+		kv := gk15w[7] * fc
+		gv := g7w[3] * fc
+		for j := 0; j < 7; j++ {
+			sv := p.dens[j]*t.at(c*p.x[j]) + p.dens[14-j]*t.at(c*p.x[14-j])
+			kv += gk15w[j] * sv
+			if j%2 == 1 {
+				gv += g7w[j/2] * sv
+			}
+		}
+		kv *= p.h
+		gv *= p.h
+		if math.Abs(kv-gv) <= math.Max(outerAbs, outerRel*math.Abs(kv)) {
+			sum += kv
+			continue
+		}
+		mid := 0.5 * (p.a + p.b)
+		sum += adaptiveGK(f, p.a, mid, outerRel, outerAbs, outerDepth-1).v +
+			adaptiveGK(f, mid, p.b, outerRel, outerAbs, outerDepth-1).v
 	}
 	return sum
+}
+
+// outerPanel is one piece of the outer integral with its 15 Kronrod nodes
+// (x[7] the centre, x[j] and x[14−j] the pair c ∓ h·gk15x[j]) and the
+// density of S at them.
+type outerPanel struct {
+	a, b, h float64
+	x, dens [15]float64
+}
+
+// outerPanels splits each piece between sBreaks, as adaptiveGK would, until
+// the 15-point rule integrates the density of S alone to the outer
+// tolerance: then only H(c·s) can ask for more, and only where it changes
+// fast.
+func outerPanels(nu float64) []outerPanel {
+	b := sBreaks(nu)
+	var ps []outerPanel
+	var split func(a, b float64, depth int)
+	split = func(a, b float64, depth int) {
+		p := outerPanel{a: a, b: b, h: 0.5 * (b - a)}
+		c := 0.5 * (a + b)
+		for j := 0; j < 7; j++ {
+			p.x[j] = c - p.h*gk15x[j]
+			p.x[14-j] = c + p.h*gk15x[j]
+		}
+		p.x[7] = c
+		for j := range p.x {
+			p.dens[j] = sDensity(p.x[j], nu)
+		}
+		kv := gk15w[7] * p.dens[7]
+		gv := g7w[3] * p.dens[7]
+		for j := 0; j < 7; j++ {
+			sv := p.dens[j] + p.dens[14-j]
+			kv += gk15w[j] * sv
+			if j%2 == 1 {
+				gv += g7w[j/2] * sv
+			}
+		}
+		if depth > 0 && math.Abs(kv-gv)*p.h > math.Max(outerAbs, outerRel*math.Abs(kv*p.h)) {
+			split(a, c, depth-1)
+			split(c, b, depth-1)
+			return
+		}
+		ps = append(ps, p)
+	}
+	for i := 1; i < len(b); i++ {
+		if b[i] > b[i-1] {
+			split(b[i-1], b[i], 12)
+		}
+	}
+	return ps
 }
 
 // The outer integral's panels are accepted at a Kronrod–Gauss difference
@@ -361,23 +438,41 @@ func wRule(lambda []float64) (xs, ws []float64) {
 
 // condSurvival is 1 − P(all comparisons inside the limits | S = s) for
 // u = c·s, H(u) = ∫ φ(w) [1 − Π_i (1 − q_i(w))] dw, by the fixed rule
-// (xs, ws) from wRule.
+// (xs, ws) from wRule. Two-sided, q_i(w) = A_i(w) + A_i(−w) with
+// A_i(w) = Φ̄((u − λ_i w)/√(1−λ_i²)); the rule is symmetric (node j and
+// node n−1−j are ±w), so each A is computed once.
 func (d *ManyToOne) condSurvival(u float64, twoSided bool, xs, ws []float64) float64 {
+	n := len(xs)
+	groups := len(d.lambda)
+	var tail []float64 // A_g at node j, j*groups + g
+	if twoSided {
+		tail = make([]float64, n*groups)
+		for j, w := range xs {
+			for g, l := range d.lambda {
+				tail[j*groups+g] = normSurvival((u - l*w) / math.Sqrt(1-l*l))
+			}
+		}
+	}
 	var sum float64
 	for i, w := range xs {
 		var logIn float64
 		full := false
 		for g, l := range d.lambda {
-			sd := math.Sqrt(1 - l*l)
-			q := normSurvival((u - l*w) / sd)
+			var q float64
 			if twoSided {
-				q += normSurvival((u + l*w) / sd)
+				q = tail[i*groups+g] + tail[(n-1-i)*groups+g]
+			} else {
+				q = normSurvival((u - l*w) / math.Sqrt(1-l*l))
 			}
 			if q >= 1 {
 				full = true
 				break
 			}
-			logIn += float64(d.count[g]) * math.Log1p(-q)
+			if q < 1e-17 {
+				logIn -= float64(d.count[g]) * q // log1p(−q) = −q to double precision
+			} else {
+				logIn += float64(d.count[g]) * math.Log1p(-q)
+			}
 		}
 		if full {
 			sum += ws[i]
@@ -638,18 +733,21 @@ var primes = [...]int{2, 3, 5, 7, 11, 13, 17, 19, 23, 29, 31, 37, 41, 43, 47, 53
 
 // condTable is H(u) = condSurvival tabulated for u in [lo, hi] as a
 // piecewise Chebyshev interpolant (fitChebTable) whose pieces are bisected
-// until the last four coefficients sum to at most condTol: H is analytic in
-// u, so the interpolation error is far below that. Two-sided, only u ≥ 0
-// is needed (c ≥ 0 and s > 0). Beyond the ends H is within 1e-30 of its
-// value there (H(hEnd) ≤ 2k·Φ̄(12); one-sided, 1 − H(−hEnd) ≤ Φ(−12)).
+// until the last four coefficients sum to at most condTol (the factor
+// approximation: factorCondTol): H is analytic in u, so the interpolation
+// error is far below that. Two-sided, only u ≥ 0 is needed (c ≥ 0 and
+// s > 0). hi is where the bound k·Φ̄(u) (two-sided 2k·Φ̄(u)) of H falls to
+// 1e-20, and one-sided lo = −9.3, where 1 − H(u) ≤ Φ(u) is below 1e-20;
+// beyond the ends H is read at the end, within 1e-20 of its value.
 type condTable struct {
 	lo, hi float64
 	t      *chebTable
 }
 
 const (
-	hEnd    = 12.0
-	condTol = 1e-14
+	condTol       = 1e-14
+	factorCondTol = 1e-11
+	condEndTail   = 1e-20
 )
 
 func (d *ManyToOne) table(twoSided bool) *condTable {
@@ -661,12 +759,27 @@ func (d *ManyToOne) table(twoSided bool) *condTable {
 		return d.tables[i]
 	}
 	xs, ws := wRule(d.lambda)
-	t := &condTable{lo: -hEnd, hi: hEnd}
+	t := &condTable{lo: -9.3}
+	bound := float64(d.k)
 	if twoSided {
 		t.lo = 0
+		bound *= 2
+	}
+	lo, hi := 0.0, 40.0
+	for hi-lo > 1e-3 {
+		if mid := (lo + hi) / 2; bound*normSurvival(mid) > condEndTail {
+			lo = mid
+		} else {
+			hi = mid
+		}
+	}
+	t.hi = hi
+	tol := condTol
+	if d.method == FactorMethod {
+		tol = factorCondTol
 	}
 	t.t = fitChebTable(func(u float64) float64 { return d.condSurvival(u, twoSided, xs, ws) },
-		t.lo, t.hi, chebPoints, condTol, 2, tableMaxBisect)
+		t.lo, t.hi, chebPoints, tol, 1, tableMaxBisect)
 	d.tables[i] = t
 	return t
 }

@@ -2,6 +2,7 @@ package dist
 
 import (
 	"math"
+	"math/rand/v2"
 	"testing"
 
 	"gonum.org/v1/gonum/mat"
@@ -81,4 +82,27 @@ func BenchmarkVsCheckDemoProduct(b *testing.B) {
 // in 4 blocks, two plots missing (no product structure).
 func BenchmarkVsCheckDemoGeneral(b *testing.B) {
 	benchmarkVsCheck(b, rcbdCorr(10, 4, [][2]int{{1, 0}, {7, 2}}), 9, 25, LatticeMethod)
+}
+
+// missingPlots returns every {treatment, block} of a t × b RCBD whose
+// seeded uniform draw falls below share (never treatment 0, the check, so
+// the comparisons keep a full check).
+func missingPlots(t, b int, share float64) [][2]int {
+	rng := rand.New(rand.NewPCG(7, 11))
+	var m [][2]int
+	for i := 1; i < t; i++ {
+		for j := 0; j < b; j++ {
+			if rng.Float64() < share {
+				m = append(m, [2]int{i, j})
+			}
+		}
+	}
+	return m
+}
+
+// BenchmarkVsCheckFactor300 is the speed case inside stats/dist:
+// 300 entries in 4 blocks with 2% of plots missing (the factor
+// approximation), a two-sided and a one-sided p for each comparison.
+func BenchmarkVsCheckFactor300(b *testing.B) {
+	benchmarkVsCheck(b, rcbdCorr(300, 4, missingPlots(300, 4, 0.02)), 299, 897-24, FactorMethod)
 }

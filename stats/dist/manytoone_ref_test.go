@@ -173,3 +173,17 @@ func TestManyToOneLatticeQuantile(t *testing.T) {
 		}
 	}
 }
+
+func TestWRuleSymmetric(t *testing.T) {
+	t.Parallel()
+	// condSurvival reads node n−1−j as the mirror image of node j.
+	for _, lam := range [][]float64{{0.7071}, {0.3, 0.95}, {0}} {
+		xs, ws := wRule(lam)
+		n := len(xs)
+		for j := range xs {
+			if math.Abs(xs[j]+xs[n-1-j]) > 1e-14 || math.Abs(ws[j]-ws[n-1-j]) > 1e-16 {
+				t.Fatalf("λ %v: node %d (%g, %g) and %d (%g, %g) are not mirror images", lam, j, xs[j], ws[j], n-1-j, xs[n-1-j], ws[n-1-j])
+			}
+		}
+	}
+}
