@@ -26,6 +26,10 @@ go test -count=1 -race -timeout 30m ./stats/... ./trial/... ./export/... ./ui/..
 step "real window: typing into the Record grid (Xvfb + xdotool)"
 bash .ci/realwindow.sh
 
+step "packages: make dist, then the Linux tarball and furlong.exe under wine (.ci/distcheck.sh)"
+bash .ci/dist.sh
+bash .ci/distcheck.sh
+
 step "fuzz smoke"
 fuzz() { # package, target, time
   go test -run='^$' -fuzz="^$2\$" -fuzztime="$3" "$1"
