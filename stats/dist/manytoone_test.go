@@ -174,8 +174,11 @@ func TestManyToOneMonteCarlo(t *testing.T) {
 // cubeInside is P(|Z_i| ≤ u for all i) for a 4-variate standard normal
 // with correlation matrix r, by a tensor Gauss–Legendre rule (32 nodes a
 // side) on the density itself over the cube.
-func cubeInside(u float64, r []float64) float64 {
-	const k, nodes = 4, 32
+func cubeInside(u float64, r []float64) float64 { return cubeInsideN(u, r, 32) }
+
+// cubeInsideN is cubeInside with the given number of nodes a side.
+func cubeInsideN(u float64, r []float64, nodes int) float64 {
+	const k = 4
 	var ch mat.Cholesky
 	if !ch.Factorize(mat.NewSymDense(k, append([]float64(nil), r...))) {
 		panic("not positive definite")
@@ -191,6 +194,7 @@ func cubeInside(u float64, r []float64) float64 {
 	var sum float64
 	var z [k]float64
 	var idx [k]int
+
 	for {
 		wt := 1.0
 		for i := 0; i < k; i++ {
