@@ -68,3 +68,47 @@ func HasApplication(ops []trial.Operation) bool {
 	}
 	return false
 }
+
+// SeriesOf is the assessment series a trait belongs to: its own series
+// for an assessment, the series it is computed from for an AUDPC trait; ""
+// otherwise. The window shows the series over the season beside any such
+// trait.
+func SeriesOf(t *trial.Trial, key string) string {
+	tr := t.Trait(key)
+	switch {
+	case tr == nil:
+		return ""
+	case tr.Assessment != nil && tr.Assessment.Series != "":
+		return tr.Assessment.Series
+	case tr.Derived != nil && (tr.Derived.Kind == trial.AUDPC || tr.Derived.Kind == trial.AUDPCStandard):
+		return tr.Derived.Series
+	}
+	return ""
+}
+
+// ProgressSheetSeries is the series whose chart over the season a report
+// puts on the sheet or page of trait key, "" for none: once per series,
+// on its first AUDPC trait among the reported ones (keys), else on its
+// last reported assessment.
+func ProgressSheetSeries(t *trial.Trial, key string, keys []string) string {
+	s := SeriesOf(t, key)
+	if s == "" {
+		return ""
+	}
+	var audpc, last string
+	for _, k := range keys {
+		if SeriesOf(t, k) != s {
+			continue
+		}
+		if tr := t.Trait(k); tr.Derived != nil && audpc == "" {
+			audpc = k
+		}
+		if tr := t.Trait(k); tr.Assessment != nil {
+			last = k
+		}
+	}
+	if audpc == key || (audpc == "" && last == key) {
+		return s
+	}
+	return ""
+}

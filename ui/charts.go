@@ -11,9 +11,11 @@ import (
 	"fyne.io/fyne/v2/widget"
 	"gonum.org/v1/plot"
 
+	"furlong/export"
 	"furlong/export/chart"
 	"furlong/stats/meansep"
 	"furlong/trial"
+	"furlong/trial/analysis"
 )
 
 // chartMinSize is the smallest a chart is shown: its text stays at the
@@ -48,6 +50,16 @@ func drawCharts(t *trial.Trial, tr traitResult, m meansep.Method, order chart.Or
 		}},
 		{"Residuals", func() (*plot.Plot, error) { return chart.Residuals(t, tr.res) }},
 		{"Normal Q-Q", func() (*plot.Plot, error) { return chart.QQ(t, tr.res) }},
+	}
+	if series := export.SeriesOf(t, tr.key); series != "" {
+		// An assessment (or its AUDPC): the whole series over the season.
+		makers = append(makers, maker{"Over the season", func() (*plot.Plot, error) {
+			pr, err := analysis.ProgressOf(t, series)
+			if err != nil {
+				return nil, err
+			}
+			return chart.Progress(t, pr)
+		}})
 	}
 	out := make([]chartImage, 0, len(makers))
 	for _, mk := range makers {

@@ -10,6 +10,7 @@ import (
 	"strings"
 	"time"
 
+	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
 
 	"furlong/export"
@@ -569,6 +570,28 @@ func writeTrait(d *doc, t *trial.Trial, tr trial.Trait, results []analysis.Outco
 		d.table(tb)
 	}
 
+	// The assessment series over the season, once per series.
+	if opts.Charts {
+		var keys []string
+		for _, rt := range export.ReportTraits(t, opts.Traits) {
+			keys = append(keys, rt.Key)
+		}
+		if series := export.ProgressSheetSeries(t, tr.Key, keys); series != "" {
+			d.section("Series "+series+" over the season", 25)
+			d.note("Each treatment's mean at each assessment (the plots assessed; excluded plots left out).")
+			pr, err := analysis.ProgressOf(t, series)
+			var p *plot.Plot
+			if err == nil {
+				p, err = chart.Progress(t, pr)
+			}
+			if err != nil {
+				d.note("The chart over the season could not be drawn: " + err.Error())
+			} else if err := placeChart(d, p); err != nil {
+				return err
+			}
+		}
+	}
+
 	if len(a.Notes) > 0 || len(a.Diagnostics.Readings) > 0 {
 		d.section("Notes and model checks", 15)
 		for _, n := range a.Notes {
@@ -676,6 +699,12 @@ func meansChart(d *doc, t *trial.Trial, a *analysis.Result, opts ReportOptions) 
 		d.note("The chart of the means could not be drawn: " + err.Error())
 		return nil
 	}
+	return placeChart(d, p)
+}
+
+// placeChart draws p across the page width (half as high), on a new page
+// when it does not fit.
+func placeChart(d *doc, p *plot.Plot) error {
 	w := d.contentWidth()
 	h := w * 0.5
 	if d.GetY()+h+4 > d.bottom() {

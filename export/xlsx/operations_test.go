@@ -1,12 +1,14 @@
 package xlsx
 
 import (
+	"context"
 	"strings"
 	"testing"
 	"time"
 
 	"furlong/export"
 	"furlong/trial"
+	"furlong/trial/analysis"
 )
 
 // TestReportOperationsSheet: a trial with a log gets an Operations sheet
@@ -67,4 +69,46 @@ func TestReportOperationsSheet(t *testing.T) {
 	if !found {
 		t.Error("the cover does not mention the log")
 	}
+}
+
+// TestReportProgressChart: a trial with an assessment series and its AUDPC
+// gets the chart over the season once, on the AUDPC trait's sheet.
+func TestReportProgressChart(t *testing.T) {
+	t.Parallel()
+	tr, _ := barleyTrial(t)
+	yield, err := tr.TraitValues("yield")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for k, day := range []int{1, 15} {
+		v := make([]float64, len(yield))
+		for i := range v {
+			v[i] = yield[i] * float64(k+1) / 4 // invented scores that grow over the season
+		}
+		tr.Traits = append(tr.Traits, trial.Trait{Key: []string{"s1", "s2"}[k], Name: []string{"Score 1", "Score 2"}[k], Unit: "%", Kind: trial.Percent,
+			Min: fptr(0), Max: fptr(100), Decimals: 1, Values: v, Assessed: time.Date(2026, 6, day, 0, 0, 0, 0, time.UTC), Assessment: &trial.Assessment{Series: "sc"}})
+	}
+	au := trial.AUDPCTrait("au", "sc", "%", false)
+	au.Values = make([]float64, len(yield))
+	tr.Traits = append(tr.Traits, au)
+	keys := []string{"s1", "s2", "au"}
+	res, err := analysisOf(tr, keys)
+	if err != nil {
+		t.Fatal(err)
+	}
+	f, _ := writeReport(t, tr, res, ReportOptions{Charts: true, Traits: keys})
+	for _, sh := range []string{"Score 1", "Score 2", au.Name} {
+		has := findRow(t, f, sh, 1, "Series sc over the season") != 0
+		if has != (sh == au.Name) {
+			t.Errorf("%s: chart over the season %v", sh, has)
+		}
+	}
+	pics, err := f.GetPictureCells(au.Name)
+	if err != nil || len(pics) < 2 {
+		t.Errorf("AUDPC sheet pictures %v (%v): want the means chart and the chart over the season", pics, err)
+	}
+}
+
+func analysisOf(t *trial.Trial, keys []string) ([]analysis.Outcome, error) {
+	return analysis.AnalyzeAll(context.Background(), t, keys, analysis.Options{})
 }

@@ -162,3 +162,55 @@ func (s *sheet) writeContrasts(a *analysis.Result, row, dec int) int {
 	}
 	return row + 1
 }
+
+// writeProgress puts the chart of the trait's assessment series over the
+// season at row (export.ProgressSheetSeries: once per series) and returns
+// the next free row.
+func (s *sheet) writeProgress(f *excelize.File, r *report, key string, row int) int {
+	if !r.opts.Charts || s.err != nil {
+		return row
+	}
+	keys := make([]string, len(r.traits))
+	for i, tr := range r.traits {
+		keys[i] = tr.Key
+	}
+	series := export.ProgressSheetSeries(r.t, key, keys)
+	if series == "" {
+		return row
+	}
+	s.textNoWidth(1, row, "Series "+series+" over the season", sectionStyle)
+	row++
+	s.textNoWidth(1, row, "Each treatment's mean at each assessment (the plots assessed; excluded plots left out).", noteStyle)
+	row++
+	png, err := progressChartPNG(r.t, series)
+	if err != nil {
+		s.textNoWidth(1, row, "The chart over the season could not be drawn: "+err.Error(), noteStyle)
+		return row + 2
+	}
+	at := row
+	s.later = append(s.later, func() {
+		yes := true
+		s.fail(f.AddPictureFromBytes(s.name, cellName(1, at), &excelize.Picture{
+			Extension: ".png", File: png,
+			Format: &excelize.GraphicOptions{AltText: "Chart of series " + series + " over the season", PrintObject: &yes, LockAspectRatio: true},
+		}))
+	})
+	return row + vsCheckChartRows
+}
+
+// progressChartPNG draws an assessment series over the season as a PNG.
+func progressChartPNG(t *trial.Trial, series string) ([]byte, error) {
+	pr, err := analysis.ProgressOf(t, series)
+	if err != nil {
+		return nil, err
+	}
+	p, err := chart.Progress(t, pr)
+	if err != nil {
+		return nil, err
+	}
+	var buf bytes.Buffer
+	if err := chart.Save(p, &buf, "png", vg.Length(chartWidthPt), vg.Length(chartHeightPt)); err != nil {
+		return nil, err
+	}
+	return buf.Bytes(), nil
+}
