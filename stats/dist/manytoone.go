@@ -46,9 +46,10 @@ import (
 //     with k ≤ LatticeMaxK: the separation-of-variables transformation of
 //     Genz & Bretz (2002), J. Comput. Graph. Stat. 11, 950–971, integrated by
 //     a randomised rank-1 lattice rule (Richtmyer generators, baker's
-//     periodisation) over 12 seeded random shifts, doubling the points until
-//     3.5 standard errors of the 12 shift estimates are below Tol (each
-//     doubling adds points to the sums already made). The closest
+//     periodisation) over 12 seeded random shifts, adding points (1024,
+//     1536, 2048, 3072, ... up to 65536 a shift, each step extending the
+//     sums already made) until 3.5 standard errors of the 12 shift
+//     estimates are below Tol. The closest
 //     one-factor structure, integrated exactly, is the control variate. The
 //     seed is fixed, so results repeat exactly; Error reports that estimate.
 //     Quantile takes Newton steps from the one-factor critical value, so it
@@ -650,14 +651,14 @@ func (d *ManyToOne) latticeSurvival(c float64, twoSided bool) float64 {
 	// between the general and the one-factor integrands at the same points,
 	// which is small and smooth when R is near λλ'.
 	exactIn := 1 - d.productSurvival(c, twoSided)
-	// Each shift's sum over its points j = 1..n; doubling n adds the points
-	// n+1..2n to the same sums (the Kronecker sequence j·gen + shift is
-	// extensible), so no point is computed twice. The shifts are
+	// Each shift's sum over its points j = 1..n; a larger n adds the points
+	// beyond the last n to the same sums (the Kronecker sequence
+	// j·gen + shift is extensible), so no point is computed twice. The shifts are
 	// independent and are summed on every processor.
 	acc := make([]float64, latticeShifts)
 	var est float64
 	done := 0
-	for n := latticeMinPoints; n <= latticeMaxPoints; n *= 2 {
+	for n := latticeMinPoints; n <= latticeMaxPoints; n = nextLatticeN(n) {
 		for si := range shifts {
 			d.latticeS(chi, si, shifts[si], gen, n) // fill the cache before going parallel
 		}
@@ -694,6 +695,16 @@ func (d *ManyToOne) latticeSurvival(c float64, twoSided bool) float64 {
 		}
 	}
 	return 1 - (exactIn + est)
+}
+
+// nextLatticeN returns the next number of points per shift after n: the
+// steps alternate ×1.5 and ×4/3 (1024, 1536, 2048, 3072, ...), so the
+// rule stops at most 50% beyond the points it needs.
+func nextLatticeN(n int) int {
+	if n&(n-1) == 0 {
+		return n + n/2
+	}
+	return n / 3 * 4
 }
 
 // latticeMinPoints is the number of points per shift of the first
