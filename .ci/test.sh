@@ -31,11 +31,15 @@ bash .ci/dist.sh
 bash .ci/distcheck.sh
 
 step "fuzz smoke"
-fuzz() { # package, target, time
-  go test -run='^$' -fuzz="^$2\$" -fuzztime="$3" "$1"
+# A count of runs, not a time: with -fuzztime=10s Go 1.26's fuzz coordinator
+# can fail a target with a bare "context deadline exceeded" at the deadline
+# (a race in Go itself, go.dev/issue/75804, fixed in Go 1.27; CI hit it once
+# on FuzzPlan with no failing input written). A count has no deadline.
+fuzz() { # package, target, runs
+  go test -run='^$' -fuzz="^$2\$" -fuzztime="$3x" "$1"
 }
-fuzz ./trial/trialfile FuzzDecode 15s
-fuzz ./trial/fieldbook FuzzReadTable 15s
-fuzz ./trial/fieldbook FuzzPlan 10s
+fuzz ./trial/trialfile FuzzDecode 150000
+fuzz ./trial/fieldbook FuzzReadTable 200000
+fuzz ./trial/fieldbook FuzzPlan 100000
 
 step "all checks passed"
