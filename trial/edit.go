@@ -146,6 +146,11 @@ func (t *Trial) UpdateTreatment(code string, tr Treatment) error {
 				t.Plots[k].Treatment = tr.Code
 			}
 		}
+		for k, c := range t.Analysis.Response.LeaveOut {
+			if c == code {
+				t.Analysis.Response.LeaveOut[k] = tr.Code
+			}
+		}
 	}
 	return nil
 }

@@ -83,6 +83,11 @@
 // block). All of these are left out when empty or 0, so a trial without
 // factors is written as version 2 wrote it, apart from the version.
 //
+// Response settings (version 6): "analysis" may hold "response", a rate
+// trial's response analysis settings: "leave_out" (treatment codes left out
+// of the trend) and "price_ratio" (the price of a unit of input in units of
+// produce); absent when not set. Older versions ignore such a member.
+//
 // Versions: version 3 is the format above. Version 2 was the same without
 // the factors and the members that go with them ("factors", "levels",
 // "main_factor", "sub_factor", "main_plot", "sub_plot", "strip"): a
