@@ -14,7 +14,6 @@ import (
 
 	"furlong/export"
 	"furlong/export/chart"
-	"furlong/stats"
 	"furlong/trial"
 	"furlong/trial/analysis"
 )
@@ -270,11 +269,7 @@ func (v *responseView) display(r *analysis.Result, resp *analysis.Response, p ch
 	}
 	v.resp = resp
 	var note []string
-	note = append(note, fmt.Sprintf("%s: %d rates (%s), each treatment mean fitted with the four models; the trends are tested on the %d error df of the design.",
-		r.TraitName, len(resp.Points), strings.Join(pointCodes(resp), ", "), r.ANOVA.DFError))
-	if len(resp.LeftOut) > 0 {
-		note = append(note, "Left out of the trend: "+strings.Join(resp.LeftOut, ", ")+".")
-	}
+	note = append(note, r.TraitName+": "+export.ResponseNote(resp, r.ANOVA.DFError))
 	if err != nil {
 		note = append(note, "The curves cannot be fitted: "+err.Error())
 	}
@@ -282,10 +277,14 @@ func (v *responseView) display(r *analysis.Result, resp *analysis.Response, p ch
 	if resp.PriceRatio > 0 {
 		note = append(note, export.EconomicCautionText())
 	}
+	trend, model, sens := export.ResponseTables(resp, analysis.MeanDecimals(r.Decimals))
+	if model.Foot != "" {
+		note = append(note, model.Foot)
+	}
 	v.note.SetText(strings.Join(note, " "))
-	v.trend.set(responseTrendTable(resp))
-	v.model.set(responseModelTable(resp, r))
-	v.sens.set(responseSensTable(resp))
+	v.trend.set(trend.Head, trend.Rows)
+	v.model.set(model.Head, model.Rows)
+	v.sens.set(sens.Head, sens.Rows)
 	v.tables.Refresh()
 	v.chart.Objects = nil
 	switch {
@@ -297,89 +296,6 @@ func (v *responseView) display(r *analysis.Result, resp *analysis.Response, p ch
 		v.chart.Objects = []fyne.CanvasObject{newChartView(p.plot)}
 	}
 	v.chart.Refresh()
-}
-
-func pointCodes(r *analysis.Response) []string {
-	var out []string
-	for _, p := range r.Points {
-		out = append(out, p.Treatment+" "+strconv.FormatFloat(p.Rate, 'f', -1, 64))
-	}
-	return out
-}
-
-// responseTrendTable is the split of the treatment sum of squares.
-func responseTrendTable(r *analysis.Response) (head []string, rows [][]string) {
-	if len(r.Trends) == 0 {
-		return nil, nil
-	}
-	head = []string{"Trend", "df", "SS", "MS", "F", "P"}
-	for _, l := range r.Trends {
-		rows = append(rows, []string{strings.ReplaceAll(l.Source, "_", " "), strconv.Itoa(l.DF),
-			sig(l.SS), sig(l.MS), fixed(l.F, 2), stats.FormatP(l.P)})
-	}
-	return head, rows
-}
-
-// responseModelTable compares the four models.
-func responseModelTable(r *analysis.Response, res *analysis.Result) (head []string, rows [][]string) {
-	if len(r.Models) == 0 {
-		return nil, nil
-	}
-	dec := analysis.MeanDecimals(res.Decimals)
-	head = []string{"Model", "a", "b", "c", "R²", "Resid. SD", "AIC", "Join", "Plateau", "Max. response at"}
-	if r.PriceRatio > 0 {
-		head = append(head, "Economic optimum", "Response there")
-	}
-	for _, m := range r.Models {
-		name := m.Model
-		if m.Model == r.Best {
-			name += " (lowest AIC)"
-		}
-		c := "–"
-		if len(m.Coef) > 2 {
-			c = sig(m.Coef[2])
-		}
-		row := []string{name, sig(m.Coef[0]), sig(m.Coef[1]), c, fixed(m.RSquared, 4), optNum(m.RMSE, dec+1),
-			fixed(m.AIC, 2), optNum(m.Join, 1), optNum(m.Plateau, dec), optNum(m.Optimum, 1)}
-		if r.PriceRatio > 0 {
-			econ := optNum(m.Econ, 1)
-			if m.AtEdge {
-				econ += " (end of the rates)"
-			}
-			row = append(row, econ, optNum(m.EconYield, dec))
-		}
-		rows = append(rows, row)
-	}
-	return head, rows
-}
-
-// responseSensTable is each model's optimum at half to one and a half times
-// the price ratio.
-func responseSensTable(r *analysis.Response) (head []string, rows [][]string) {
-	if len(r.Sensitivity) == 0 {
-		return nil, nil
-	}
-	head = []string{"Model"}
-	for _, k := range analysis.SensitivityFactors {
-		head = append(head, "ratio "+strconv.FormatFloat(r.PriceRatio*k, 'g', 4, 64))
-	}
-	byModel := map[string][]string{}
-	var order []string
-	for _, s := range r.Sensitivity {
-		if _, ok := byModel[s.Model]; !ok {
-			order = append(order, s.Model)
-		}
-		byModel[s.Model] = append(byModel[s.Model], fixed(s.Rate, 1))
-	}
-	for _, m := range order {
-		rows = append(rows, append([]string{m}, byModel[m]...))
-	}
-	return head, rows
-}
-
-// sig formats v with 5 significant digits.
-func sig(v float64) string {
-	return strconv.FormatFloat(v, 'g', 5, 64)
 }
 
 // setResponse replaces the trial's response settings (undoable).

@@ -1,61 +1,39 @@
 package ui
 
 import (
-	"encoding/csv"
 	"encoding/json"
 	"math"
 	"os"
 	"slices"
-	"strconv"
 	"strings"
 	"testing"
 
 	"furlong/trial"
+	"furlong/trial/trialfile"
 )
 
-// The nitrogen-rate data (5 rates × 4 blocks) with R 4.2.2 results beside
-// it: aov with contr.poly(scores = rates), lm, the profiled
-// quadratic-plateau, the economic optimum at a price ratio of 0.008 (see
-// the README in that folder).
+// The nitrogen-rate reference data (5 rates × 4 blocks) as a trial file,
+// with R 4.2.2 results beside the CSV it was made from: aov with
+// contr.poly(scores = rates), lm, the profiled quadratic-plateau, the
+// economic optimum at a price ratio of 0.008 (see the READMEs there).
 const (
-	nitrogenCSV  = "../stats/testdata/response/nitrogen-rates.csv"
-	nitrogenJSON = "../stats/testdata/response/nitrogen-rates.expected.json"
+	nitrogenFixture = "../trial/analysis/testdata/nitrogen-rates.furlong"
+	nitrogenJSON    = "../stats/testdata/response/nitrogen-rates.expected.json"
 )
 
-// nitrogenTrial is the nitrogen data as an RCBD whose treatments carry
-// their rates, with an untreated control that has no rate.
+// nitrogenTrial is the nitrogen trial with an untreated control that has
+// no rate (any values: it is left out of the trend).
 func nitrogenTrial(t *testing.T) *trial.Trial {
 	t.Helper()
-	f, err := os.Open(nitrogenCSV)
+	tr, err := trialfile.Load(nitrogenFixture)
 	if err != nil {
 		t.Fatal(err)
-	}
-	defer f.Close()
-	rows, err := csv.NewReader(f).ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
-	tr := &trial.Trial{Title: "Nitrogen rates", Design: trial.Design{Kind: trial.RCBD, Reps: 4}, Analysis: trial.Analysis{Method: trial.MethodLSD}}
-	yield := trial.Trait{Key: "yield", Name: "Grain yield", Unit: "t/ha", Decimals: 2, HigherBetter: true}
-	seen := map[string]bool{}
-	for i, r := range rows[1:] {
-		b, _ := strconv.Atoi(r[1])
-		rate, _ := strconv.ParseFloat(r[2], 64)
-		y, _ := strconv.ParseFloat(r[3], 64)
-		code := "N" + r[2]
-		if !seen[code] {
-			seen[code] = true
-			tr.Treatments = append(tr.Treatments, trial.Treatment{Code: code, Rate: &rate, RateUnit: "kg N/ha"})
-		}
-		tr.Plots = append(tr.Plots, trial.Plot{Number: i + 1, Block: b, Row: b, Column: len(tr.Plots)%6 + 1, Treatment: code})
-		yield.Values = append(yield.Values, y)
 	}
 	tr.Treatments = append(tr.Treatments, trial.Treatment{Code: "UTC", Role: trial.RoleUntreated})
 	for b := 1; b <= 4; b++ {
 		tr.Plots = append(tr.Plots, trial.Plot{Number: 100 + b, Block: b, Row: b, Column: 6, Treatment: "UTC"})
-		yield.Values = append(yield.Values, 3+float64(b)/10)
+		tr.Traits[0].Values = append(tr.Traits[0].Values, 3+float64(b)/10)
 	}
-	tr.Traits = []trial.Trait{yield}
 	return tr
 }
 

@@ -2,58 +2,37 @@ package chart
 
 import (
 	"context"
-	"encoding/csv"
 	"math"
-	"os"
 	"strconv"
 	"strings"
 	"testing"
 
 	"furlong/trial"
 	"furlong/trial/analysis"
+	"furlong/trial/trialfile"
 )
 
-// nitrogenCSV: 5 N rates × 4 blocks with R 4.2.2 results beside it (see its
-// README); here only the drawing is checked, the numbers are checked
-// against R in trial/analysis and the CLI.
-const nitrogenCSV = "../../stats/testdata/response/nitrogen-rates.csv"
+// nitrogenFixture is the nitrogen-rate reference data (5 N rates × 4
+// blocks, R 4.2.2 results beside it) as a trial file (see the README in its
+// folder); here only the drawing is checked, the numbers are checked
+// against R in trial/analysis.
+const nitrogenFixture = "../../trial/analysis/testdata/nitrogen-rates.furlong"
 
-// rateTrial is the nitrogen data as an RCBD trial whose treatments carry
-// their rates, plus (with control) an untreated control without a rate.
+// rateTrial is the nitrogen trial, plus (with control) an untreated
+// control without a rate, which must stay off the chart.
 func rateTrial(tb testing.TB, control bool) *trial.Trial {
 	tb.Helper()
-	f, err := os.Open(nitrogenCSV)
+	t, err := trialfile.Load(nitrogenFixture)
 	if err != nil {
 		tb.Fatal(err)
-	}
-	defer f.Close()
-	rows, err := csv.NewReader(f).ReadAll()
-	if err != nil {
-		tb.Fatal(err)
-	}
-	t := &trial.Trial{Title: "Nitrogen rates", Design: trial.Design{Kind: trial.RCBD, Reps: 4}}
-	yield := trial.Trait{Key: "yield", Name: "Grain yield", Unit: "t/ha", Decimals: 2, HigherBetter: true}
-	seen := map[string]bool{}
-	for i, r := range rows[1:] {
-		b, _ := strconv.Atoi(r[1])
-		rate, _ := strconv.ParseFloat(r[2], 64)
-		y, _ := strconv.ParseFloat(r[3], 64)
-		code := "N" + r[2]
-		if !seen[code] {
-			seen[code] = true
-			t.Treatments = append(t.Treatments, trial.Treatment{Code: code, Rate: &rate, RateUnit: "kg N/ha"})
-		}
-		t.Plots = append(t.Plots, trial.Plot{Number: i + 1, Block: b, Treatment: code})
-		yield.Values = append(yield.Values, y)
 	}
 	if control {
 		t.Treatments = append(t.Treatments, trial.Treatment{Code: "UTC", Role: trial.RoleUntreated})
 		for b := 1; b <= 4; b++ {
 			t.Plots = append(t.Plots, trial.Plot{Number: 100 + b, Block: b, Treatment: "UTC"})
-			yield.Values = append(yield.Values, 3+float64(b)/10)
+			t.Traits[0].Values = append(t.Traits[0].Values, 3+float64(b)/10) // any values: left out
 		}
 	}
-	t.Traits = []trial.Trait{yield}
 	return t
 }
 
