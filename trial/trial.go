@@ -44,6 +44,9 @@ type Trial struct {
 	// Operations is the trial's log of what was done, in date order:
 	// sowing, applications, assessments (operations.go).
 	Operations []Operation
+	// Economics are the user's prices for the margins over input cost
+	// (economics.go).
+	Economics Economics
 }
 
 // Analysis holds the settings of a trial's analysis that every view of it

@@ -93,6 +93,7 @@ func toV1(t *trial.Trial) (*trialV1, error) {
 		Analysis:   &analysisV2{MeanSeparation: t.MeanSeparation(), Contrasts: encodeContrasts(t.Analysis.Contrasts), Response: encodeResponse(t.Analysis.Response)},
 		Treatments: make([]treatmentV1, len(t.Treatments)),
 		Operations: encodeOperations(t.Operations),
+		Economics:  encodeEconomics(t.Economics),
 		Plots:      make([]plotV1, len(t.Plots)),
 		Traits:     make([]traitV1, len(t.Traits)),
 	}

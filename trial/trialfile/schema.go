@@ -39,6 +39,9 @@ type trialV1 struct {
 	Traits        []traitV1     `json:"traits"`
 	// Operations (version 5): the log of what was done (operations.go).
 	Operations []operationV5 `json:"operations,omitempty"`
+	// Economics (version 6): the user's prices for the margins
+	// (economics.go).
+	Economics *economicsV6 `json:"economics,omitempty"`
 }
 
 type siteV1 struct {
