@@ -90,18 +90,18 @@ func MarginsOf(t *trial.Trial, r *Result) (*Margins, error) {
 		idx[i] = i
 		row := MarginRow{Treatment: mean.Treatment, Name: mean.Name, N: mean.N, Mean: mean.Mean, SE: mean.SE, CostFrom: CostNone}
 		tr := t.Treatment(mean.Treatment)
-		if c := e.Cost(mean.Treatment); c != nil {
+		c := e.Cost(mean.Treatment)
+		if c != nil {
 			row.Application = c.Application
-			if c.Product != nil {
-				row.Product, row.CostFrom = *c.Product, CostGiven
-			}
 		}
-		if row.CostFrom == CostNone && tr != nil && tr.Rate != nil && m.InputPrice > 0 {
+		switch {
+		case c != nil && c.Product != nil:
+			row.Product, row.CostFrom = *c.Product, CostGiven
+		case tr != nil && tr.Rate != nil && m.InputPrice > 0:
 			row.Product, row.CostFrom = *tr.Rate*m.InputPrice, CostFromRate
 			m.RateUnit = tr.RateUnit
-		}
-		if row.CostFrom == CostNone && row.Application > 0 {
-			row.CostFrom = CostGiven // application only
+		case c != nil:
+			row.CostFrom = CostGiven // an application cost only (perhaps 0)
 		}
 		row.Cost = row.Product + row.Application
 		row.Gross = e.ProducePrice * mean.Mean
