@@ -126,3 +126,62 @@ func optText(v *float64, dec int) string {
 	}
 	return fixedText(*v, dec)
 }
+
+// MarginsFor is the margins over input cost of r's trait as the season
+// report and the window show them (analysis.MarginsOf with the trial's
+// economics): nil without an error when there is nothing to show (no
+// produce price, or r is not the trait the margins are worked out from).
+func MarginsFor(t *trial.Trial, r *analysis.Result) (*analysis.Margins, error) {
+	if t == nil || r == nil || !(t.Economics.ProducePrice > 0) || r.TraitKey != t.EconomicsTrait() {
+		return nil, nil
+	}
+	return analysis.MarginsOf(t, r)
+}
+
+// MarginsTable is the table of margins as text (the window and the PDF
+// report): per treatment its mean, gross return, costs, margin with its SE
+// and letters, and where its cost came from. dec is the decimals of the
+// trait's means; amounts have 2.
+func MarginsTable(m *analysis.Margins, dec int) TextTable {
+	cur := ""
+	if m.Currency != "" {
+		cur = " (" + m.Currency + ")"
+	}
+	tt := TextTable{Head: []string{"Treatment", "Mean", "Gross return" + cur, "Product", "Application", "Margin" + cur, "SE", "Letters", "Cost"}}
+	for _, r := range m.Rows {
+		tt.Rows = append(tt.Rows, []string{r.Treatment, fixedText(r.Mean, dec), fixedText(r.Gross, 2), fixedText(r.Product, 2),
+			fixedText(r.Application, 2), fixedText(r.Margin, 2), fixedText(r.MarginSE, 2), r.Letters, r.CostFrom})
+	}
+	return tt
+}
+
+// MarginsNote says how the margins were worked out, for the note above
+// their table.
+func MarginsNote(m *analysis.Margins) string {
+	cur := m.Currency
+	if cur == "" {
+		cur = "money units"
+	}
+	per := m.Unit
+	if a, _, ok := strings.Cut(per, "/"); ok && a != "" {
+		per = a
+	}
+	s := fmt.Sprintf("Gross return = %s × the mean at %s %s per %s; margin = gross return − product cost − application cost, per unit area. The margin's SE is the price times the mean's SE (the costs are fixed amounts); F test of equal margins: F = %s on %d and %d df, p %s.",
+		m.TraitName, strconv.FormatFloat(m.Price, 'g', -1, 64), cur, per, fixedText(m.F, 2), m.DF1, m.DF, stats.FormatP(m.P))
+	if m.InputPrice > 0 {
+		s += fmt.Sprintf(" Rate treatments without a product cost are costed at %s %s per %s of input (the price ratio %s × the produce price).",
+			strconv.FormatFloat(m.InputPrice, 'g', 4, 64), cur, rateUnitOf(m.RateUnit), strconv.FormatFloat(m.PriceRatio, 'g', -1, 64))
+	}
+	return s
+}
+
+// rateUnitOf is the unit of input of a rate unit: "kg N" for "kg N/ha".
+func rateUnitOf(u string) string {
+	if a, _, ok := strings.Cut(u, "/"); ok && a != "" {
+		return a
+	}
+	if u == "" {
+		return "unit"
+	}
+	return u
+}

@@ -600,6 +600,23 @@ func writeTrait(d *doc, t *trial.Trial, tr trial.Trait, results []analysis.Outco
 		}
 	}
 
+	// The margins over input cost, on the trait they are worked out from.
+	if m, err := export.MarginsFor(t, a); m != nil || err != nil {
+		d.section("Margin over input cost", 25)
+		if err != nil {
+			d.note("The margins cannot be worked out: " + err.Error())
+		} else {
+			d.note(export.MarginsNote(m))
+			tt := export.MarginsTable(m, meanDec)
+			tb := table{heads: tt.Head, rows: tt.Rows, right: []bool{false, true, true, true, true, true, true, false, false}}
+			d.table(tb)
+			for _, n := range m.Notes {
+				d.note(n)
+			}
+			d.note("Caution: " + export.EconomicCautionText())
+		}
+	}
+
 	if len(a.Notes) > 0 || len(a.Diagnostics.Readings) > 0 {
 		d.section("Notes and model checks", 15)
 		for _, n := range a.Notes {

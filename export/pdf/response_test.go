@@ -11,6 +11,7 @@ import (
 	"testing"
 
 	"furlong/export"
+	"furlong/trial"
 	"furlong/trial/analysis"
 	"furlong/trial/trialfile"
 )
@@ -66,5 +67,39 @@ func TestReportResponse(t *testing.T) {
 	first := strings.SplitAfter(export.EconomicCautionText(), ".")[0]
 	if !strings.Contains(norm, first) {
 		t.Errorf("no economic caution %q", first)
+	}
+}
+
+// TestReportMargins: the margins table reaches the PDF with the margin of
+// each treatment worked out by hand (price × mean − cost) from the means
+// the analysis gives.
+func TestReportMargins(t *testing.T) {
+	t.Parallel()
+	tr, err := trialfile.Load("../../trial/analysis/testdata/nitrogen-rates.furlong")
+	if err != nil {
+		t.Fatal(err)
+	}
+	p := 30.0
+	tr.Economics = trial.Economics{Currency: "EUR", ProducePrice: 200, Costs: []trial.TreatmentCost{{Treatment: "N50", Product: &p, Application: 12}}}
+	res, err := analysis.AnalyzeAll(context.Background(), tr, nil, analysis.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var buf bytes.Buffer
+	if err := WriteReport(context.Background(), &buf, tr, res, ReportOptions{}); err != nil {
+		t.Fatal(err)
+	}
+	norm := regexp.MustCompile(`\s+`).ReplaceAllString(pdfText(t, buf.Bytes(), 0, 0), " ")
+	if !strings.Contains(norm, "Margin over input cost") || !strings.Contains(norm, "(EUR)") {
+		t.Fatal("no margins in the PDF")
+	}
+	for _, m := range res[0].Result.Means {
+		cost := 0.0
+		if m.Treatment == "N50" {
+			cost = 42
+		}
+		if want := strconv.FormatFloat(200*m.Mean-cost, 'f', 2, 64); !strings.Contains(norm, want) {
+			t.Errorf("%s: no margin %s in the PDF", m.Treatment, want)
+		}
 	}
 }

@@ -125,3 +125,52 @@ func TestReportResponse(t *testing.T) {
 		t.Error("a trial without rates has a response section")
 	}
 }
+
+// TestReportMargins: with a produce price the yield sheet carries the
+// margins: gross return = price × mean, margin = gross − costs (by hand
+// from the same sheet's means), the SE the price times the mean's SE.
+func TestReportMargins(t *testing.T) {
+	t.Parallel()
+	tr := nitrogenTrial(t)
+	p := 30.0
+	tr.Economics = trial.Economics{Currency: "EUR", ProducePrice: 200, Costs: []trial.TreatmentCost{{Treatment: "N50", Product: &p, Application: 12}}}
+	res, err := analysis.AnalyzeAll(context.Background(), tr, nil, analysis.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	f, _ := writeReport(t, tr, res, ReportOptions{Charts: false})
+	sh := "Yield"
+	head := findRow(t, f, sh, 1, "Margin over input cost")
+	if head == 0 {
+		t.Fatal("no margins on the yield sheet")
+	}
+	h := head + 3 // the notes, then the column heads
+	if textAt(t, f, sh, cell(8, h)) != "Margin (EUR)" {
+		t.Fatalf("heads at row %d: %q", h, textAt(t, f, sh, cell(8, h)))
+	}
+	seen := 0
+	for r := h + 1; r <= h+5; r++ {
+		code := textAt(t, f, sh, cell(1, r))
+		mean, gross, cost, margin := numberAt(t, f, sh, cell(3, r)), numberAt(t, f, sh, cell(4, r)), numberAt(t, f, sh, cell(7, r)), numberAt(t, f, sh, cell(8, r))
+		want := 0.0
+		if code == "N50" {
+			want = 42
+		}
+		if math.Abs(gross-200*mean) > 1e-9 || cost != want || math.Abs(margin-(gross-cost)) > 1e-9 {
+			t.Errorf("%s: mean %g gross %g cost %g margin %g", code, mean, gross, cost, margin)
+		}
+		if textAt(t, f, sh, cell(10, r)) == "" {
+			t.Errorf("%s: no letters", code)
+		}
+		seen++
+	}
+	if seen != 5 {
+		t.Errorf("%d margin rows", seen)
+	}
+	// Without a price there are no margins.
+	tr.Economics.ProducePrice = 0
+	f, _ = writeReport(t, tr, res, ReportOptions{})
+	if findRow(t, f, sh, 1, "Margin over input cost") != 0 {
+		t.Error("margins without a price")
+	}
+}
