@@ -18,6 +18,13 @@ type design struct {
 	levelNames [][]string
 	y          []float64
 	ybar       float64
+	// x is the covariate over the used observations, centred on its mean
+	// xbar and divided by its spread xs (root mean square deviation), so
+	// its column is of the size of the dummy columns and a mean with the
+	// covariate's coefficient 0 is at the covariate's mean; nil without a
+	// covariate.
+	x        []float64
+	xbar, xs float64
 }
 
 func newDesign(m *Model, used []int) *design {
@@ -42,6 +49,23 @@ func newDesign(m *Model, used []int) *design {
 		d.ybar += m.Response[i]
 	}
 	d.ybar /= float64(len(used))
+	if m.Covariate != nil {
+		d.x = make([]float64, len(used))
+		for _, i := range used {
+			d.xbar += m.Covariate[i]
+		}
+		d.xbar /= float64(len(used))
+		for _, i := range used {
+			v := m.Covariate[i] - d.xbar
+			d.xs += v * v
+		}
+		d.xs = math.Sqrt(d.xs / float64(len(used)))
+		for k, i := range used {
+			if d.xs > 0 {
+				d.x[k] = (m.Covariate[i] - d.xbar) / d.xs
+			}
+		}
+	}
 	return d
 }
 
@@ -94,19 +118,33 @@ func (d *design) termRow(t term, levels func(f int) int, out []float64) {
 	}
 }
 
-// matrix is a design matrix: an intercept then the columns of each term.
+// matrix is a design matrix: an intercept, the columns of each term and,
+// with a covariate, its column last.
 type matrix struct {
 	terms []term
 	start []int // first column of each term
+	tp    int   // columns of the intercept and the terms
+	cov   int   // the covariate's column, −1 when there is none
 	p     int
 	x     []float64 // n×p, row-major
 }
 
-func (d *design) build(terms []term) *matrix {
-	mx := &matrix{terms: terms, p: 1}
+// build codes the terms for the used observations; buildCov adds the
+// design's covariate (when it has one) as the last column.
+func (d *design) build(terms []term) *matrix { return d.buildWith(terms, false) }
+
+func (d *design) buildCov(terms []term) *matrix { return d.buildWith(terms, d.x != nil) }
+
+func (d *design) buildWith(terms []term, withCov bool) *matrix {
+	mx := &matrix{terms: terms, p: 1, cov: -1}
 	for _, t := range terms {
 		mx.start = append(mx.start, mx.p)
 		mx.p += d.ncols(t)
+	}
+	mx.tp = mx.p
+	if withCov {
+		mx.cov = mx.p
+		mx.p++
 	}
 	mx.x = make([]float64, d.n*mx.p)
 	for i := range d.n {
@@ -114,6 +152,9 @@ func (d *design) build(terms []term) *matrix {
 		row[0] = 1
 		for k, t := range terms {
 			d.termRow(t, func(f int) int { return d.lev[f][i] }, row[mx.start[k]:mx.start[k]+d.ncols(t)])
+		}
+		if withCov {
+			row[mx.cov] = d.x[i]
 		}
 	}
 	return mx
@@ -127,11 +168,8 @@ func (mx *matrix) cols(withIntercept bool, ks ...int) []int {
 		c = append(c, 0)
 	}
 	for _, k := range ks {
-		end := mx.p
-		if k+1 < len(mx.start) {
-			end = mx.start[k+1]
-		}
-		for j := mx.start[k]; j < end; j++ {
+		a, b := mx.termRange(k)
+		for j := a; j < b; j++ {
 			c = append(c, j)
 		}
 	}

@@ -3,7 +3,6 @@ package glm
 import (
 	"fmt"
 	"math"
-	"sort"
 
 	"gonum.org/v1/gonum/mat"
 )
@@ -28,29 +27,23 @@ func fit(m Model, forceREML bool) (*Result, error) {
 	}
 	d := newDesign(&m, used)
 	nf := d.nf
-	var trt []term
-	if m.Terms == nil {
-		trt = allTerms(nf)
-	} else {
-		for _, t := range m.Terms {
-			tt := append(term(nil), t...)
-			sort.Ints(tt)
-			trt = append(trt, tt)
-		}
-		sort.SliceStable(trt, func(i, j int) bool { return len(trt[i]) < len(trt[j]) })
-	}
+	trt := treatmentTerms(&m, nf)
 	var meanTerms []term
 	if d.hasBlock() {
 		meanTerms = append(meanTerms, term{d.block()})
 	}
 	meanTerms = append(meanTerms, trt...)
-	mx := d.build(meanTerms)
+	if d.x != nil && !(d.xs > 0) {
+		return nil, errorf(NotEstimable, "", -1, "the covariate has the same value on every plot analysed, so it cannot adjust anything; analyse the trait without it")
+	}
+	mx := d.buildCov(meanTerms)
 	ne := mx.normal(d.y, d.ybar)
 
+	left := m.covariateLeft()
 	res := &Result{
 		Structure: m.Structure,
 		N:         d.n,
-		Missing:   len(m.Response) - d.n,
+		Missing:   len(m.Response) - d.n - left,
 		GrandMean: d.ybar,
 		Obs:       used,
 		Alpha:     alpha,
@@ -73,6 +66,10 @@ func fit(m Model, forceREML bool) (*Result, error) {
 	}
 	if err := effects(d, mx, in, &m, trt, res); err != nil {
 		return nil, err
+	}
+	if res.Covariate != nil {
+		res.Covariate.Left = left
+		covariateCompanions(m, used, res.Covariate)
 	}
 	return res, nil
 }
@@ -107,7 +104,7 @@ func (d *design) balanced(s Structure, trt []term) bool {
 
 // termRange returns the column range of mean-model term k.
 func (mx *matrix) termRange(k int) (int, int) {
-	end := mx.p
+	end := mx.tp
 	if k+1 < len(mx.start) {
 		end = mx.start[k+1]
 	}
@@ -115,7 +112,8 @@ func (mx *matrix) termRange(k int) (int, int) {
 }
 
 // typeII returns the type II sum of squares and df of term k of mx: the
-// term adjusted for every term that does not contain it.
+// term adjusted for every term that does not contain it (and for the
+// covariate, when mx has one).
 func typeII(mx *matrix, ne *normal, k int) (float64, int) {
 	t := mx.terms[k]
 	cols := []int{0}
@@ -127,6 +125,9 @@ func typeII(mx *matrix, ne *normal, k int) (float64, int) {
 		for c := a; c < b; c++ {
 			cols = append(cols, c)
 		}
+	}
+	if mx.cov >= 0 {
+		cols = append(cols, mx.cov)
 	}
 	from := len(cols)
 	a, b := mx.termRange(k)
@@ -156,6 +157,9 @@ func fitFactorial(d *design, mx *matrix, ne *normal, trt []term, res *Result) (*
 		return nil, errorf(ZeroError, "", -1, "the model fits the data exactly (or all values are equal), so there is no experimental error to test against; check the data")
 	}
 	mse := full.rss / float64(dfe)
+	if mx.cov >= 0 && !keptCol(full.kept, mx.cov) {
+		return nil, errorf(NotEstimable, "", -1, "the covariate does not vary within the treatment combinations (and blocks), so it cannot adjust this trait; analyse the trait without it")
+	}
 	for k, t := range mx.terms {
 		ss, df := typeII(mx, ne, k)
 		if df == 0 {
@@ -170,13 +174,20 @@ func fitFactorial(d *design, mx *matrix, ne *normal, trt []term, res *Result) (*
 		l.P = fSurvival(l.F, float64(df), float64(dfe))
 		res.Lines = append(res.Lines, l)
 	}
-	res.Lines = append(res.Lines, errorLine("error", dfe, full.rss, d.ybar))
-	res.Lines = append(res.Lines, Line{Source: "total", Role: RoleTotal, DF: d.n - 1, HasSS: true, SS: ne.yty})
-	if !res.Balanced {
-		res.Notes = append(res.Notes, noteTypeII)
-	}
 	c := mat.NewSymDense(mx.p, nil)
 	c.ScaleSym(mse, full.xtxi)
+	if mx.cov >= 0 {
+		res.Lines = append(res.Lines, covariateLine(mx, ne, mse, dfe))
+		res.Covariate = covariance(d, mx, ne, full, c, dfe)
+	}
+	res.Lines = append(res.Lines, errorLine("error", dfe, full.rss, d.ybar))
+	res.Lines = append(res.Lines, Line{Source: "total", Role: RoleTotal, DF: d.n - 1, HasSS: true, SS: ne.yty})
+	switch {
+	case mx.cov >= 0:
+		res.Notes = append(res.Notes, noteCovariate)
+	case !res.Balanced:
+		res.Notes = append(res.Notes, noteTypeII)
+	}
 	in := &inference{p: mx.p, beta: full.beta, c: c, null: full.null, fixedDF: float64(dfe)}
 	fillResiduals(d, mx, full.beta, res)
 	res.ResidualDF = dfe

@@ -74,6 +74,32 @@ type Model struct {
 	// AllSlices computes the slices of every interaction, not only of the
 	// significant ones.
 	AllSlices bool
+	// Covariate, when not nil, holds a covariate measured on the same
+	// plots (a stand count, a count before treatment, a soil value), one
+	// value per plot; NaN marks a plot without one, which is then left
+	// out (Result.Covariate.Left counts those that had a response). The
+	// response is then analysed by analysis of covariance (see the package
+	// documentation). Only for Structure Factorial.
+	Covariate []float64
+}
+
+// CovariateLine is the source of the covariate's line in the analysis of
+// variance.
+const CovariateLine = "covariate"
+
+// covariateLeft counts the plots with a response that are left out
+// because their covariate is missing.
+func (m *Model) covariateLeft() int {
+	if m.Covariate == nil {
+		return 0
+	}
+	left := 0
+	for i, y := range m.Response {
+		if !math.IsNaN(y) && (m.Missing == nil || !m.Missing[i]) && math.IsNaN(m.Covariate[i]) {
+			left++
+		}
+	}
+	return left
 }
 
 // ErrorKind classifies the problems with the input that stop an analysis.
@@ -163,6 +189,19 @@ func (m *Model) check() (used []int, err error) {
 	if m.Missing != nil && len(m.Missing) != n {
 		return nil, errorf(BadModel, "", -1, "the missing-plot mask has %d entries for %d plots; give one per plot", len(m.Missing), n)
 	}
+	if m.Covariate != nil {
+		if len(m.Covariate) != n {
+			return nil, errorf(BadModel, "", -1, "the covariate has %d values for %d plots; give one per plot (NaN where it is missing)", len(m.Covariate), n)
+		}
+		if m.Structure == SplitPlot || m.Structure == StripPlot {
+			return nil, errorf(BadModel, "", -1, "a covariate can be used in a factorial in a completely randomised design or in randomised complete blocks, not in a %s; analyse this trait without the covariate", m.Structure)
+		}
+		for i, v := range m.Covariate {
+			if math.IsInf(v, 0) {
+				return nil, errorf(BadModel, "", -1, "plot %d has an infinite covariate value; correct or remove it", i+1)
+			}
+		}
+	}
 	names := map[string]bool{}
 	all := append([]Factor(nil), m.Factors...)
 	if m.Block != nil {
@@ -174,6 +213,9 @@ func (m *Model) check() (used []int, err error) {
 		}
 		if names[f.Name] {
 			return nil, errorf(BadModel, f.Name, -1, "two factors are both called %q; give each factor its own name", f.Name)
+		}
+		if m.Covariate != nil && f.Name == CovariateLine {
+			return nil, errorf(BadModel, f.Name, -1, "a factor is called %q, the name of the covariate's line; give the factor another name", f.Name)
 		}
 		names[f.Name] = true
 		if len(f.Index) != n {
@@ -253,7 +295,7 @@ func (m *Model) check() (used []int, err error) {
 		if math.IsInf(y, 0) {
 			return nil, errorf(BadModel, "", -1, "plot %d has an infinite value; correct or remove it", i+1)
 		}
-		if math.IsNaN(y) || (m.Missing != nil && m.Missing[i]) {
+		if math.IsNaN(y) || (m.Missing != nil && m.Missing[i]) || (m.Covariate != nil && math.IsNaN(m.Covariate[i])) {
 			continue
 		}
 		used = append(used, i)

@@ -12,6 +12,10 @@ const (
 	RoleTreatment                 // a treatment main effect or interaction
 	RoleError                     // an error stratum: "error", "error_a", ...
 	RoleTotal                     // the total line
+	// RoleCovariate is the regression on the covariate of an analysis of
+	// covariance (one df), listed after the treatment terms and before
+	// the error.
+	RoleCovariate
 )
 
 // String names the role.
@@ -25,6 +29,8 @@ func (r Role) String() string {
 		return "error"
 	case RoleTotal:
 		return "total"
+	case RoleCovariate:
+		return "covariate"
 	}
 	return "role?"
 }
@@ -230,6 +236,49 @@ type Result struct {
 	// strips), one per unit, for diagnostics of error (a), (b).
 	UnitResiduals []UnitResiduals
 	Alpha         float64
+	// Covariate is what an analysis of covariance adds (nil without a
+	// covariate): Lines, Effects, Slices and SEDs are then the adjusted
+	// analysis.
+	Covariate *Covariance
+}
+
+// Covariance is what a covariate adds to the analysis of a factorial: the
+// common slope of the response on the covariate within the cells of the
+// model, the test that the slope is the same in every treatment
+// combination, the covariate's own analysis and the unadjusted one.
+type Covariance struct {
+	// Mean of the covariate over the plots analysed: every estimated
+	// marginal mean is the response expected at this value.
+	Mean float64
+	// Left counts the plots with a response left out because their
+	// covariate is missing.
+	Left int
+	// Slope of the response on the covariate, its standard error, t =
+	// Slope/SE and the two-sided P on DF (the error df).
+	Slope, SE, T, P float64
+	DF              int
+	// HasHomogeneity is false when separate slopes cannot be fitted (no
+	// df left, or no combination whose covariate varies); the fields
+	// below are then 0. HomogeneityF tests a separate slope for every
+	// treatment combination (with the blocks, treatment terms and common
+	// slope in the model) against the common slope, on HomogeneityDF1
+	// (the extra slopes that can be estimated) and HomogeneityDF2 (the
+	// error df of the separate-slopes model).
+	HasHomogeneity                 bool
+	HomogeneityF, HomogeneityP     float64
+	HomogeneityDF1, HomogeneityDF2 int
+	// OnTreatment is the analysis of the covariate itself with the same
+	// model and plots (nil when it cannot be fitted, for example when the
+	// treatments fix the covariate exactly), and OnTreatmentTest its F
+	// test of all treatment terms together (the treatment combinations,
+	// adjusted for the blocks), Source "treatments": significant means
+	// the treatments changed the covariate, which must then not be used.
+	OnTreatment     *Result
+	HasOnTreatment  bool
+	OnTreatmentTest Line
+	// Unadjusted is the analysis of the response without the covariate,
+	// on the same plots (nil when it cannot be fitted).
+	Unadjusted *Result
 }
 
 // UnitResiduals are the residuals of one higher error stratum: the
