@@ -320,9 +320,6 @@ func AnalyzeData(d *Data, o Options) (*Result, error) {
 		Excluded: d.Excluded, Untreated: d.Untreated,
 	}
 	if len(d.Factors) > 0 {
-		if d.Covariate != nil {
-			return nil, &Error{Trait: d.TraitKey, Msg: "analysis of covariance is not available for crossed treatment factors yet; analyse the trait without --covariate"}
-		}
 		return analyzeFactorial(d, o, r)
 	}
 	var x []float64

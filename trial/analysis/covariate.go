@@ -5,6 +5,7 @@ import (
 	"math"
 
 	"furlong/stats"
+	"furlong/stats/glm"
 	"furlong/trial"
 )
 
@@ -69,7 +70,11 @@ func covariateNotes(r *Result) []string {
 		name = c.Key
 	}
 	var w []string
-	w = append(w, fmt.Sprintf("Adjusted for the covariate %s (analysis of covariance): means are the values expected at the covariate's mean, %s; the treatment F test is adjusted for the covariate, which takes one degree of freedom from the error.", name, fmtG(c.Mean)))
+	if r.IsFactorial() {
+		w = append(w, fmt.Sprintf("Adjusted for the covariate %s (analysis of covariance): the means of every effect are the values expected at the covariate's mean, %s; each line's sum of squares is adjusted for the covariate and for the terms that do not contain it (so the lines do not add up to the total), and the covariate takes one degree of freedom from the error.", name, fmtG(c.Mean)))
+	} else {
+		w = append(w, fmt.Sprintf("Adjusted for the covariate %s (analysis of covariance): means are the values expected at the covariate's mean, %s; the treatment F test is adjusted for the covariate, which takes one degree of freedom from the error.", name, fmtG(c.Mean)))
+	}
 	if c.Left > 0 {
 		w = append(w, fmt.Sprintf("%s without a value of %s left out of the analysis.", plural(c.Left, "plot", "plots"), name))
 	}
@@ -116,4 +121,33 @@ func fitCovariate(r *Result, d *Data, m stats.Model, x []float64, o Options) (*s
 // missing.
 func dropMissingCovariate(d *Data, i int) bool {
 	return d.Covariate != nil && math.IsNaN(d.Covariate[i])
+}
+
+// factorialCovariate fills r.Covariate from the covariance analysis of
+// crossed factors: the slope and its tests, the F test of all treatment
+// terms on the covariate itself, and the unadjusted means of the
+// treatment combinations (combo gives each treatment's combination).
+func factorialCovariate(r *Result, d *Data, g *glm.Result, combo func(int) int, left int, o Options) error {
+	c := g.Covariate
+	rc := &Covariate{Key: d.CovariateKey, Name: d.CovariateName, Mean: c.Mean, Slope: c.Slope, SE: c.SE, P: c.P, Left: left}
+	if c.HasHomogeneity {
+		rc.HomogeneityF, rc.HomogeneityP = ptr(c.HomogeneityF), ptr(c.HomogeneityP)
+		rc.HomogeneityDF1, rc.HomogeneityDF2 = c.HomogeneityDF1, c.HomogeneityDF2
+	}
+	if ot := c.OnTreatmentTest; c.HasOnTreatment && finite(ot.F) && finite(ot.P) {
+		rc.OnTreatmentF, rc.OnTreatmentP = ptr(ot.F), ptr(ot.P)
+		rc.Responds = ot.P < o.Alpha
+	}
+	if u := c.Unadjusted; u != nil && len(u.Effects) > 0 {
+		top := u.Effects[len(u.Effects)-1]
+		for ti := range d.Treatments {
+			ci := combo(ti)
+			if ci < 0 || ci >= len(top.Means) || !top.Means[ci].Estimable {
+				return fmt.Errorf("the unadjusted mean of treatment %s cannot be estimated from the plots present", d.Treatments[ti])
+			}
+			rc.Unadjusted = append(rc.Unadjusted, top.Means[ci].Mean)
+		}
+	}
+	r.Covariate = rc
+	return nil
 }

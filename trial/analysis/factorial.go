@@ -254,14 +254,25 @@ func analyzeFactorial(d *Data, o Options, r *Result) (*Result, error) {
 	if blocked && d.Block == nil {
 		return fail(fmt.Sprintf("a %s needs the block of every plot", d.Design.Name()), stats.ErrNoData)
 	}
+	if d.Covariate != nil && structure != glm.Factorial {
+		return fail(fmt.Sprintf("analysis of covariance can be used with crossed factors in a completely randomised design or in randomised complete blocks, not in a %s (its error strata would need a covariate term of their own); analyse this trait without the covariate", d.Design.Name()), ErrUnknownDesign)
+	}
 	k := len(d.Treatments)
-	var y []float64
+	var y, x []float64
 	var trt, plots, pidx, blk []int
+	covLeft := 0
 	lv := make([][]int, len(d.Factors))
 	for i, v := range d.Values {
 		if math.IsNaN(v) {
 			r.Missing++
 			continue
+		}
+		if dropMissingCovariate(d, i) {
+			covLeft++
+			continue
+		}
+		if d.Covariate != nil {
+			x = append(x, d.Covariate[i])
 		}
 		y = append(y, v)
 		trt = append(trt, d.Treatment[i])
@@ -315,7 +326,7 @@ func analyzeFactorial(d *Data, o Options, r *Result) (*Result, error) {
 		return fail(describeStatsError(d, err, plots), err)
 	}
 	r.Offset = offset
-	m := glm.Model{Response: ty, Structure: structure, Alpha: o.Alpha, LowerIsBetter: !d.HigherBetter}
+	m := glm.Model{Response: ty, Structure: structure, Alpha: o.Alpha, LowerIsBetter: !d.HigherBetter, Covariate: x}
 	for f, fd := range d.Factors {
 		m.Factors = append(m.Factors, glm.Factor{Name: fd.Key, Levels: fd.Levels, Index: lv[f]})
 	}
@@ -367,6 +378,8 @@ func analyzeFactorial(d *Data, o Options, r *Result) (*Result, error) {
 			ln.Role = stats.RoleErrorStratum
 		case l.Role == glm.RoleError:
 			ln.Role = stats.RoleError
+		case l.Role == glm.RoleCovariate:
+			ln.Role = stats.RoleCovariate
 		default:
 			ln.Role = stats.RoleTotal
 		}
@@ -462,6 +475,11 @@ func analyzeFactorial(d *Data, o Options, r *Result) (*Result, error) {
 	if err := comboMeans(r, d, top, combo, o, back); err != nil {
 		return fail(err.Error(), err)
 	}
+	if g.Covariate != nil {
+		if err := factorialCovariate(r, d, g, combo, covLeft, o); err != nil {
+			return fail(err.Error(), err)
+		}
+	}
 	r.ANOVA = factorialANOVA(g, r, ty)
 	if d.PercentOfCheck {
 		percentOfCheck(r)
@@ -473,8 +491,11 @@ func analyzeFactorial(d *Data, o Options, r *Result) (*Result, error) {
 			r.Notes = append(r.Notes, e.Note)
 		}
 	}
-	for _, n := range g.Notes {
-		r.Notes = append(r.Notes, sentence(n))
+	if g.Covariate == nil {
+		// With a covariate, covariateNotes says what glm's note says.
+		for _, n := range g.Notes {
+			r.Notes = append(r.Notes, sentence(n))
+		}
 	}
 	notes(r, d, r.ANOVA)
 	return r, nil
@@ -634,7 +655,7 @@ func sedStats(c *glm.Comparison, k int, sed, df **float64, rng **Range, lsd, hsd
 // residuals within it and the combination means.
 func factorialANOVA(g *glm.Result, r *Result, ty []float64) *stats.ANOVA {
 	a := &stats.ANOVA{N: g.N, GrandMean: g.GrandMean, DFError: g.ResidualDF, Balanced: g.Balanced,
-		Adjusted: g.Method == glm.SumsOfSquares && !g.Balanced, Fitted: g.Fitted, Residuals: g.Residuals}
+		Adjusted: g.Method == glm.SumsOfSquares && (!g.Balanced || g.Covariate != nil), Fitted: g.Fitted, Residuals: g.Residuals}
 	for _, l := range r.Factorial.Lines {
 		s := stats.Source{Name: l.Source, Role: l.Role, DF: l.DF}
 		if l.SS != nil {
