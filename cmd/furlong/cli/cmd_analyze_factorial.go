@@ -155,6 +155,7 @@ func writeFactorialTables(w io.Writer, r *analysis.Result) {
 		}
 		fmt.Fprintf(w, "Variance components: %s\n", strings.Join(parts, ", "))
 	}
+	writeCovariateText(w, r) // cmd_analyze_covariate.go
 
 	for i := range fr.Effects {
 		e := &fr.Effects[i]
