@@ -110,3 +110,21 @@ func BenchmarkSplitPlot6x10REML(b *testing.B) {
 		}
 	}
 }
+
+// The 3 × 4 × 5 factorial above adjusted for a covariate (made from the
+// plot number): the covariance analysis, the separate-slopes test, the
+// covariate's own analysis and the unadjusted one.
+func BenchmarkFactorial3x4x5MissingCovariate(b *testing.B) {
+	m := simulated(7, []int{3, 4, 5}, 4, Factorial, 12)
+	m.AllSlices = true
+	m.Covariate = make([]float64, len(m.Response))
+	for i := range m.Covariate {
+		m.Covariate[i] = float64((37*(i+1))%17) + 0.25*float64((i+1)%5)
+	}
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := Fit(m); err != nil {
+			b.Fatal(err)
+		}
+	}
+}

@@ -108,7 +108,7 @@ func covariateCompanions(m Model, used []int, cv *Covariance) {
 		mask[i] = false
 	}
 	plain := m
-	plain.Covariate, plain.Missing = nil, mask
+	plain.Covariate, plain.Missing, plain.AllSlices = nil, mask, false
 	if r, err := Fit(plain); err == nil {
 		cv.Unadjusted = r
 	}

@@ -97,6 +97,33 @@
 // others, with an F test of the slice (Fai–Cornelius df when strata mix)
 // and its own comparisons.
 //
+// # Analysis of covariance
+//
+// A factorial (CRD or RCBD) can be adjusted for a covariate measured on
+// the same plots (Model.Covariate; a plot without a value is left out and
+// counted): the covariate is one more column of the fixed model,
+//
+//	y = block + A + B + A:B + … + β·x + e
+//
+// (Snedecor & Cochran 1989, Statistical Methods, 8th ed., ch. 18; Steel &
+// Torrie 1980, ch. 17, for one list of treatments). Its line is its
+// reduction in the residual sum of squares after the blocks and every
+// treatment term (one df); each treatment term and the blocks are type II
+// as above with the covariate among the terms they are adjusted for; the
+// error has one df less. The estimated marginal means of every effect
+// are taken at the covariate's mean over the plots analysed (its
+// coefficient in L is 0 once it is centred), so their SEs, SEDs, pairs,
+// letters and slices are those of adjusted means, all on the error df.
+// Result.Covariate holds the common slope with its SE and t test, the
+// test of homogeneity of slopes (a separate slope for every treatment
+// combination against the common slope, on the extra slopes' df and the
+// error df of that model), the analysis of the covariate itself with the
+// same model and plots, with the F test of all treatment terms together
+// (a significant one means the treatments changed the covariate, which
+// must then not be used), and the unadjusted analysis of the same plots.
+// Split and strip plots with a covariate are refused: their strata would
+// need the covariate in each stratum.
+//
 // # Residuals
 //
 // Result.Residuals are within the lowest stratum: the response minus the

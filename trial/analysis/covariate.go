@@ -26,8 +26,9 @@ type Covariate struct {
 	HomogeneityF, HomogeneityP     *float64
 	HomogeneityDF1, HomogeneityDF2 int
 	// OnTreatmentF and OnTreatmentP are the F test of the covariate itself
-	// on the treatments (the same design's ANOVA); nil when it could not be
-	// computed. Responds is true when that test is significant at Alpha:
+	// on the treatments (the same design's ANOVA; for crossed factors the
+	// test of all treatment terms together, the combinations after the
+	// blocks); nil when it could not be computed. Responds is true when that test is significant at Alpha:
 	// the covariate must then not be used (see Warnings).
 	OnTreatmentF, OnTreatmentP *float64
 	Responds                   bool

@@ -255,7 +255,7 @@ func analyzeFactorial(d *Data, o Options, r *Result) (*Result, error) {
 		return fail(fmt.Sprintf("a %s needs the block of every plot", d.Design.Name()), stats.ErrNoData)
 	}
 	if d.Covariate != nil && structure != glm.Factorial {
-		return fail(fmt.Sprintf("analysis of covariance can be used with crossed factors in a completely randomised design or in randomised complete blocks, not in a %s (its error strata would need a covariate term of their own); analyse this trait without the covariate", d.Design.Name()), ErrUnknownDesign)
+		return fail(fmt.Sprintf("analysis of covariance can be used with crossed factors in a completely randomised design or in randomised complete blocks, not in a %s (its error strata would need a covariate term of their own); analyse this trait without the covariate", d.Design.Name()), nil)
 	}
 	k := len(d.Treatments)
 	var y, x []float64

@@ -49,7 +49,7 @@ func init() {
 		usage: `furlong analyze TRIAL.furlong [--trait KEY] [--alpha 0.05] [--format text|json|csv] [--transform log|sqrt|arcsin] [--unprotected]
                 [--check CODE] [--contrast "NAME=A,B vs C"]... [--adjust none|bonferroni|holm|scheffe]
 furlong analyze DATA.csv --treatment COL [--block COL | --row COL --column COL] [--response COL]... [--covariate COL] [flags]
-furlong analyze DATA.csv --factor COL --factor COL [--factor COL] [--block COL] [--main-plot COL | --strip-plot] [--response COL]... [flags]`,
+furlong analyze DATA.csv --factor COL --factor COL [--factor COL] [--block COL] [--main-plot COL | --strip-plot] [--response COL]... [--covariate COL] [flags]`,
 		details: `Analyses every trait of a trial (or the one named by --trait) with the ANOVA that fits its design:
 one-way for a completely randomised design, treatment + block for an RCBD, treatment + row + column
 for a Latin square. With missing plots the model is fitted by least squares, each sum of squares is
@@ -64,10 +64,11 @@ comma-separated file a comma inside a number is refused as ambiguous unless --de
 given; semicolon- and tab-separated files may use decimal commas.
 
 --covariate KEY|COL adjusts each trait for a covariate measured on the same plots (a stand count, a
-count before treatment, a soil value): analysis of covariance in a CRD, RCBD or Latin square, with
-means adjusted to the covariate's mean, the test of its slope and of equal slopes across the
-treatments, and a warning when the covariate itself differs between treatments (it must then not
-be used).
+count before treatment, a soil value): analysis of covariance in a CRD, RCBD or Latin square, and
+with crossed factors in a factorial CRD or RCBD (the covariate a term of the factorial model; not in
+a split or strip plot), with means adjusted to the covariate's mean, the test of its slope and of
+equal slopes across the treatments, and a warning when the covariate itself differs between
+treatments (it must then not be used).
 
 ` + factorialHelp + `
 ` + contrastHelp + `
