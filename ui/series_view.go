@@ -967,4 +967,3 @@ func (g *textGrid) find(s string) int {
 	}
 	return -1
 }
-
