@@ -70,6 +70,9 @@ type App struct {
 	// it replaced.
 	series     *seriesView
 	seriesPrev fyne.CanvasObject
+	// seriesPost, when set, replaces fyne.Do for the series view's
+	// background work (tests run it on their own goroutine).
+	seriesPost func(func())
 
 	// unsavedAsk is the overlay of the save-changes question while it is
 	// open.

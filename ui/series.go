@@ -100,6 +100,9 @@ const seriesNewName = "New series"
 
 func newSeriesView(u *App) *seriesView {
 	v := &seriesView{u: u, name: seriesNewName, method: u.prefs.method, alpha: u.prefs.alpha, post: fyne.Do}
+	if u.seriesPost != nil {
+		v.post = u.seriesPost
+	}
 	v.build()
 	return v
 }
@@ -171,7 +174,13 @@ func (u *App) leaveSeries(then func()) {
 }
 
 // NewSeries opens an empty series.
-func (u *App) NewSeries() { u.enterSeries(func() *seriesView { return newSeriesView(u) }) }
+func (u *App) NewSeries() {
+	u.enterSeries(func() *seriesView {
+		v := newSeriesView(u)
+		v.refreshAll()
+		return v
+	})
+}
 
 // OpenDemoSeries opens the built-in demo series (five fictional sites) as a
 // new series whose trials have no files yet; Save as writes them beside

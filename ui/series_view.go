@@ -220,7 +220,7 @@ func (v *seriesView) build() {
 	upper := container.NewVScroll(container.NewVBox(w.method2, heading("Analysis of variance across sites"), w.anova.box, w.errLine))
 	lower := container.NewBorder(heading("Each site on its own"), w.bartlett, nil, nil, w.sitesTab.Table)
 	anovaSplit := container.NewVSplit(upper, lower)
-	anovaSplit.Offset = 0.5
+	anovaSplit.Offset = 0.58
 
 	// Stability.
 	w.stability = newTextTable()
@@ -290,7 +290,7 @@ func (v *seriesView) refreshTrials() {
 				details = append(details, "check "+c[0].Code)
 			}
 			if st.path == "" {
-				details = append(details, "demo, no file yet")
+				details = append(details, "no file yet")
 			}
 		}
 		name := widget.NewLabelWithStyle(title, fyne.TextAlignLeading, fyne.TextStyle{Bold: true})
@@ -638,21 +638,23 @@ func (v *seriesView) showCombined() {
 	d, _ := v.decimals()
 	var lines []string
 	if r.Method == stseries.MethodTwoStage {
-		lines = append(lines, "Method: two-stage analysis of the site means (each site's means first, then an entry + site model on them; its residual is the entry × site interaction). Why: "+r.MethodReason)
+		lines = append(lines, "Method: "+sentence(r.MethodReason)+" Each site's means first, then an entry + site model on them; its residual is the entry × site interaction.")
 		if r.Weighted {
 			lines = append(lines, "Weighting: each site mean weighted by its stage-1 precision.")
 		} else {
 			lines = append(lines, "Weighting: none (every site mean counts the same).")
 		}
 	} else {
-		lines = append(lines, "Method: combined analysis of the plots (one ANOVA of every site's plots: sites, blocks within sites, entries, entries × sites, pooled error). Why: "+r.MethodReason)
+		lines = append(lines, "Method: "+sentence(r.MethodReason)+" One ANOVA of every site's plots: sites, blocks within sites, entries, entries × sites, pooled error.")
 	}
 	if r.Sites == stseries.SitesFixed {
 		lines = append(lines, "Sites fixed: entries are tested against the pooled error, so the comparison holds for these sites only.")
 	} else {
 		lines = append(lines, "Sites random: entries are tested against the entry × site interaction, so the comparison speaks for sites like these.")
 	}
-	lines = append(lines, r.Notes...)
+	for _, n := range r.Notes {
+		lines = append(lines, "Note: "+sentence(n))
+	}
 	v.w.method2.SetText(strings.Join(lines, "\n"))
 
 	var rows [][]string
@@ -839,7 +841,7 @@ func (v *seriesView) showWarnings() {
 		b.WriteString("No warnings.\n")
 	}
 	for _, w := range r.Warnings {
-		b.WriteString("• " + w + "\n")
+		b.WriteString("• " + sentence(w) + "\n")
 	}
 	if len(r.Missing) > 0 {
 		b.WriteString("\nEntries not tested everywhere:\n")
@@ -966,4 +968,19 @@ func (g *textGrid) find(s string) int {
 		}
 	}
 	return -1
+}
+
+// sentence makes s a sentence: a capital first letter and a full stop.
+func sentence(s string) string {
+	s = strings.TrimSpace(s)
+	if s == "" {
+		return s
+	}
+	if r := []rune(s); r[0] >= 'a' && r[0] <= 'z' {
+		s = strings.ToUpper(string(r[0])) + string(r[1:])
+	}
+	if !strings.HasSuffix(s, ".") {
+		s += "."
+	}
+	return s
 }
