@@ -374,8 +374,12 @@ func (v *seriesView) offerFolder(dir string) {
 		}
 		names = append(names, filepath.Base(p))
 	}
-	dialog.ShowConfirm("Add the other trials of the folder?", fmt.Sprintf("The folder %s holds %s besides: %s.\n\nAdd %s to the series too?",
-		filepath.Base(dir), plural(len(more), "another trial file", "other trial files"), strings.Join(names, ", "), plural(len(more), "it", "them")),
+	them := "them"
+	if len(more) == 1 {
+		them = "it"
+	}
+	dialog.ShowConfirm("Add the other trials of the folder?", fmt.Sprintf("The folder “%s” also holds %s: %s.\n\nAdd %s to the series too?",
+		filepath.Base(dir), plural(len(more), "other trial file", "other trial files"), strings.Join(names, ", "), them),
 		func(ok bool) {
 			if !ok {
 				return
