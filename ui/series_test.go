@@ -572,3 +572,36 @@ func TestSeriesExportWorkbook(t *testing.T) {
 		t.Errorf("sheets %q", sheets)
 	}
 }
+
+// BenchmarkSeriesView40Sites measures a 40-site series of 300 entries in
+// 4 blocks in the view: the analysis and charts (off the UI goroutine),
+// and separately the work the UI goroutine does to show the result
+// (ui-ms/op), which is what could freeze the window.
+func BenchmarkSeriesView40Sites(b *testing.B) {
+	u, _ := newTestApp(b, 0)
+	posts := make(chan func(), 16)
+	u.seriesPost = func(f func()) { posts <- f }
+	u.NewSeries()
+	v := u.series
+	for j := range 40 {
+		tr := bigTrial(b, 1200)
+		tr.Site.Name = "Site " + strconv.Itoa(j+1)
+		for i := range tr.Traits[0].Values {
+			tr.Traits[0].Values[i] += 0.05*float64(j) + 0.01*float64((i*j)%13)
+		}
+		v.trial = append(v.trial, &seriesTrial{t: tr, ref: series.TrialRef{Path: "site" + strconv.Itoa(j+1) + ".furlong"}})
+	}
+	v.opts.Trait = "wt"
+	var ui time.Duration
+	for b.Loop() {
+		v.analyse()
+		f := <-posts
+		start := time.Now()
+		f()
+		ui += time.Since(start)
+		if v.res == nil {
+			b.Fatalf("no result: %q", v.w.problem.Text)
+		}
+	}
+	b.ReportMetric(float64(ui.Milliseconds())/float64(b.N), "ui-ms/op")
+}
