@@ -144,11 +144,10 @@ func (u *App) leaveSeries(then func()) {
 			u.win.SetContent(u.seriesPrev)
 			u.seriesPrev = nil
 		}
-		then()
-		if u.doc == nil && u.series == nil {
-			u.showStart()
+		if u.doc == nil {
+			u.showStart() // what comes next (a trial, another series, quitting) replaces it
 		}
-		u.updateMenus()
+		then()
 	}
 	if !v.dirty {
 		closeIt()
@@ -388,6 +387,30 @@ func (v *seriesView) offerFolder(dir string) {
 				v.add(p)
 			}
 		}, v.u.win)
+}
+
+// locateDialog asks where the missing trial file of st is now.
+func (v *seriesView) locateDialog(st *seriesTrial) {
+	v.u.chooseFile(chooseOptions{title: "Where is " + st.fileName() + "?", exts: []string{trialExt}, confirm: "Use this file"}, func(p string) {
+		v.locate(st, p)
+	})
+}
+
+// locate takes the trial file at path for the missing trial st (read in
+// the background).
+func (v *seriesView) locate(st *seriesTrial, path string) {
+	if abs, err := filepath.Abs(path); err == nil {
+		path = abs
+	}
+	if slices.ContainsFunc(v.trial, func(x *seriesTrial) bool { return x != st && x.path == path }) {
+		dialog.ShowInformation("Already in the series", filepath.Base(path)+" is already a trial of this series.", v.u.win)
+		return
+	}
+	st.path, st.ref = path, series.TrialRef{Path: filepath.ToSlash(path)}
+	st.missing, st.problem = false, ""
+	v.setDirty()
+	v.load([]*seriesTrial{st}, nil)
+	v.refreshAll()
 }
 
 // remove takes trial st out of the series.

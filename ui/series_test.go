@@ -402,6 +402,81 @@ func TestSeriesMissingTrialFile(t *testing.T) {
 	if slices.Contains(v.w.presence.head, "Tarnbeck Flats 2026") {
 		t.Error("the missing trial is in the presence table")
 	}
+
+	// Locating the file where it went brings the trial back.
+	demo, err := sampledata.SeriesTrials()
+	if err != nil {
+		t.Fatal(err)
+	}
+	moved := filepath.Join(t.TempDir(), "moved.furlong")
+	if err := os.WriteFile(moved, demo[3].Bytes, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	var gone *seriesTrial
+	for _, st := range v.trial {
+		if st.missing {
+			gone = st
+		}
+	}
+	if gone == nil || !slices.ContainsFunc(buttonsIn(v.w.trials), func(b *widget.Button) bool { return b.Text == "Locate…" }) {
+		t.Fatal("the missing trial has no Locate button")
+	}
+	v.locate(gone, moved)
+	v = pumpSeries(t, u, posts)
+	if gone.missing || gone.problem != "" || gone.path != moved || !v.dirty {
+		t.Errorf("located trial: %+v, dirty %v", gone, v.dirty)
+	}
+	if v.res == nil || len(v.res.SiteStats) != 5 || !slices.Contains(v.w.presence.head, "Tarnbeck Flats 2026") {
+		t.Errorf("after locating: %v", v.w.presence.head)
+	}
+}
+
+// buttonsIn collects the buttons in c.
+func buttonsIn(c *fyne.Container) []*widget.Button {
+	var out []*widget.Button
+	var walk func(o fyne.CanvasObject)
+	walk = func(o fyne.CanvasObject) {
+		switch x := o.(type) {
+		case *widget.Button:
+			out = append(out, x)
+		case *fyne.Container:
+			for _, k := range x.Objects {
+				walk(k)
+			}
+		}
+	}
+	walk(c)
+	return out
+}
+
+// Closing a series with unsaved changes asks first (nothing is dropped
+// without the user's choice, as the window does for a trial: askUnsaved); Cancel
+// keeps it open, "Close without saving" goes back to the start screen.
+func TestSeriesCloseAsksAboutChanges(t *testing.T) {
+	u, w := newTestApp(t, 0)
+	posts := seriesPosts(u)
+	if err := u.OpenDemoSeries(); err != nil {
+		t.Fatal(err)
+	}
+	v := pumpSeries(t, u, posts)
+	v.w.sites.SetSelected(sitesFixedLabel)
+	v = pumpSeries(t, u, posts)
+	u.closeCommand()
+	dialogButton(t, w, "Cancel").OnTapped()
+	if u.series != v || w.Content() != v.w.root {
+		t.Fatal("Cancel closed the series")
+	}
+	u.closeCommand()
+	dialogButton(t, w, "Close without saving").OnTapped()
+	if u.series != nil || w.Content() == v.w.root {
+		t.Fatal("the series is still open")
+	}
+	if len(u.body.Objects) != 1 || u.body.Objects[0] != u.start.object() {
+		t.Error("the start screen is not shown after closing the series")
+	}
+	if strings.Contains(w.Title(), "Series") {
+		t.Errorf("title %q", w.Title())
+	}
 }
 
 // labelsIn collects the text of every label in c.

@@ -309,7 +309,11 @@ func (v *seriesView) refreshTrials() {
 			col.Add(p)
 		}
 		rm := widget.NewButtonWithIcon("", theme.DeleteIcon(), func() { v.remove(st) })
-		box.Add(container.NewBorder(nil, widget.NewSeparator(), nil, container.NewVBox(rm), col))
+		buttons := container.NewVBox(rm)
+		if st.missing {
+			buttons.Add(widget.NewButton("Locate…", func() { v.locateDialog(st) }))
+		}
+		box.Add(container.NewBorder(nil, widget.NewSeparator(), nil, buttons, col))
 	}
 	box.Refresh()
 }
