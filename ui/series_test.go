@@ -392,12 +392,15 @@ func TestSeriesMissingTrialFile(t *testing.T) {
 		if st == nil || st.problem != p.Msg || st.missing != p.Missing {
 			t.Errorf("%s: shown %+v, want %q", p.Path, st, p.Msg)
 		}
-		if !slices.ContainsFunc(labelsIn(v.w.trials), func(s string) bool { return s == p.Msg }) {
+		if !slices.ContainsFunc(labelsIn(v.w.trials), func(s string) bool { return s == sentence(p.Msg) }) {
 			t.Errorf("the trials' list does not say %q", p.Msg)
 		}
 	}
 	if v.res == nil || len(v.res.SiteStats) != 4 {
 		t.Fatalf("the four readable trials are not analysed: %v (%q)", v.res, v.w.problem.Text)
+	}
+	if note := v.w.trialsNote.Text; !v.w.trialsNote.Visible() || !strings.HasPrefix(note, "1 trial file is missing") || !strings.Contains(note, "1 trial file has changed") {
+		t.Errorf("trials note %q", note)
 	}
 	if slices.Contains(v.w.presence.head, "Tarnbeck Flats 2026") {
 		t.Error("the missing trial is in the presence table")
@@ -425,6 +428,9 @@ func TestSeriesMissingTrialFile(t *testing.T) {
 	v = pumpSeries(t, u, posts)
 	if gone.missing || gone.problem != "" || gone.path != moved || !v.dirty {
 		t.Errorf("located trial: %+v, dirty %v", gone, v.dirty)
+	}
+	if note := v.w.trialsNote.Text; strings.Contains(note, "missing") {
+		t.Errorf("trials note after locating: %q", note)
 	}
 	if v.res == nil || len(v.res.SiteStats) != 5 || !slices.Contains(v.w.presence.head, "Tarnbeck Flats 2026") {
 		t.Errorf("after locating: %v", v.w.presence.head)

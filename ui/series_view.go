@@ -43,6 +43,7 @@ type seriesWidgets struct {
 	problem                  *widget.Label // why there is no analysis to show
 
 	trials       *fyne.Container
+	trialsNote   *widget.Label // how many trial files need attention
 	presence     *textTable
 	presenceNote *widget.Label
 
@@ -196,7 +197,11 @@ func (v *seriesView) build() {
 	w.presenceNote = widget.NewLabel("")
 	w.presenceNote.Importance = widget.LowImportance
 	w.presenceNote.Wrapping = fyne.TextWrapWord
-	trialsPane := container.NewBorder(heading("Trials of the series"), nil, nil, nil, container.NewVScroll(w.trials))
+	w.trialsNote = widget.NewLabel("")
+	w.trialsNote.Wrapping = fyne.TextWrapWord
+	w.trialsNote.Importance = widget.DangerImportance
+	w.trialsNote.Hide()
+	trialsPane := container.NewBorder(container.NewVBox(heading("Trials of the series"), w.trialsNote), nil, nil, nil, container.NewVScroll(w.trials))
 	presencePane := container.NewBorder(container.NewVBox(heading("Entries at each site"), w.presenceNote), nil, nil, nil, w.presence.Table)
 	trialsSplit := container.NewHSplit(trialsPane, presencePane)
 	trialsSplit.Offset = 0.36
@@ -300,7 +305,7 @@ func (v *seriesView) refreshTrials() {
 		info.Truncation = fyne.TextTruncateEllipsis
 		col := container.NewVBox(name, info)
 		if st.problem != "" {
-			p := widget.NewLabel(st.problem)
+			p := widget.NewLabel(sentence(st.problem))
 			p.Wrapping = fyne.TextWrapWord
 			p.Importance = widget.WarningImportance
 			if st.missing {
@@ -316,6 +321,25 @@ func (v *seriesView) refreshTrials() {
 		box.Add(container.NewBorder(nil, widget.NewSeparator(), nil, buttons, col))
 	}
 	box.Refresh()
+	missing, changed := 0, 0
+	for _, st := range v.trial {
+		switch {
+		case st.missing:
+			missing++
+		case st.problem != "":
+			changed++
+		}
+	}
+	var parts []string
+	if missing > 0 {
+		parts = append(parts, plural(missing, "trial file is missing or unreadable (Locate… finds it, the bin takes it out of the series)", "trial files are missing or unreadable (Locate… finds each, the bin takes it out of the series)"))
+	}
+	if changed > 0 {
+		parts = append(parts, plural(changed, "trial file has changed since it was added (saving the series takes it as it is now)", "trial files have changed since they were added (saving the series takes them as they are now)"))
+	}
+	v.w.trialsNote.SetText(strings.Join(parts, "; "))
+	v.w.trialsNote.Hidden = len(parts) == 0
+	v.w.trialsNote.Refresh()
 }
 
 // refreshOptions fills the trait and check choices from the trials read
