@@ -239,6 +239,7 @@ func TestSeriesOpenFillsTables(t *testing.T) {
 		}
 	}
 	// Any two entries.
+	respBefore := v.w.charts.Items[len(v.w.charts.Items)-1].Content
 	v.w.pairA.SetSelected(entryLabel("HM01", "HM-2201"))
 	v.w.pairB.SetSelected(entryLabel("HM07", "HM-2207"))
 	pair, err := want.Pair("HM01", "HM07")
@@ -247,6 +248,11 @@ func TestSeriesOpenFillsTables(t *testing.T) {
 	}
 	if !strings.Contains(v.w.pairText.Text, "mean difference "+fixed(pair.MeanDiff, d)) {
 		t.Errorf("pair text %q, want the difference %s", v.w.pairText.Text, fixed(pair.MeanDiff, d))
+	}
+	if it := v.w.charts.Items[len(v.w.charts.Items)-1]; it.Text != responseTitle || it.Content == respBefore {
+		t.Errorf("the response chart (%q) was not drawn again with the pair", it.Text)
+	} else if _, ok := it.Content.(*chartView); !ok {
+		t.Errorf("the response chart is a %T", it.Content)
 	}
 
 	// Charts: means, heat maps, response lines, all drawn.

@@ -849,7 +849,8 @@ func (v *seriesView) showPair() {
 	if h.PercentOfB != nil {
 		s += "; " + ca + " is " + fixed(*h.PercentOfB, 1) + "% of " + cb + " over these sites"
 	}
-	v.w.pairText.SetText(s + ".")
+	v.w.pairText.SetText(s + ". The response chart shows both in colour.")
+	v.highlightPair(ca, cb)
 }
 
 // codeOf is the entry code of a label of the entry choices.
@@ -923,6 +924,25 @@ func (v *seriesView) showCharts() {
 	}
 }
 
+// responseTitle is the tab of the Finlay–Wilkinson chart.
+const responseTitle = "Response to the site (Finlay–Wilkinson)"
+
+// highlightPair draws the response chart again with entries a and b in
+// colour beside the check (a small plot, built on the UI goroutine).
+func (v *seriesView) highlightPair(a, b string) {
+	for _, it := range v.w.charts.Items {
+		if it.Text != responseTitle {
+			continue
+		}
+		p, err := safePlot(func() (*plot.Plot, error) { return chart.Response(chart.FromSeries(v.res, v.name, []string{a, b})) })
+		if err != nil {
+			return // the chart as it was
+		}
+		it.Content = newChartView(p)
+		v.w.charts.Refresh()
+	}
+}
+
 // drawSeriesCharts builds the series charts of r (off the UI goroutine):
 // the means across sites with letters, the entry × site heat map (and as
 // % of the check) and the Finlay–Wilkinson lines.
@@ -945,7 +965,7 @@ func drawSeriesCharts(r *series.Result, name string, m meansep.Method) []chartIm
 			return chart.SeriesHeatMap(s, chart.SeriesHeatMapOptions{PercentOfCheck: true, Order: chart.ByMean})
 		}})
 	}
-	makers = append(makers, maker{"Response to the site (Finlay–Wilkinson)", func() (*plot.Plot, error) { return chart.Response(s) }})
+	makers = append(makers, maker{responseTitle, func() (*plot.Plot, error) { return chart.Response(s) }})
 	out := make([]chartImage, 0, len(makers))
 	for _, mk := range makers {
 		p, err := safePlot(mk.make)
