@@ -222,10 +222,10 @@ func (v *seriesView) build() {
 	w.sitesTab = newTextTable()
 	w.bartlett = widget.NewLabel("")
 	w.bartlett.Wrapping = fyne.TextWrapWord
-	upper := container.NewVScroll(container.NewVBox(w.method2, heading("Analysis of variance across sites"), w.anova.box, w.errLine))
-	lower := container.NewBorder(heading("Each site on its own"), w.bartlett, nil, nil, w.sitesTab.Table)
-	anovaSplit := container.NewVSplit(upper, lower)
-	anovaSplit.Offset = 0.58
+	left := container.NewVScroll(container.NewVBox(w.method2, heading("Analysis of variance across sites"), w.anova.box, w.errLine))
+	right := container.NewBorder(heading("Each site on its own"), w.bartlett, nil, nil, w.sitesTab.Table)
+	anovaSplit := container.NewHSplit(left, right)
+	anovaSplit.Offset = 0.45
 
 	// Stability.
 	w.stability = newTextTable()
@@ -531,8 +531,8 @@ func (v *seriesView) showResult() {
 	v.showCombined()
 	v.showStability()
 	v.showHeadToHead()
-	v.showPair()
 	v.showCharts()
+	v.showPair() // after the charts: it draws the pair in the response chart
 	v.showWarnings()
 }
 
