@@ -466,6 +466,9 @@ func (v *seriesView) refreshPresence() {
 		}
 		rows = append(rows, append(row, strconv.Itoa(n)))
 	}
+	if len(trials) == 0 {
+		head = nil
+	}
 	v.w.presence.set(head, rows)
 	switch {
 	case len(trials) == 0:
