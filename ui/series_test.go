@@ -278,6 +278,11 @@ func TestSeriesOpenFillsTables(t *testing.T) {
 	// pooled error (two-stage: trial/series notes that fixed applies to
 	// the combined analysis).
 	v.w.sites.SetSelected(sitesFixedLabel)
+	// The analysis runs in the background: the choice returns at once and
+	// the result comes back through the UI goroutine's queue.
+	if !v.running || v.w.state.Text != "computing…" || v.res.Sites != stseries.SitesRandom {
+		t.Errorf("right after the choice: running %v, state %q", v.running, v.w.state.Text)
+	}
 	v = pumpSeries(t, u, posts)
 	if v.opts.Sites != "fixed" || !v.dirty {
 		t.Errorf("sites fixed: option %q, dirty %v", v.opts.Sites, v.dirty)
