@@ -443,15 +443,14 @@ const (
 func (v *seriesView) refreshPresence() {
 	trials, paths := v.loadedTrials()
 	codes, names := seriesEntries(trials)
-	head := []string{"Entry", "Name"}
+	head := []string{"Entry", "Name", "Sites"}
 	for i, t := range trials {
 		head = append(head, series.Label(t, paths[i]))
 	}
-	head = append(head, "Sites")
 	var rows [][]string
 	incomplete := 0
 	for i, c := range codes {
-		row := []string{c, names[i]}
+		row := []string{c, names[i], ""}
 		n := 0
 		for _, t := range trials {
 			if t.TreatmentIndex(c) >= 0 {
@@ -464,7 +463,8 @@ func (v *seriesView) refreshPresence() {
 		if n < len(trials) {
 			incomplete++
 		}
-		rows = append(rows, append(row, strconv.Itoa(n)))
+		row[2] = strconv.Itoa(n)
+		rows = append(rows, row)
 	}
 	if len(trials) == 0 {
 		head = nil
@@ -587,13 +587,14 @@ func (v *seriesView) showMeans() {
 	}
 	pct := v.w.meansPct.Checked && r.Check >= 0
 	d, dse := v.decimals()
-	head := []string{"Entry", "Name"}
-	for _, s := range r.SiteStats {
-		head = append(head, s.Label)
-	}
-	head = append(head, "Mean", "SE", "Sites", "Letters")
+	// The summary across sites first, then one column per site (a long
+	// series scrolls to the right).
+	head := []string{"Entry", "Name", "Mean", "SE", "Sites", "Letters"}
 	if r.Check >= 0 {
 		head = append(head, "% of check")
+	}
+	for _, s := range r.SiteStats {
+		head = append(head, s.Label)
 	}
 	var rows [][]string
 	for _, i := range v.meanOrder() {
@@ -602,7 +603,11 @@ func (v *seriesView) showMeans() {
 		if e.Check {
 			name = strings.TrimSpace(name + " (check)")
 		}
-		row := []string{e.Code, name}
+		m := r.Means[i]
+		row := []string{e.Code, name, fixed(m.Mean, d), fixed(m.SE, dse), strconv.Itoa(m.NSites), m.Letters}
+		if r.Check >= 0 {
+			row = append(row, optPercent(m.PercentOfCheck))
+		}
 		for j := range r.SiteStats {
 			switch x, ok := r.Cell(j, i); {
 			case !ok:
@@ -612,11 +617,6 @@ func (v *seriesView) showMeans() {
 			default:
 				row = append(row, fixed(x, d))
 			}
-		}
-		m := r.Means[i]
-		row = append(row, fixed(m.Mean, d), fixed(m.SE, dse), strconv.Itoa(m.NSites), m.Letters)
-		if r.Check >= 0 {
-			row = append(row, optPercent(m.PercentOfCheck))
 		}
 		rows = append(rows, row)
 	}
