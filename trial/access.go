@@ -409,7 +409,9 @@ func (t *Trial) Clone() *Trial {
 	c.Treatments = cloneTreatments(t.Treatments)
 	c.Traits = cloneTraits(t.Traits)
 	c.Operations = cloneOperations(t.Operations)
+	c.Economics = t.Economics.Clone()
 	c.Analysis.Contrasts = slices.Clone(t.Analysis.Contrasts)
+	c.Analysis.Response.LeaveOut = slices.Clone(t.Analysis.Response.LeaveOut)
 	c.Plots = make([]Plot, len(t.Plots))
 	for i, p := range t.Plots {
 		p.Exclusions = append([]Exclusion(nil), p.Exclusions...)

@@ -146,6 +146,16 @@ func (t *Trial) UpdateTreatment(code string, tr Treatment) error {
 				t.Plots[k].Treatment = tr.Code
 			}
 		}
+		for k, c := range t.Analysis.Response.LeaveOut {
+			if c == code {
+				t.Analysis.Response.LeaveOut[k] = tr.Code
+			}
+		}
+		for k := range t.Economics.Costs {
+			if t.Economics.Costs[k].Treatment == code {
+				t.Economics.Costs[k].Treatment = tr.Code
+			}
+		}
 	}
 	return nil
 }
@@ -345,6 +355,9 @@ func (t *Trial) UpdateTrait(key string, tr Trait) error {
 					t.Plots[i].Exclusions[e].Trait = tr.Key
 				}
 			}
+		}
+		if t.Economics.Trait == key {
+			t.Economics.Trait = tr.Key
 		}
 	}
 	var p problems

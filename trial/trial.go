@@ -44,6 +44,9 @@ type Trial struct {
 	// Operations is the trial's log of what was done, in date order:
 	// sowing, applications, assessments (operations.go).
 	Operations []Operation
+	// Economics are the user's prices for the margins over input cost
+	// (economics.go).
+	Economics Economics
 }
 
 // Analysis holds the settings of a trial's analysis that every view of it
@@ -55,6 +58,41 @@ type Analysis struct {
 	Method string
 	// Contrasts are the trial's planned comparisons (contrast.go).
 	Contrasts []Contrast
+	// Response holds the settings of the response analysis of a rate trial.
+	Response ResponseSettings
+}
+
+// ResponseSettings are the user's choices for the response analysis of a
+// rate trial (treatments with rates): which treatments stay out of the
+// trend and the price ratio of the economic optimum. Prices are the
+// user's: nothing is built in.
+type ResponseSettings struct {
+	// LeaveOut are treatment codes left out of the trend, for example an
+	// untreated control that is not part of the rate series.
+	LeaveOut []string
+	// PriceRatio is the price of one unit of input in units of produce
+	// (response units per rate unit, e.g. 0.006 t of grain per kg of N);
+	// 0 when none was given.
+	PriceRatio float64
+}
+
+// ResponseProblem says, in plain words, why s cannot be t's response
+// settings; "" when it can.
+func (t *Trial) ResponseProblem(s ResponseSettings) string {
+	if s.PriceRatio < 0 || s.PriceRatio != s.PriceRatio || s.PriceRatio > 1e12 {
+		return "the price ratio must be a positive number (the price of a unit of input in units of produce), or 0 for none"
+	}
+	seen := map[string]bool{}
+	for _, c := range s.LeaveOut {
+		if t.Treatment(c) == nil {
+			return "the trial has no treatment " + quote(c) + " to leave out of the trend"
+		}
+		if seen[c] {
+			return "the treatment " + quote(c) + " is left out twice"
+		}
+		seen[c] = true
+	}
+	return ""
 }
 
 // Mean-separation methods a trial can remember (the names stats/meansep

@@ -28,7 +28,7 @@ type compareView interface {
 
 // newViews makes the further views of Compare, in the order of their tabs.
 func (c *compareStep) newViews() []compareView {
-	return []compareView{newPairsView(c), newVsCheckView(c), newContrastsView(c), newEffectsView(c)}
+	return []compareView{newPairsView(c), newVsCheckView(c), newContrastsView(c), newEffectsView(c), newResponseView(c), newMarginsView(c)}
 }
 
 // meansHeader is the heading of column col of the means table: the SE

@@ -592,6 +592,31 @@ func writeTrait(d *doc, t *trial.Trial, tr trial.Trait, results []analysis.Outco
 		}
 	}
 
+	// A rate trial's response (export.ResponseFor: the window's Response
+	// view and 'furlong response' give the same).
+	if resp, err := export.ResponseFor(t, a); resp != nil {
+		if err := writeResponse(d, t, a, resp, err, meanDec, opts.Charts); err != nil {
+			return err
+		}
+	}
+
+	// The margins over input cost, on the trait they are worked out from.
+	if m, err := export.MarginsFor(t, a); m != nil || err != nil {
+		d.section("Margin over input cost", 25)
+		if err != nil {
+			d.note("The margins cannot be worked out: " + err.Error())
+		} else {
+			d.note(export.MarginsNote(m))
+			tt := export.MarginsTable(m, meanDec)
+			tb := table{heads: tt.Head, rows: tt.Rows, right: []bool{false, true, true, true, true, true, true, false, false}}
+			d.table(tb)
+			for _, n := range m.Notes {
+				d.note(n)
+			}
+			d.note("Caution: " + export.EconomicCautionText())
+		}
+	}
+
 	if len(a.Notes) > 0 || len(a.Diagnostics.Readings) > 0 {
 		d.section("Notes and model checks", 15)
 		for _, n := range a.Notes {
@@ -747,4 +772,56 @@ func writeOperations(d *doc, t *trial.Trial) {
 		}
 	}
 	d.table(tb)
+}
+
+// writeResponse writes a rate trial's response section: the trends on the
+// rates, the four models, the economic optimum and its sensitivity with the
+// economic cautions, and the chart. fitErr is the models' failure, if any.
+func writeResponse(d *doc, t *trial.Trial, a *analysis.Result, resp *analysis.Response, fitErr error, dec int, charts bool) error {
+	title := "Response to rate"
+	if resp.RateUnit != "" {
+		title += " (" + resp.RateUnit + ")"
+	}
+	d.section(title, 25)
+	d.note(export.ResponseNote(resp, a.ANOVA.DFError))
+	for _, n := range resp.Notes {
+		d.note(n)
+	}
+	if fitErr != nil {
+		d.note("The curves cannot be fitted: " + fitErr.Error())
+	}
+	trend, model, sens := export.ResponseTables(resp, dec)
+	for _, tt := range []export.TextTable{trend, model} {
+		if len(tt.Head) == 0 {
+			continue
+		}
+		// 7.5 pt: the models table has twelve columns.
+		tb := table{heads: tt.Head, rows: tt.Rows, right: make([]bool, len(tt.Head)), size: 7.5}
+		for i := 1; i < len(tb.right); i++ {
+			tb.right[i] = true
+		}
+		d.table(tb)
+		if tt.Foot != "" {
+			d.note(tt.Foot)
+		}
+		d.Ln(2)
+	}
+	if len(sens.Head) > 0 {
+		d.note("Economic optimum rate of each model at price ratios around " + strconv.FormatFloat(resp.PriceRatio, 'g', -1, 64) + " (price of a unit of input in units of produce):")
+		tb := table{heads: sens.Head, rows: sens.Rows, right: make([]bool, len(sens.Head))}
+		for i := 1; i < len(tb.right); i++ {
+			tb.right[i] = true
+		}
+		d.table(tb)
+		d.note("Caution: " + export.EconomicCautionText())
+	}
+	if !charts {
+		return nil
+	}
+	p, err := chart.RateResponse(t, resp)
+	if err != nil {
+		d.note("The response chart could not be drawn: " + err.Error())
+		return nil
+	}
+	return placeChart(d, p)
 }

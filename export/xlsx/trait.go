@@ -227,6 +227,8 @@ func (r *report) writeTrait(name string, tr trial.Trait) error {
 	row = s.writeVsCheck(r.f, r.t, a, row, scaleDec, r.opts.Charts)
 	row = s.writeContrasts(a, row, scaleDec)
 	row = s.writeProgress(r.f, r, tr.Key, row)
+	row = s.writeResponse(r.f, r.t, a, row, scaleDec, r.opts.Charts)
+	row = s.writeMargins(r.t, a, row, meanDec)
 	interactionRow := 0
 	if a.IsFactorial() {
 		row, interactionRow = s.writeFactorialMeans(a, row, scaleDec, string(r.opts.Method))

@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -106,7 +107,8 @@ type fieldError struct {
 	err  error
 }
 
-// decodeV1 reads a file of version 1 to 5. Versions 1 to 4 had no log of
+// decodeV1 reads a file of version 1 to 6. Versions 1 to 5 had no response
+// settings and no economics: such members in them are ignored. Versions 1 to 4 had no log of
 // operations: such a member in them is ignored. Versions 1 to 3 had no saved
 // contrasts: such a member in them is ignored, as unknown members are. Versions 1 and 2 had no
 // treatment factors: members of version 3 in such a file are ignored, as
@@ -121,6 +123,12 @@ func decodeV1(data []byte, version int) (*trial.Trial, error) {
 	}
 	if f.Trial == nil {
 		return nil, at(data, "trial", errorf(ErrWrongType, "the file holds no trial"))
+	}
+	if version < 6 {
+		if f.Trial.Analysis != nil {
+			f.Trial.Analysis.Response = nil
+		}
+		f.Trial.Economics = nil
 	}
 	if version < 5 {
 		f.Trial.Operations = nil
@@ -211,6 +219,19 @@ func fromV1(ft *trialV1) (*trial.Trial, *fieldError) {
 	}
 	if ft.Analysis != nil {
 		t.Analysis.Contrasts = decodeContrasts(ft.Analysis.Contrasts)
+		if r := ft.Analysis.Response; r != nil {
+			if fe == nil && (r.PriceRatio < 0 || math.IsInf(r.PriceRatio, 0)) {
+				fe = &fieldError{"trial.analysis.response.price_ratio", errorf(ErrOutOfRange, "the price ratio must be a positive number, not %g", r.PriceRatio)}
+			}
+			t.Analysis.Response = trial.ResponseSettings{LeaveOut: slices.Clone(r.LeaveOut), PriceRatio: r.PriceRatio}
+		}
+	}
+	if e, ee := decodeEconomics(ft.Economics); ee != nil {
+		if fe == nil {
+			fe = ee
+		}
+	} else {
+		t.Economics = e
 	}
 	if ops, oe := decodeOperations(ft.Operations); oe != nil {
 		if fe == nil {

@@ -83,6 +83,16 @@
 // block). All of these are left out when empty or 0, so a trial without
 // factors is written as version 2 wrote it, apart from the version.
 //
+// Response settings (version 6): "analysis" may hold "response", a rate
+// trial's response analysis settings: "leave_out" (treatment codes left out
+// of the trend) and "price_ratio" (the price of a unit of input in units of
+// produce); absent when not set. "economics" at trial level holds the
+// user's prices for the margins over input cost: "currency" (a label),
+// "produce_price" (per unit of the trait's unit), "trait" (the trait the
+// return is worked out from; absent: the yield trait) and "costs", one per
+// treatment with "product" (absent: not given) and "application", per unit
+// area. Older versions ignore such members.
+//
 // Versions: version 3 is the format above. Version 2 was the same without
 // the factors and the members that go with them ("factors", "levels",
 // "main_factor", "sub_factor", "main_plot", "sub_plot", "strip"): a

@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"slices"
 	"strconv"
 	"time"
 
@@ -89,9 +90,10 @@ func toV1(t *trial.Trial) (*trialV1, error) {
 			Method: t.Random.Method,
 			Done:   tm("randomisation", t.Random.Done),
 		},
-		Analysis:   &analysisV2{MeanSeparation: t.MeanSeparation(), Contrasts: encodeContrasts(t.Analysis.Contrasts)},
+		Analysis:   &analysisV2{MeanSeparation: t.MeanSeparation(), Contrasts: encodeContrasts(t.Analysis.Contrasts), Response: encodeResponse(t.Analysis.Response)},
 		Treatments: make([]treatmentV1, len(t.Treatments)),
 		Operations: encodeOperations(t.Operations),
+		Economics:  encodeEconomics(t.Economics),
 		Plots:      make([]plotV1, len(t.Plots)),
 		Traits:     make([]traitV1, len(t.Traits)),
 	}
@@ -190,4 +192,13 @@ func formatTime(v time.Time) (*string, error) {
 	}
 	s := v.Format(time.RFC3339Nano)
 	return &s, nil
+}
+
+// encodeResponse writes a rate trial's response settings; nil (left out)
+// when there are none.
+func encodeResponse(r trial.ResponseSettings) *responseV6 {
+	if len(r.LeaveOut) == 0 && r.PriceRatio == 0 {
+		return nil
+	}
+	return &responseV6{LeaveOut: slices.Clone(r.LeaveOut), PriceRatio: r.PriceRatio}
 }

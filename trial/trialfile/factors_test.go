@@ -68,7 +68,7 @@ func TestFactorsRoundTrip(t *testing.T) {
 		if err := Encode(&buf, got); err != nil || buf.String() != first {
 			t.Errorf("%s: re-encoding changed the file (%v)", c.kind, err)
 		}
-		for _, want := range []string{`"version": 5,`, `"factors": [`, `"levels": [`, `"main_factor": "N"`} {
+		for _, want := range []string{`"version": 6,`, `"factors": [`, `"levels": [`, `"main_factor": "N"`} {
 			if !strings.Contains(first, want) && (want != `"main_factor": "N"` || c.kind.Restricted()) {
 				t.Errorf("%s: the file lacks %s", c.kind, want)
 			}
@@ -116,7 +116,7 @@ func TestV2OpensUnchanged(t *testing.T) {
 	if err := Encode(&buf, tr); err != nil {
 		t.Fatal(err)
 	}
-	want := bytes.Replace(data, []byte(`"version": 2,`), []byte(`"version": 5,`), 1)
+	want := bytes.Replace(data, []byte(`"version": 2,`), []byte(`"version": 6,`), 1)
 	if !bytes.Equal(buf.Bytes(), want) {
 		t.Error("saving a version 2 trial changed more than its version number")
 	}

@@ -7,7 +7,7 @@ const Format = "furlong-trial"
 
 // Version is the newest file format version this package reads, and the
 // one it writes.
-const Version = 5
+const Version = 6
 
 // The version 3 shape (also read for versions 1 and 2, which lack the
 // members marked "version 2" and "version 3"). Field order here is the
@@ -39,6 +39,9 @@ type trialV1 struct {
 	Traits        []traitV1     `json:"traits"`
 	// Operations (version 5): the log of what was done (operations.go).
 	Operations []operationV5 `json:"operations,omitempty"`
+	// Economics (version 6): the user's prices for the margins
+	// (economics.go).
+	Economics *economicsV6 `json:"economics,omitempty"`
 }
 
 type siteV1 struct {
@@ -172,6 +175,18 @@ type analysisV2 struct {
 	MeanSeparation string `json:"mean_separation"`
 	// Contrasts (version 4): the trial's saved planned comparisons.
 	Contrasts []contrastV4 `json:"contrasts,omitempty"`
+	// Response (version 6): the settings of a rate trial's response
+	// analysis; absent when none was made.
+	Response *responseV6 `json:"response,omitempty"`
+}
+
+// responseV6 holds a rate trial's response settings (version 6).
+type responseV6 struct {
+	// LeaveOut are the treatment codes left out of the trend.
+	LeaveOut []string `json:"leave_out,omitempty"`
+	// PriceRatio is the price of a unit of input in units of produce
+	// (response units per rate unit); absent or 0 for none.
+	PriceRatio float64 `json:"price_ratio,omitempty"`
 }
 
 // contrastV4 is one saved contrast (version 4): two groups of treatment

@@ -50,7 +50,7 @@ func TestMigrateV1(t *testing.T) {
 		t.Fatal(err)
 	}
 	out := buf.String()
-	for _, want := range []string{`"version": 5,`, `"mean_separation": "lsd"`, `"transform": "none"`, `"percent_of_check": null`} {
+	for _, want := range []string{`"version": 6,`, `"mean_separation": "lsd"`, `"transform": "none"`, `"percent_of_check": null`} {
 		if !strings.Contains(out, want) {
 			t.Errorf("the saved file lacks %s", want)
 		}

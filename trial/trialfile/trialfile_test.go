@@ -44,7 +44,7 @@ func TestRoundTripRich(t *testing.T) {
 	if !json.Valid(data) {
 		t.Fatal("output is not valid JSON")
 	}
-	if !bytes.HasPrefix(data, []byte("{\n  \"format\": \"furlong-trial\",\n  \"version\": 5,\n  \"trial\": {\n    \"title\":")) {
+	if !bytes.HasPrefix(data, []byte("{\n  \"format\": \"furlong-trial\",\n  \"version\": 6,\n  \"trial\": {\n    \"title\":")) {
 		t.Errorf("unexpected file start:\n%s", data[:80])
 	}
 	// Missing values are JSON null: the first heads value is missing.
@@ -139,12 +139,12 @@ func TestTimesAreRFC3339(t *testing.T) {
 
 func TestNewerVersion(t *testing.T) {
 	t.Parallel()
-	_, err := Decode(strings.NewReader(`{"format": "furlong-trial", "version": 6, "trial": {"future": true}}`))
+	_, err := Decode(strings.NewReader(`{"format": "furlong-trial", "version": 7, "trial": {"future": true}}`))
 	if !errors.Is(err, ErrNewerVersion) {
 		t.Fatalf("got %v, want ErrNewerVersion", err)
 	}
 	// Wording given in the specification of this package.
-	want := "this file was written by a newer version of Furlong (file format 6; this version reads up to 5). Update Furlong to open it."
+	want := "this file was written by a newer version of Furlong (file format 7; this version reads up to 6). Update Furlong to open it."
 	if err.Error() != want {
 		t.Errorf("message %q, want %q", err.Error(), want)
 	}

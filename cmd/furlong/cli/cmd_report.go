@@ -3,8 +3,10 @@ package cli
 import (
 	"bytes"
 	"context"
+	"errors"
 	"flag"
 	"fmt"
+	"math"
 	"path/filepath"
 	"strings"
 
@@ -26,7 +28,8 @@ func init() {
 		name:    "report",
 		summary: "write the season report (xlsx workbook or PDF)",
 		usage: `furlong report TRIAL -o REPORT.xlsx|REPORT.pdf [--alpha 0.05] [--method lsd|tukey] [--traits K1,K2] [--paper a4|letter] [--no-charts]
-                [--vs-check=false] [--check CODE] [--contrast "NAME=A,B vs C"]... [--adjust none|bonferroni|holm|scheffe]`,
+                [--vs-check=false] [--check CODE] [--contrast "NAME=A,B vs C"]... [--adjust none|bonferroni|holm|scheffe]
+                [--price-ratio R]`,
 		details: `Writes the season report as one workbook: a cover sheet with the trial's details and cautions,
 a summary sheet (every treatment's mean and letters for each trait, grand mean, CV%, LSD or HSD,
 the treatment p-value, and yield as a percentage of the check), one sheet per trait (ANOVA,
@@ -41,7 +44,10 @@ Dunnett's comparisons: a "vs check" column on the summary (better, worse or ns) 
 sheet or page, the differences with their simultaneous intervals, adjusted p-values and a chart;
 --vs-check=false leaves this out. The trial's saved contrasts, and any given with --contrast (as in
 'furlong analyze'), get a table on each trait's sheet or page, with --adjust for their p-values. A
-crop-protection trial with an untreated check shows percent efficacy beside the means.`,
+crop-protection trial with an untreated check shows percent efficacy beside the means. A rate trial
+(treatments with rates) gets its response on each trait's sheet or page, as 'furlong response' gives it:
+trends on the rates, the four response models with a chart and, with a price ratio (the trial's saved
+one, or --price-ratio), the economic optimum and its sensitivity to the ratio.`,
 		flags: func(env Env) (*flag.FlagSet, func(context.Context, []string) error) {
 			o := reportOptions{env: env}
 			fs := flag.NewFlagSet("report", flag.ContinueOnError)
@@ -55,6 +61,7 @@ crop-protection trial with an untreated check shows percent efficacy beside the 
 			fs.StringVar(&o.check, "check", "", "compare with this treatment `code` (default: the trial's check)")
 			fs.Var(&o.contrasts, "contrast", "estimate a contrast: \"NAME=A,B vs C\" or \"NAME=A:1,B:1,C:-2\" (repeatable; the trial's saved ones are estimated too)")
 			fs.StringVar(&o.adjust, "adjust", "none", "adjust the contrasts' p-values: none, bonferroni, holm or scheffe")
+			fs.Float64Var(&o.priceRatio, "price-ratio", 0, "rate trials: the price of a unit of input in units of produce (default: the trial's saved ratio)")
 			fs.BoolVar(&o.force, "force", false, "replace the output file if it exists")
 			return fs, func(ctx context.Context, args []string) error {
 				if len(args) != 1 {
@@ -81,7 +88,7 @@ The format follows the file name's ending. Charts are sized for an A4 landscape 
 			fs := flag.NewFlagSet("chart", flag.ContinueOnError)
 			fs.StringVar(&o.out, "o", "", "write the chart to this `file` (.png, .svg or .pdf; required)")
 			fs.StringVar(&o.trait, "trait", "", "the trait `key` (required)")
-			fs.StringVar(&o.kind, "kind", "means", "chart kind: means, spread, fieldmap, residuals or qq")
+			fs.StringVar(&o.kind, "kind", "means", "chart kind: means, spread, fieldmap, residuals, qq or response (a rate trial's curves)")
 			fs.StringVar(&o.method, "method", "", "letters on a means chart: lsd, tukey or none (default: the trial's remembered method)")
 			fs.Float64Var(&o.alpha, "alpha", analysis.DefaultAlpha, "significance level of the letters")
 			fs.StringVar(&o.order, "order", "mean", "treatment order: mean or code")
@@ -131,6 +138,7 @@ type reportOptions struct {
 	contrasts                         stringList
 	alpha                             float64
 	noCharts, force, vsCheck          bool
+	priceRatio                        float64
 }
 
 // runReport writes the season report workbook of o.trial to o.out.
@@ -161,9 +169,15 @@ func runReport(ctx context.Context, o reportOptions) error {
 	if o.check != "" && !o.vsCheck {
 		return usagef("report: --check goes with the comparison with the check; leave out --vs-check=false")
 	}
+	if o.priceRatio < 0 || math.IsInf(o.priceRatio, 0) || math.IsNaN(o.priceRatio) {
+		return usagef("report: --price-ratio must be a positive number")
+	}
 	t, err := trialfile.Load(o.trial)
 	if err != nil {
 		return err
+	}
+	if o.priceRatio > 0 {
+		t.Analysis.Response.PriceRatio = o.priceRatio // this report only; the file is not changed
 	}
 	keys, err := traitList(t, o.traits)
 	if err != nil {
@@ -245,9 +259,9 @@ func runChart(ctx context.Context, o chartOptions) error {
 				return err
 			}
 		}
-	case "spread", "fieldmap", "residuals", "qq":
+	case "spread", "fieldmap", "residuals", "qq", "response":
 	default:
-		return usagef("chart: --kind must be means, spread, fieldmap, residuals or qq")
+		return usagef("chart: --kind must be means, spread, fieldmap, residuals, qq or response")
 	}
 	t, err := trialfile.Load(o.trial)
 	if err != nil {
@@ -277,6 +291,25 @@ func runChart(ctx context.Context, o chartOptions) error {
 		p, err = chart.Spread(t, o.trait, chart.SpreadOptions{Kind: chart.DotPlot, Order: ord, Seed: t.Random.Seed})
 	case "fieldmap":
 		p, err = chart.HeatMap(t, o.trait, chart.HeatMapOptions{PlotNumbers: true})
+	case "response":
+		r, err := analyse()
+		if err != nil {
+			return err
+		}
+		resp, err := export.ResponseFor(t, r)
+		if err != nil {
+			return err
+		}
+		if resp == nil {
+			_, err := analysis.RatesOf(t, t.Analysis.Response.LeaveOut)
+			if err == nil {
+				err = errors.New("the response chart is for a trait with one list of treatments")
+			}
+			return fmt.Errorf("%s: no response chart: %w", o.trial, err)
+		}
+		if p, err = chart.RateResponse(t, resp); err != nil {
+			return err
+		}
 	case "residuals", "qq":
 		r, err := analyse()
 		if err != nil {

@@ -3,12 +3,10 @@ package cli
 import (
 	"context"
 	"encoding/json"
-	"errors"
 	"flag"
 	"fmt"
 	"io"
 	"math"
-	"sort"
 	"strconv"
 	"strings"
 
@@ -172,14 +170,6 @@ func runResponse(ctx context.Context, o responseOptions) error {
 	return nil
 }
 
-// responseSeries is one trait's treatment means at their rates.
-type responseSeries struct {
-	codes []string
-	rates []float64
-	res   *analysis.Result
-	idx   []int // indices in res.Means
-}
-
 func responseTrial(ctx context.Context, o responseOptions) ([]responseJSON, error) {
 	if o.Rate != "" || o.Block != "" || o.Response != "" {
 		return nil, usagef("response: --rate, --block and --response are for CSV tables; a trial file has its own")
@@ -188,35 +178,26 @@ func responseTrial(ctx context.Context, o responseOptions) ([]responseJSON, erro
 	if err != nil {
 		return nil, err
 	}
-	leave := map[string]bool{}
-	for _, c := range strings.Split(o.LeaveOut, ",") {
-		if c = strings.TrimSpace(c); c != "" {
-			if t.Treatment(c) == nil {
-				return nil, usagef("response: --leave-out: the trial has no treatment %q", c)
-			}
-			leave[c] = true
-		}
-	}
-	rateOf := map[string]float64{}
-	var leftOut []string
-	unit := ""
-	for _, tr := range t.Treatments {
-		switch {
-		case leave[tr.Code]:
-			leftOut = append(leftOut, tr.Code)
-		case tr.Rate == nil:
-			leftOut = append(leftOut, tr.Code)
-		default:
-			rateOf[tr.Code] = *tr.Rate
-			if unit == "" {
-				unit = tr.RateUnit
-			} else if tr.RateUnit != "" && tr.RateUnit != unit {
-				return nil, fmt.Errorf("the treatments' rates are in different units (%s and %s): give every rate in one unit", unit, tr.RateUnit)
+	// The trial's saved settings (the window's Response view), unless the
+	// flags say otherwise.
+	leave, ratio := t.Analysis.Response.LeaveOut, t.Analysis.Response.PriceRatio
+	if o.LeaveOut != "" {
+		leave = nil
+		for _, c := range strings.Split(o.LeaveOut, ",") {
+			if c = strings.TrimSpace(c); c != "" {
+				if t.Treatment(c) == nil {
+					return nil, usagef("response: --leave-out: the trial has no treatment %q", c)
+				}
+				leave = append(leave, c)
 			}
 		}
 	}
-	if len(rateOf) < 3 {
-		return nil, fmt.Errorf("%s: a response analysis needs at least 3 treatments with a rate, and this trial has %d; give each treatment its rate (furlong new --rates, or the Treatments tab)", o.Path, len(rateOf))
+	if o.PriceRatio > 0 {
+		ratio = o.PriceRatio
+	}
+	rates, err := analysis.RatesOf(t, leave)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", o.Path, err)
 	}
 	var keys []string
 	if o.Trait != "" {
@@ -228,21 +209,7 @@ func responseTrial(ctx context.Context, o responseOptions) ([]responseJSON, erro
 	}
 	var out []responseJSON
 	for _, oc := range outcomes {
-		r := responseJSON{Trait: oc.Key, RateUnit: unit, LeftOut: leftOut}
-		if oc.Err != nil {
-			r.Error = Message(oc.Err)
-			out = append(out, r)
-			continue
-		}
-		s := responseSeries{res: oc.Result}
-		for i, m := range oc.Result.Means {
-			if x, ok := rateOf[m.Treatment]; ok {
-				s.codes, s.rates, s.idx = append(s.codes, m.Treatment), append(s.rates, x), append(s.idx, i)
-			}
-		}
-		r.Unit = oc.Result.Unit
-		fillResponse(&r, s, o.PriceRatio)
-		out = append(out, r)
+		out = append(out, responseOf(oc, rates, ratio))
 	}
 	return out, nil
 }
@@ -264,133 +231,66 @@ func responseCSV(ctx context.Context, o responseOptions) ([]responseJSON, error)
 	}
 	var out []responseJSON
 	for _, oc := range outcomes {
-		r := responseJSON{Trait: oc.Key}
-		if oc.Err != nil {
-			r.Error = Message(oc.Err)
-			out = append(out, r)
-			continue
-		}
-		s := responseSeries{res: oc.Result}
-		for i, m := range oc.Result.Means {
-			x, err := trial.ParseNumber(m.Treatment, trial.PointOrComma)
-			if err != nil {
-				return nil, fmt.Errorf("%s: the rate %q in column %s is not a number", o.Path, m.Treatment, o.Rate)
+		rates := analysis.Rates{Of: map[string]float64{}}
+		if oc.Err == nil {
+			for _, m := range oc.Result.Means {
+				x, err := trial.ParseNumber(m.Treatment, trial.PointOrComma)
+				if err != nil {
+					return nil, fmt.Errorf("%s: the rate %q in column %s is not a number", o.Path, m.Treatment, o.Rate)
+				}
+				rates.Of[m.Treatment] = x
 			}
-			s.codes, s.rates, s.idx = append(s.codes, m.Treatment), append(s.rates, x), append(s.idx, i)
 		}
-		fillResponse(&r, s, o.PriceRatio)
-		out = append(out, r)
+		out = append(out, responseOf(oc, rates, o.PriceRatio))
 	}
 	return out, nil
 }
 
-// fillResponse computes the trends, models and economics of one series.
-func fillResponse(r *responseJSON, s responseSeries, ratio float64) {
-	res := s.res
-	order := make([]int, len(s.rates))
-	for i := range order {
-		order[i] = i
+// responseOf is one trait's response analysis (analysis.ResponseOf) in the
+// CLI's JSON shape.
+func responseOf(oc analysis.Outcome, rates analysis.Rates, ratio float64) responseJSON {
+	r := responseJSON{Trait: oc.Key, RateUnit: rates.Unit, LeftOut: rates.LeftOut}
+	if oc.Err != nil {
+		r.Error = Message(oc.Err)
+		return r
 	}
-	sort.SliceStable(order, func(a, b int) bool { return s.rates[order[a]] < s.rates[order[b]] })
-	means := make([]float64, len(order))
-	rates := make([]float64, len(order))
-	for k, i := range order {
-		m := res.Means[s.idx[i]]
-		rates[k], means[k] = s.rates[i], m.Mean
-		r.Rates = append(r.Rates, responseRateJSON{Treatment: s.codes[i], Rate: s.rates[i], N: m.N, Mean: m.Mean, SE: m.SE})
+	a, err := analysis.ResponseOf(oc.Result, rates, ratio)
+	r.Unit = a.Unit
+	for _, p := range a.Points {
+		r.Rates = append(r.Rates, responseRateJSON{Treatment: p.Treatment, Rate: p.Rate, N: p.N, Mean: p.Mean, SE: p.SE})
 	}
-	if res.Transform != stats.NoTransform {
-		r.Notes = append(r.Notes, "The trait was analysed on a transformed scale; the trends and curves are on that scale.")
+	r.Notes = a.Notes
+	for _, l := range a.Trends {
+		r.Contrasts = append(r.Contrasts, responseTrendJSON{Source: l.Source, DF: l.DF, SS: l.SS, MS: l.MS, F: l.F, P: l.P})
 	}
-	a := res.ANOVA
-	cov, err := meansCovariance(res, s, order)
-	if err == nil && a != nil {
-		lines, err := stats.PolynomialTrend(means, cov, rates, a.MSE, a.DFError)
-		if err != nil {
-			r.Notes = append(r.Notes, Message(err))
-		}
-		for _, l := range lines {
-			r.Contrasts = append(r.Contrasts, responseTrendJSON{Source: l.Source, DF: l.DF, SS: l.SS, MS: l.MS, F: l.F, P: l.P})
-		}
-	} else if err != nil {
-		r.Notes = append(r.Notes, err.Error())
-	}
-	models, notes, err := stats.FitResponse(rates, means)
 	if err != nil {
 		r.Error = Message(err)
-		return
+		return r
 	}
-	r.Notes = append(r.Notes, notes...)
-	if ratio > 0 {
-		r.PriceRatio = &ratio
+	if a.PriceRatio > 0 {
+		r.PriceRatio = &a.PriceRatio
 		r.Caution = export.EconomicCautionText()
 	}
-	bestAIC := math.Inf(1)
-	var best *stats.ResponseModel
-	for i := range models {
-		m := models[i]
+	for _, m := range a.Models {
 		j := responseModelJSON{
 			Model: m.Model, Coefficients: m.Coef, SE: m.SE, RSquared: m.RSquared, RMSE: m.RMSE, AIC: m.AIC,
 			JoinPoint: m.Join, JoinPointSE: m.JoinSE, Plateau: m.Plateau, ResidualDF: m.DF, ResidualSS: m.RSS,
+			Optimum: m.Optimum, EconOptimum: m.Econ, EconYield: m.EconYield,
 		}
-		if v, ok := m.AgronomicOptimum(); ok {
-			j.Optimum = &v
-		}
-		if ratio > 0 {
-			x, edge := m.EconomicOptimum(ratio)
-			y := m.Predict(x)
-			j.EconOptimum, j.EconYield, j.EconAtEdge = &x, &y, &edge
-			for _, f := range []float64{0.5, 0.75, 1, 1.25, 1.5} {
-				xr, _ := m.EconomicOptimum(ratio * f)
-				r.Sensitivity = append(r.Sensitivity, responseSensJSON{PriceRatio: ratio * f, Model: m.Model, Rate: xr, Yield: m.Predict(xr)})
-			}
+		if m.Econ != nil {
+			edge := m.AtEdge
+			j.EconAtEdge = &edge
 		}
 		r.Models = append(r.Models, j)
-		if m.DF > 0 && m.AIC < bestAIC {
-			bestAIC, best = m.AIC, &models[i]
-		}
 	}
-	if best != nil {
-		r.BestModel = best.Model
-		if ratio > 0 {
-			const points = 21
-			for k := 0; k < points; k++ {
-				x := best.Low + (best.High-best.Low)*float64(k)/(points-1)
-				y := best.Predict(x)
-				r.Margin = append(r.Margin, responseCurveJSON{Rate: x, Response: y, Margin: y - ratio*x})
-			}
-		}
+	for _, s := range a.Sensitivity {
+		r.Sensitivity = append(r.Sensitivity, responseSensJSON{PriceRatio: s.PriceRatio, Model: s.Model, Rate: s.Rate, Yield: s.Yield})
 	}
-	if len(models) > 0 && len(rates) < 5 {
-		r.Notes = append(r.Notes, "With fewer than 5 rates the plateau models are poorly determined; compare them with care.")
+	for _, p := range a.Margin {
+		r.Margin = append(r.Margin, responseCurveJSON{Rate: p.Rate, Response: p.Response, Margin: p.Margin})
 	}
-}
-
-// meansCovariance returns the covariance of the series' means divided by
-// the error variance, from the analysis' standard errors: Var(m_i) = SE_i²
-// and Cov(m_i, m_j) = (SE_i² + SE_j² − SED_ij²)/2.
-func meansCovariance(res *analysis.Result, s responseSeries, order []int) ([]float64, error) {
-	a := res.ANOVA
-	if a == nil || !(a.MSE > 0) {
-		return nil, errors.New("The trends need an error mean square, and this analysis has none.")
-	}
-	sed, nt := res.SEDMatrix(), len(res.Means)
-	n := len(order)
-	cov := make([]float64, n*n)
-	for a1, i := range order {
-		mi := res.Means[s.idx[i]]
-		cov[a1*n+a1] = mi.SE * mi.SE / a.MSE
-		for b1 := a1 + 1; b1 < n; b1++ {
-			mj := res.Means[s.idx[order[b1]]]
-			d := sed[s.idx[i]*nt+s.idx[order[b1]]]
-			if !(d > 0) {
-				return nil, fmt.Errorf("The analysis has no comparison of %s and %s, so the trends cannot be computed.", mi.Treatment, mj.Treatment)
-			}
-			v := (mi.SE*mi.SE + mj.SE*mj.SE - d*d) / (2 * a.MSE)
-			cov[a1*n+b1], cov[b1*n+a1] = v, v
-		}
-	}
-	return cov, nil
+	r.BestModel = a.Best
+	return r
 }
 
 func writeResponseText(w io.Writer, r responseJSON) {

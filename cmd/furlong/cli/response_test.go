@@ -171,6 +171,30 @@ func TestResponseTrialFile(t *testing.T) {
 			t.Errorf("join %v, R %g", m.JoinPoint, ref.QP.Join)
 		}
 	}
+
+	// The price ratio saved in the trial (the window's Response view) is
+	// used when --price-ratio is not given: the optimum is R's again.
+	tr.Analysis.Response.PriceRatio = 0.008
+	if err := trialfile.Save(path, tr); err != nil {
+		t.Fatal(err)
+	}
+	code, stdout, stderr = run(t, "response", path, "--format", "json")
+	if code != ExitOK {
+		t.Fatalf("response with a saved ratio: exit %d: %s", code, stderr)
+	}
+	out = responseOut{}
+	if err := json.Unmarshal([]byte(stdout), &out); err != nil {
+		t.Fatal(err)
+	}
+	found := false
+	for _, m := range out.Traits[0].Models {
+		if m.Model == "quadratic" {
+			found = m.EconOptimum != nil && math.Abs(*m.EconOptimum-ref.Q.Optimum) <= 1e-7
+		}
+	}
+	if !found || out.Traits[0].PriceRatio == nil || *out.Traits[0].PriceRatio != 0.008 {
+		t.Errorf("saved price ratio not used: %+v", out.Traits[0].Models)
+	}
 }
 
 func TestResponseErrors(t *testing.T) {
