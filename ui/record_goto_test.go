@@ -43,7 +43,7 @@ func TestRecordGoToPlot(t *testing.T) {
 	if r.sel != before || !strings.Contains(r.msg.Text, "not a plot number") {
 		t.Errorf("text: sel %v, message %q", r.sel, r.msg.Text)
 	}
-	if !r.goToPlot(" " + strconv.Itoa(tr.Plots[0].Number) + " ") || r.sel.Row != 0 {
+	if !r.goToPlot(" "+strconv.Itoa(tr.Plots[0].Number)+" ") || r.sel.Row != 0 {
 		t.Errorf("padded number: row %d", r.sel.Row)
 	}
 }
