@@ -216,7 +216,7 @@ func analyseForReport(ctx context.Context, t *trial.Trial, keys []string, opts x
 	if err != nil {
 		return nil, err
 	}
-	if err := analysis.AddExtras(results, t.Analysis.Contrasts, analysis.Extras{VsCheck: true}); err != nil {
+	if err := analysis.AddExtras(results, t.Analysis.Contrasts, analysis.Extras{VsCheck: true, Adjust: analysis.SavedAdjustment(t)}); err != nil {
 		return nil, err
 	}
 	return results, ctx.Err()
