@@ -7,7 +7,7 @@ VERSION  := $(shell sed -n 's/^ *Version *= *"\(.*\)"/\1/p' FyneApp.toml)
 LDFLAGS  := -X main.version=$(VERSION)
 export LANG ?= C.UTF-8
 
-.PHONY: setup build demo test screenshots dist distcheck clean
+.PHONY: setup build demo demo-series test screenshots dist distcheck clean
 
 setup:
 	@bash .ci/setup.sh
@@ -17,6 +17,9 @@ build: setup
 
 demo: build
 	./$(BIN) --demo
+
+demo-series: build
+	./$(BIN) --demo-series
 
 test: setup
 	@bash .ci/test.sh

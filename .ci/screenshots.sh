@@ -1,6 +1,7 @@
 #!/usr/bin/env bash
-# Takes one screenshot per step of the window on the demo trial, and one of
-# the start screen, at 1366×768 (a common field-office laptop):
+# Takes one screenshot per step of the window on the demo trial, one of
+# the start screen and two of the series view on the demo series, at
+# 1366×768 (a common field-office laptop):
 #   .ci/screenshots.sh BINARY OUTDIR
 # Uses ../shared/tools/screenshot.sh when present (it installs Xvfb, xdotool
 # and ImageMagick with apt-get when missing).
@@ -30,4 +31,11 @@ ACT
 bash "$tool" -w 3 -a "$actions" "$out/last.png" "$bin" --demo >/dev/null
 rm -f "$out/last.png"
 bash "$tool" -w 2 "$out/start.png" "$bin" >/dev/null
+# The series view's tabs sit in a row at y=158: Entries × sites, Charts.
+cat >"$actions" <<ACT
+xdotool mousemove --window \$WID 116 158 click 1; sleep 2; shot series.png
+xdotool mousemove --window \$WID 536 158 click 1; sleep 2; shot series-charts.png
+ACT
+bash "$tool" -w 3 -a "$actions" "$out/last.png" "$bin" --demo-series >/dev/null
+rm -f "$out/last.png"
 ls "$out"

@@ -60,6 +60,28 @@ type Analysis struct {
 	Contrasts []Contrast
 	// Response holds the settings of the response analysis of a rate trial.
 	Response ResponseSettings
+	// ContrastAdjust is how the saved contrasts' p-values are adjusted
+	// together: "" or AdjustNone, "bonferroni", "holm" or "scheffe" (the
+	// names stats gives them; AdjustProblem).
+	ContrastAdjust string
+}
+
+// Adjustments of the contrasts' p-values a trial can remember.
+const (
+	AdjustNone       = "none"
+	AdjustBonferroni = "bonferroni"
+	AdjustHolm       = "holm"
+	AdjustScheffe    = "scheffe"
+)
+
+// AdjustProblem says why name cannot be a trial's adjustment of its
+// contrasts' p-values, "" when it can ("" itself stands for none).
+func AdjustProblem(name string) string {
+	switch name {
+	case "", AdjustNone, AdjustBonferroni, AdjustHolm, AdjustScheffe:
+		return ""
+	}
+	return "the adjustment " + quote(name) + " is not known; use none, bonferroni, holm or scheffe"
 }
 
 // ResponseSettings are the user's choices for the response analysis of a

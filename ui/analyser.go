@@ -29,6 +29,10 @@ type resultSet struct {
 	complete bool // every trait analysed (not only the focus)
 	charts   []chartImage
 	took     time.Duration // until the focus trait's tables were ready
+	// vsChecks are the comparisons of every entry with the trial's check
+	// (Dunnett), by trait key, for the summary of all traits; filled on the
+	// UI goroutine after the complete round (onChecks), nil until then.
+	vsChecks map[string]*analysis.CheckComparison
 }
 
 // result returns the analysis of the trait with key, or nil.
@@ -64,6 +68,9 @@ type analyser struct {
 
 	// onResults receives every round that is not stale (UI goroutine).
 	onResults []func(*resultSet)
+	// onChecks receives the current round again once its comparisons with
+	// the check were added (resultSet.vsChecks; UI goroutine).
+	onChecks []func(*resultSet)
 	// delivered, when set, is called after each delivery (tests).
 	delivered func(*resultSet)
 
@@ -109,6 +116,7 @@ func (a *analyser) cancel() {
 	a.stale = true
 	a.active = false
 	a.onResults = nil
+	a.onChecks = nil
 }
 
 // shutdown cancels the running round and waits until its goroutine ended.
@@ -209,7 +217,47 @@ func (a *analyser) run() {
 			set.took = time.Since(start)
 		}
 		a.post(func() { a.deliver(set) })
+		// Then each entry against the trial's check, for the summary's
+		// "vs check" column (as the season report's summary has it).
+		checks := compareWithChecks(ctx, set.traits)
+		if len(checks) == 0 || ctx.Err() != nil {
+			return
+		}
+		a.post(func() {
+			if set.gen != a.gen || a.current != set {
+				return
+			}
+			set.vsChecks = checks
+			for _, f := range a.onChecks {
+				f(set)
+			}
+		})
 	}()
+}
+
+// compareWithChecks compares every entry with the trial's check
+// (analysis.CheckOf, CompareWithCheck: the rule of the report's summary)
+// for each trait of one list of treatments that has one; a trait whose
+// comparison fails is left out (its own view says why).
+func compareWithChecks(ctx context.Context, traits []traitResult) map[string]*analysis.CheckComparison {
+	out := map[string]*analysis.CheckComparison{}
+	for _, tr := range traits {
+		if ctx.Err() != nil {
+			return nil
+		}
+		r := tr.res
+		if r == nil || r.IsFactorial() {
+			continue
+		}
+		code := analysis.CheckOf(r)
+		if code == "" {
+			continue
+		}
+		if vc, err := summaryCheck(r, code); err == nil && vc != nil {
+			out[tr.key] = vc
+		}
+	}
+	return out
 }
 
 // deliver hands a round to the screens unless a newer one has started.
@@ -237,4 +285,15 @@ func analyzeTrait(t *trial.Trial, key string, opts analysis.Options) (tr traitRe
 	}()
 	tr.res, tr.err = analyzeFunc(t, key, opts)
 	return tr
+}
+
+// summaryCheck is analysis.CompareWithCheck with a panic turned into an
+// error (off the UI goroutine).
+func summaryCheck(r *analysis.Result, code string) (vc *analysis.CheckComparison, err error) {
+	defer func() {
+		if e := recover(); e != nil {
+			vc, err = nil, errAnalysisFailed
+		}
+	}()
+	return analysis.CompareWithCheck(r, code)
 }

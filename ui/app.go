@@ -65,6 +65,15 @@ type App struct {
 	compute *analyser
 	menu    menuItems
 
+	// series is the open trial series (series.go), nil when none; while
+	// it is open it takes the whole window, and seriesPrev is the content
+	// it replaced.
+	series     *seriesView
+	seriesPrev fyne.CanvasObject
+	// seriesPost, when set, replaces fyne.Do for the series view's
+	// background work (tests run it on their own goroutine).
+	seriesPost func(func())
+
 	// unsavedAsk is the overlay of the save-changes question while it is
 	// open.
 	unsavedAsk fyne.CanvasObject
@@ -236,7 +245,7 @@ func (u *App) OpenFile(path string) error {
 // what to do with unsaved changes of the open trial; OpenFile shows any
 // error. A file that no longer exists leaves the recent list.
 func (u *App) openPath(path string) {
-	u.leaveOpen("Open another", func() { u.openNow(path) })
+	u.leaveSeries(func() { u.leaveOpen("Open another", func() { u.openNow(path) }) })
 }
 
 func (u *App) openNow(path string) {
@@ -370,7 +379,9 @@ func (u *App) OpenDemo() error {
 
 // newTrial starts an empty trial with the usual defaults, first asking
 // what to do with unsaved changes of the open one.
-func (u *App) newTrial() { u.leaveOpen("Start new", u.startNewTrial) }
+func (u *App) newTrial() {
+	u.leaveSeries(func() { u.leaveOpen("Start new", u.startNewTrial) })
+}
 
 // leaveOpen runs then, which replaces the open trial, once the user chose
 // what to do with its unsaved changes (at once when there are none).
@@ -590,6 +601,10 @@ func excludedPlots(t *trial.Trial) int { return t.Summary().ExcludedPlots }
 
 // onClose never discards changes silently.
 func (u *App) onClose() {
+	if u.series != nil && u.series.dirty {
+		u.leaveSeries(u.onClose)
+		return
+	}
 	if u.doc == nil || !u.doc.dirty {
 		u.quit()
 		return

@@ -168,6 +168,7 @@ func newCompareStep(u *App) *compareStep {
 	}
 	c.root = container.NewBorder(controls, caution, nil, nil, tabs)
 	u.compute.onResults = append(u.compute.onResults, c.show)
+	u.compute.onChecks = append(u.compute.onChecks, c.showSummary)
 	c.refresh(changeAll)
 	return c
 }
@@ -285,9 +286,7 @@ func (c *compareStep) show(s *resultSet) {
 		c.showCharts(s.charts)
 	}
 	if s.complete {
-		c.summaryHead, c.summaryRows = summaryTable(s, c.method)
-		c.summaryWidths()
-		c.summary.Refresh()
+		c.showSummary(s)
 	}
 	for _, v := range c.views {
 		v.show(s, tr)
@@ -550,6 +549,13 @@ func (c *compareStep) showCharts(cs []chartImage) {
 	}
 }
 
+// showSummary fills the table of all traits from a complete round.
+func (c *compareStep) showSummary(s *resultSet) {
+	c.summaryHead, c.summaryRows = summaryTable(s, c.method)
+	c.summaryWidths()
+	c.summary.Refresh()
+}
+
 // summaryTable is the all-traits table of the season report's summary
 // sheet (export.NewSummary): one row per treatment with each trait's mean
 // and letters and the percentage of the check, then the lines of
@@ -558,7 +564,13 @@ func summaryTable(s *resultSet, method meansep.Method) (head []string, rows [][]
 	outs := make([]analysis.Outcome, 0, len(s.traits))
 	keys := make([]string, 0, len(s.traits))
 	for _, tr := range s.traits {
-		outs = append(outs, analysis.Outcome{Key: tr.key, Result: tr.res, Err: tr.err})
+		r := tr.res
+		if vc := s.vsChecks[tr.key]; vc != nil && r != nil {
+			cp := *r // the round's result is shared: a copy carries the comparison
+			cp.VsCheck = vc
+			r = &cp
+		}
+		outs = append(outs, analysis.Outcome{Key: tr.key, Result: r, Err: tr.err})
 		keys = append(keys, tr.key)
 	}
 	sum := export.NewSummary(s.snap, outs, keys, method, s.alpha)
@@ -571,6 +583,9 @@ func summaryTable(s *resultSet, method meansep.Method) (head []string, rows [][]
 		head = append(head, h)
 		if st.CheckMean != nil {
 			head = append(head, st.Name+" % of check")
+		}
+		if st.VsCheck != nil {
+			head = append(head, st.Name+" vs check")
 		}
 	}
 	for _, r := range sum.Rows {
@@ -593,6 +608,9 @@ func summaryTable(s *resultSet, method meansep.Method) (head []string, rows [][]
 					row = append(row, "–")
 				}
 			}
+			if st.VsCheck != nil {
+				row = append(row, c.VsCheck)
+			}
 		}
 		rows = append(rows, row)
 	}
@@ -605,6 +623,9 @@ func summaryTable(s *resultSet, method meansep.Method) (head []string, rows [][]
 				row = append(row, f(st))
 			}
 			if st.CheckMean != nil {
+				row = append(row, "")
+			}
+			if st.VsCheck != nil {
 				row = append(row, "")
 			}
 		}
@@ -625,6 +646,9 @@ func summaryTable(s *resultSet, method meansep.Method) (head []string, rows [][]
 		if st.Result == nil && st.Reason != "" {
 			rows = append(rows, []string{st.Name + ": " + st.Reason})
 		}
+	}
+	if note := sum.VsCheckNote(); note != "" {
+		rows = append(rows, []string{note})
 	}
 	return head, rows
 }

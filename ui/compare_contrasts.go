@@ -45,6 +45,8 @@ type contrastsView struct {
 	set *analysis.ContrastSet
 	// done, when set, is called after an estimate was shown (tests).
 	done func()
+	// syncing is set while the select is filled from the trial.
+	syncing bool
 }
 
 // adjustChoices are the adjustments offered, in the order of the select.
@@ -79,6 +81,7 @@ func newContrastsView(c *compareStep) *contrastsView {
 		for _, a := range adjustChoices {
 			if a.label == s && a.adj != v.adjust {
 				v.adjust = a.adj
+				v.saveAdjust()
 				v.estimate()
 			}
 		}
@@ -139,16 +142,53 @@ func (v *contrastsView) syncSaved() {
 	}
 }
 
-// refresh follows an edit that may have changed the saved contrasts (an
-// undone or redone contrast, another trial); value edits bring a new round
-// of results instead (show).
+// refresh follows an edit that may have changed the saved contrasts or
+// their adjustment (an undone or redone contrast, another trial); value
+// edits bring a new round of results instead (show).
 func (v *contrastsView) refresh(ch change) {
 	if ch&(changeDetails|changeStructure) == 0 {
 		return
 	}
 	v.syncSaved()
+	v.syncAdjust()
 	v.estimate()
 }
+
+// syncAdjust shows the trial's saved adjustment in the select.
+func (v *contrastsView) syncAdjust() {
+	d := v.c.u.doc
+	if d == nil {
+		return
+	}
+	want := analysis.SavedAdjustment(d.t)
+	for _, a := range adjustChoices {
+		if a.adj == want && v.adjust != want {
+			v.adjust = want
+			v.syncing = true
+			v.adjustSel.SetSelected(a.label)
+			v.syncing = false
+		}
+	}
+}
+
+// saveAdjust remembers the adjustment chosen with the trial (undoable), so
+// that the season report and 'furlong analyze' adjust the same way.
+func (v *contrastsView) saveAdjust() {
+	d := v.c.u.doc
+	if d == nil || v.syncing || analysis.SavedAdjustment(d.t) == v.adjust {
+		return
+	}
+	d.apply(&setContrastAdjust{before: d.t.Analysis.ContrastAdjust, after: string(v.adjust)})
+}
+
+// setContrastAdjust replaces the trial's adjustment of its contrasts
+// (undoable).
+type setContrastAdjust struct{ before, after string }
+
+func (c *setContrastAdjust) do(t *trial.Trial)   { t.Analysis.ContrastAdjust = c.after }
+func (c *setContrastAdjust) undo(t *trial.Trial) { t.Analysis.ContrastAdjust = c.before }
+func (c *setContrastAdjust) kind() change        { return changeDetails }
+func (c *setContrastAdjust) label() string       { return "adjustment of the contrasts" }
 
 func (v *contrastsView) show(s *resultSet, tr *traitResult) {
 	v.syncSaved()

@@ -89,7 +89,11 @@ func TestContrastsViewSaveEstimateUndo(t *testing.T) {
 		t.Errorf("Holm on one contrast: %v, p %v", v.set.Rows[0].PAdjusted, v.set.Rows[0].P)
 	}
 
-	// Undo takes the contrast away; the view says there is none.
+	// Undo takes back the choice of Holm (an edit of the trial: the report
+	// adjusts the same way), then the contrast; the view says there is none.
+	if !u.doc.undo() || u.doc.t.Analysis.ContrastAdjust != "" {
+		t.Fatalf("undoing Holm: %q", u.doc.t.Analysis.ContrastAdjust)
+	}
 	if !u.doc.undo() {
 		t.Fatal("nothing to undo")
 	}
@@ -150,5 +154,27 @@ func TestCompareEfficacyColumn(t *testing.T) {
 	}
 	if !strings.Contains(c.warnings.Text, "Caution: ") {
 		t.Errorf("no caution beside the efficacy: %q", c.warnings.Text)
+	}
+}
+
+// Choosing how the contrasts' p-values are adjusted is remembered with the
+// trial (the report and 'furlong analyze' then adjust the same way) and
+// undone like any edit, the select following the trial.
+func TestContrastsAdjustSaved(t *testing.T) {
+	u, _ := newTestApp(t, 0)
+	u.OpenTrial(dunnettTrial(t), "")
+	pumpAnalysis(t, u, func() { u.showStep(stepCompare) })
+	v := contrastsOf(t, u.steps[stepCompare].(*compareStep))
+	v.adjustSel.SetSelected(adjustChoices[2].label) // Holm
+	if got := u.doc.t.Analysis.ContrastAdjust; got != trial.AdjustHolm || !u.doc.dirty {
+		t.Fatalf("saved %q (dirty %v)", got, u.doc.dirty)
+	}
+	u.undo()
+	if got := u.doc.t.Analysis.ContrastAdjust; got != "" || v.adjustSel.Selected != adjustChoices[0].label || v.adjust != stats.AdjustNone {
+		t.Errorf("after undo: saved %q, select %q, adjust %q", got, v.adjustSel.Selected, v.adjust)
+	}
+	u.redo()
+	if v.adjustSel.Selected != adjustChoices[2].label || v.adjust != stats.Holm {
+		t.Errorf("after redo: select %q, adjust %q", v.adjustSel.Selected, v.adjust)
 	}
 }

@@ -7,6 +7,7 @@ import (
 	"os"
 	"path/filepath"
 	"strconv"
+	"strings"
 	"testing"
 	"time"
 
@@ -188,5 +189,62 @@ func TestVsCheckWithoutCheck(t *testing.T) {
 	}
 	if len(v.checkSel.Options) != len(tr.Treatments) {
 		t.Errorf("%d treatments to choose from, want %d", len(v.checkSel.Options), len(tr.Treatments))
+	}
+}
+
+// The summary of all traits gets a "vs check" column once the comparisons
+// with the trial's check are done (after the round, off the UI goroutine):
+// better where R's multcomp two-sided adjusted p is below 0.05 and the
+// difference positive (higher is better here), ns where p is above it
+// (testdata/dunnett-example.expected.json), "check" for the check itself.
+func TestSummaryVsCheckColumn(t *testing.T) {
+	data, err := os.ReadFile(filepath.Join("testdata", "dunnett-example.expected.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var want struct {
+		Check   string `json:"check"`
+		VsCheck []struct {
+			Treatment string  `json:"treatment"`
+			Diff      float64 `json:"diff"`
+			P         float64 `json:"p_two_sided"`
+		} `json:"vs_check"`
+	}
+	if err := json.Unmarshal(data, &want); err != nil {
+		t.Fatal(err)
+	}
+	u, _ := newTestApp(t, 0)
+	u.OpenTrial(dunnettTrial(t), "")
+	s := pumpAnalysis(t, u, func() { u.showStep(stepCompare) })
+	pumpUntil(t, u, "the comparisons with the check", func() bool { return s.vsChecks != nil })
+	c := u.steps[stepCompare].(*compareStep)
+	col := -1
+	for i, h := range c.summaryHead {
+		if strings.HasSuffix(h, " vs check") {
+			col = i
+		}
+	}
+	if col < 0 {
+		t.Fatalf("no vs check column in %v", c.summaryHead)
+	}
+	reading := map[string]string{}
+	for _, row := range c.summaryRows {
+		if len(row) > col {
+			reading[strings.Fields(row[0])[0]] = row[col]
+		}
+	}
+	for _, w := range want.VsCheck {
+		exp := "ns"
+		if w.P < 0.05 && w.Diff > 0 {
+			exp = "better"
+		} else if w.P < 0.05 {
+			exp = "worse"
+		}
+		if reading[w.Treatment] != exp {
+			t.Errorf("%s: %q, want %q (R p = %.4f, diff %.3f)", w.Treatment, reading[w.Treatment], exp, w.P, w.Diff)
+		}
+	}
+	if reading[want.Check] != "check" {
+		t.Errorf("the check %s reads %q", want.Check, reading[want.Check])
 	}
 }

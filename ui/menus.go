@@ -33,6 +33,7 @@ var (
 type menuItems struct {
 	save, saveAs, export, undo, redo *fyne.MenuItem
 	recent                           *fyne.MenuItem
+	closeItem                        *fyne.MenuItem
 }
 
 func (u *App) buildMenus() {
@@ -42,18 +43,21 @@ func (u *App) buildMenus() {
 	open := fyne.NewMenuItem("Open…", u.openDialog)
 	open.Shortcut = scOpen
 	m.recent = fyne.NewMenuItem("Open recent", nil)
-	m.save = fyne.NewMenuItem("Save", func() { u.save(false, nil) })
+	openSeries := fyne.NewMenuItem("Open series…", u.openSeriesDialog)
+	newSeries := fyne.NewMenuItem("New series", u.NewSeries)
+	m.save = fyne.NewMenuItem("Save", func() { u.saveCommand(false) })
 	m.save.Shortcut = scSave
-	m.saveAs = fyne.NewMenuItem("Save as…", func() { u.save(true, nil) })
+	m.saveAs = fyne.NewMenuItem("Save as…", func() { u.saveCommand(true) })
 	m.saveAs.Shortcut = scSaveAs
-	m.export = fyne.NewMenuItem("Export…", func() { u.showStep(stepReport) })
+	m.export = fyne.NewMenuItem("Export…", u.exportCommand)
 	m.export.Shortcut = scExport
-	closeItem := fyne.NewMenuItem("Close trial", u.closeTrial)
+	m.closeItem = fyne.NewMenuItem("Close trial", u.closeCommand)
 	quit := fyne.NewMenuItem("Quit", u.onClose)
 	quit.IsQuit = true
 	quit.Shortcut = scQuit
 	file := fyne.NewMenu("File", newItem, open, m.recent, fyne.NewMenuItemSeparator(),
-		m.save, m.saveAs, m.export, fyne.NewMenuItemSeparator(), closeItem, quit)
+		openSeries, newSeries, fyne.NewMenuItemSeparator(),
+		m.save, m.saveAs, m.export, fyne.NewMenuItemSeparator(), m.closeItem, quit)
 
 	m.undo = fyne.NewMenuItem("Undo", u.undo)
 	m.undo.Shortcut = scUndo
@@ -73,13 +77,13 @@ func (u *App) addShortcuts() {
 	c := u.win.Canvas()
 	c.AddShortcut(scNew, func(fyne.Shortcut) { u.newTrial() })
 	c.AddShortcut(scOpen, func(fyne.Shortcut) { u.openDialog() })
-	c.AddShortcut(scSave, func(fyne.Shortcut) { u.save(false, nil) })
-	c.AddShortcut(scSaveAs, func(fyne.Shortcut) { u.save(true, nil) })
+	c.AddShortcut(scSave, func(fyne.Shortcut) { u.saveCommand(false) })
+	c.AddShortcut(scSaveAs, func(fyne.Shortcut) { u.saveCommand(true) })
 	c.AddShortcut(scUndo, func(fyne.Shortcut) { u.undo() })
 	c.AddShortcut(scRedo, func(fyne.Shortcut) { u.redo() })
 	c.AddShortcut(scExport, func(fyne.Shortcut) {
-		if u.doc != nil {
-			u.showStep(stepReport)
+		if u.doc != nil || u.series != nil {
+			u.exportCommand()
 		}
 	})
 	c.AddShortcut(scQuit, func(fyne.Shortcut) { u.onClose() })
@@ -114,6 +118,12 @@ func (u *App) updateMenus() {
 	}
 	m.recent.ChildMenu = fyne.NewMenu("", items...)
 	m.recent.Disabled = len(items) == 0
+	m.closeItem.Label = "Close trial"
+	if u.series != nil {
+		// The series view: Save, Save as and Export act on the series.
+		m.save.Disabled, m.saveAs.Disabled, m.export.Disabled = false, false, false
+		m.closeItem.Label = "Close series"
+	}
 	if mm := u.win.MainMenu(); mm != nil {
 		mm.Refresh()
 	}

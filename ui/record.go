@@ -31,6 +31,8 @@ type recordStep struct {
 	entry   *cellEntry
 	msg     *widget.Label
 	exclude *widget.Button
+	// goTo takes a plot number typed or scanned from a plot label.
+	goTo *widget.Entry
 	// undoBtn and redoBtn are on only while there is something to undo
 	// or redo (updateUndo).
 	undoBtn, redoBtn *widget.Button
@@ -75,6 +77,13 @@ func newRecordStep(u *App) *recordStep {
 	r.table.onArrow = r.moveBy
 	r.setWidths()
 
+	r.goTo = widget.NewEntry()
+	r.goTo.SetPlaceHolder("go to plot / scan")
+	r.goTo.OnSubmitted = func(s string) {
+		if r.goToPlot(s) {
+			r.goTo.SetText("")
+		}
+	}
 	r.exclude = widget.NewButtonWithIcon("Exclude plot…", theme.VisibilityOffIcon(), r.excludeDialog)
 	importBtn := widget.NewButtonWithIcon("Import field book…", theme.DownloadIcon(), u.importFieldBookDialog)
 	undo := widget.NewButtonWithIcon("", theme.ContentUndoIcon(), u.undo)
@@ -83,9 +92,11 @@ func newRecordStep(u *App) *recordStep {
 	r.updateUndo()
 	entryBox := container.NewGridWrap(fyne.NewSize(220, r.entry.MinSize().Height), r.entry)
 	r.where.Truncation = fyne.TextTruncateEllipsis
+	goBox := container.NewGridWrap(fyne.NewSize(170, r.entry.MinSize().Height), r.goTo)
 	bar := container.NewBorder(nil, nil, entryBox,
-		container.NewHBox(r.exclude, importBtn, undo, redo), r.where)
-	help := widget.NewLabel("Type a value and press Enter to move to the next plot in walking order. ↑/↓ move without leaving the entry; Esc restores the stored value.")
+		container.NewHBox(goBox, r.exclude, importBtn, undo, redo), r.where)
+	help := widget.NewLabel("Type a value and press Enter to move to the next plot in walking order. ↑/↓ move without leaving the entry; Esc restores the stored value. " +
+		"To jump to a plot, type or scan its label's number in \"go to plot\" and press Enter.")
 	help.Wrapping = fyne.TextWrapWord
 	help.Importance = widget.LowImportance
 	top := container.NewVBox(bar, r.msg)

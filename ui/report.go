@@ -81,11 +81,12 @@ func newReportStep(u *App) *reportStep {
 	bookXLSX := widget.NewButtonWithIcon("Field book (xlsx)…", theme.DocumentSaveIcon(), u.exportFieldBookXLSX)
 	fmap := widget.NewButtonWithIcon("Field map (PDF/PNG)…", theme.DocumentSaveIcon(), u.exportMapDialog)
 	chartBtn := widget.NewButtonWithIcon("Chart of the Compare trait (PNG/SVG/PDF)…", theme.DocumentSaveIcon(), r.exportChart)
+	labels := widget.NewButtonWithIcon("Plot labels with barcodes (PDF)…", theme.DocumentPrintIcon(), r.exportLabels)
 	caution := widget.NewLabel(export.CautionShort)
 	caution.Importance = widget.WarningImportance
 	caution.Wrapping = fyne.TextWrapWord
 	body := container.NewVBox(heading("Season report"), form, container.NewGridWithColumns(2, workbook, printable), r.state,
-		widget.NewSeparator(), heading("Other exports"), bookCSV, bookXLSX, fmap, chartBtn,
+		widget.NewSeparator(), heading("Other exports"), bookCSV, bookXLSX, fmap, labels, chartBtn,
 		widget.NewSeparator(), caution)
 	r.root = container.NewVScroll(container.NewPadded(body))
 	r.refresh(changeAll)
@@ -215,7 +216,7 @@ func analyseForReport(ctx context.Context, t *trial.Trial, keys []string, opts x
 	if err != nil {
 		return nil, err
 	}
-	if err := analysis.AddExtras(results, t.Analysis.Contrasts, analysis.Extras{VsCheck: true}); err != nil {
+	if err := analysis.AddExtras(results, t.Analysis.Contrasts, analysis.Extras{VsCheck: true, Adjust: analysis.SavedAdjustment(t)}); err != nil {
 		return nil, err
 	}
 	return results, ctx.Err()

@@ -16,6 +16,8 @@ type startScreen struct {
 	root   fyne.CanvasObject
 
 	openBtn, newBtn, demoBtn *widget.Button
+	// The trial series: open a series file, start one, the demo series.
+	openSeriesBtn, newSeriesBtn, demoSeriesBtn *widget.Button
 }
 
 func newStartScreen(u *App) *startScreen {
@@ -25,9 +27,15 @@ func newStartScreen(u *App) *startScreen {
 	s.openBtn.Importance = widget.HighImportance
 	s.newBtn = widget.NewButtonWithIcon("Start a new trial", theme.DocumentCreateIcon(), u.newTrial)
 	s.demoBtn = widget.NewButtonWithIcon("Look around in the demo trial", theme.InfoIcon(), func() { _ = u.OpenDemo() })
+	seriesHead := widget.NewLabelWithStyle("Trial series: the same entries at several sites or seasons", fyne.TextAlignLeading, fyne.TextStyle{Bold: true})
+	s.openSeriesBtn = widget.NewButtonWithIcon("Open a series…", theme.FolderOpenIcon(), u.openSeriesDialog)
+	s.newSeriesBtn = widget.NewButtonWithIcon("New series", theme.ContentAddIcon(), u.NewSeries)
+	s.demoSeriesBtn = widget.NewButtonWithIcon("Demo series", theme.InfoIcon(), func() { _ = u.OpenDemoSeries() })
+	seriesRow := container.NewGridWithColumns(3, s.openSeriesBtn, s.newSeriesBtn, s.demoSeriesBtn)
 	s.recent = container.NewVBox()
 	recentHead := widget.NewLabelWithStyle("Recent trials", fyne.TextAlignLeading, fyne.TextStyle{Bold: true})
-	col := container.NewVBox(title, s.openBtn, s.newBtn, s.demoBtn, widget.NewSeparator(), recentHead, s.recent)
+	col := container.NewVBox(title, s.openBtn, s.newBtn, s.demoBtn, widget.NewSeparator(), seriesHead, seriesRow,
+		widget.NewSeparator(), recentHead, s.recent)
 	s.root = container.NewCenter(container.NewGridWrap(fyne.NewSize(520, col.MinSize().Height+260), container.NewVScroll(col)))
 	return s
 }

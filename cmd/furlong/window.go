@@ -22,6 +22,10 @@ func openWindow(opts cli.WindowOptions, env cli.Env) int {
 	switch {
 	case opts.Demo:
 		err = fa.OpenDemo()
+	case opts.DemoSeries:
+		err = fa.OpenDemoSeries()
+	case opts.Series:
+		err = fa.OpenSeriesFile(opts.Path)
 	case opts.Path != "":
 		err = fa.OpenFile(opts.Path)
 	}

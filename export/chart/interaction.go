@@ -113,6 +113,12 @@ func Interaction(r *analysis.Result, o InteractionOptions) (*plot.Plot, error) {
 	if !any {
 		return nil, ErrNoData
 	}
+	// Room above the data for the legend (top right), a row per line, so
+	// that it never covers the means (measured on the window's chart: the
+	// top-right mean sat under the legend).
+	if span := p.Y.Max - p.Y.Min; span > 0 {
+		p.Y.Max += span * (0.07*float64(len(lineF.Levels)) + 0.04)
+	}
 	sed := 0.0
 	switch {
 	case e.SED != nil:

@@ -133,3 +133,13 @@ func AddExtras(outcomes []Outcome, saved []trial.Contrast, e Extras) error {
 	}
 	return EstimateAllContrasts(outcomes, saved, e.Contrasts, e.Adjust)
 }
+
+// SavedAdjustment is the trial's remembered adjustment of its contrasts'
+// p-values (the window's Contrasts tab), none when it has none: the
+// default of every view that estimates the saved contrasts.
+func SavedAdjustment(t *trial.Trial) stats.Adjustment {
+	if a, err := stats.ParseAdjustment(t.Analysis.ContrastAdjust); err == nil {
+		return a
+	}
+	return stats.AdjustNone
+}

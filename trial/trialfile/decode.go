@@ -127,6 +127,7 @@ func decodeV1(data []byte, version int) (*trial.Trial, error) {
 	if version < 6 {
 		if f.Trial.Analysis != nil {
 			f.Trial.Analysis.Response = nil
+			f.Trial.Analysis.ContrastAdjust = ""
 		}
 		f.Trial.Economics = nil
 	}
@@ -219,6 +220,11 @@ func fromV1(ft *trialV1) (*trial.Trial, *fieldError) {
 	}
 	if ft.Analysis != nil {
 		t.Analysis.Contrasts = decodeContrasts(ft.Analysis.Contrasts)
+		if msg := trial.AdjustProblem(ft.Analysis.ContrastAdjust); msg != "" && fe == nil {
+			fe = &fieldError{"trial.analysis.contrast_adjust", errorf(ErrWrongType, "%s", msg)}
+		} else if ft.Analysis.ContrastAdjust != trial.AdjustNone {
+			t.Analysis.ContrastAdjust = ft.Analysis.ContrastAdjust
+		}
 		if r := ft.Analysis.Response; r != nil {
 			if fe == nil && (r.PriceRatio < 0 || math.IsInf(r.PriceRatio, 0)) {
 				fe = &fieldError{"trial.analysis.response.price_ratio", errorf(ErrOutOfRange, "the price ratio must be a positive number, not %g", r.PriceRatio)}

@@ -90,7 +90,7 @@ func toV1(t *trial.Trial) (*trialV1, error) {
 			Method: t.Random.Method,
 			Done:   tm("randomisation", t.Random.Done),
 		},
-		Analysis:   &analysisV2{MeanSeparation: t.MeanSeparation(), Contrasts: encodeContrasts(t.Analysis.Contrasts), Response: encodeResponse(t.Analysis.Response)},
+		Analysis:   &analysisV2{MeanSeparation: t.MeanSeparation(), Contrasts: encodeContrasts(t.Analysis.Contrasts), Response: encodeResponse(t.Analysis.Response), ContrastAdjust: encodeAdjust(t.Analysis.ContrastAdjust)},
 		Treatments: make([]treatmentV1, len(t.Treatments)),
 		Operations: encodeOperations(t.Operations),
 		Economics:  encodeEconomics(t.Economics),
@@ -201,4 +201,12 @@ func encodeResponse(r trial.ResponseSettings) *responseV6 {
 		return nil
 	}
 	return &responseV6{LeaveOut: slices.Clone(r.LeaveOut), PriceRatio: r.PriceRatio}
+}
+
+// encodeAdjust leaves out "no adjustment".
+func encodeAdjust(a string) string {
+	if a == trial.AdjustNone {
+		return ""
+	}
+	return a
 }

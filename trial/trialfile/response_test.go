@@ -99,3 +99,32 @@ func TestEconomicsRoundTrip(t *testing.T) {
 		t.Errorf("negative cost: %v", err)
 	}
 }
+
+// TestContrastAdjust: the saved adjustment of the contrasts (version 6) is
+// read back, "none" is written as nothing, and an unknown name is refused
+// naming its place.
+func TestContrastAdjust(t *testing.T) {
+	t.Parallel()
+	src := `{"format": "furlong-trial", "version": 6, "trial": {
+	"treatments": [{"code": "a"}, {"code": "b"}], "design": {"kind": "crd", "reps": 2},
+	"analysis": {"mean_separation": "lsd", "contrast_adjust": "holm"}}}`
+	tr, err := Decode(strings.NewReader(src))
+	if err != nil || tr.Analysis.ContrastAdjust != trial.AdjustHolm {
+		t.Fatalf("read %q, %v", tr.Analysis.ContrastAdjust, err)
+	}
+	var buf bytes.Buffer
+	tr.Analysis.ContrastAdjust = trial.AdjustNone
+	if err := Encode(&buf, tr); err != nil {
+		t.Fatal(err)
+	}
+	if bytes.Contains(buf.Bytes(), []byte("contrast_adjust")) {
+		t.Error("no adjustment was written")
+	}
+	if v5, err := Decode(strings.NewReader(strings.Replace(src, `"version": 6`, `"version": 5`, 1))); err != nil || v5.Analysis.ContrastAdjust != "" {
+		t.Errorf("version 5 took the adjustment: %q, %v", v5.Analysis.ContrastAdjust, err)
+	}
+	_, err = Decode(strings.NewReader(strings.Replace(src, `"holm"`, `"sidak"`, 1)))
+	if err == nil || !strings.Contains(err.Error(), "contrast_adjust") {
+		t.Errorf("unknown adjustment: %v", err)
+	}
+}

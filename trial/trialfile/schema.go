@@ -178,6 +178,9 @@ type analysisV2 struct {
 	// Response (version 6): the settings of a rate trial's response
 	// analysis; absent when none was made.
 	Response *responseV6 `json:"response,omitempty"`
+	// ContrastAdjust (version 6): the adjustment of the saved contrasts'
+	// p-values ("bonferroni", "holm", "scheffe"); absent for none.
+	ContrastAdjust string `json:"contrast_adjust,omitempty"`
 }
 
 // responseV6 holds a rate trial's response settings (version 6).

@@ -291,6 +291,8 @@ Usage:
   furlong                      open the window
   furlong TRIAL.furlong        open the window on a trial file
   furlong --demo               open the window on the built-in demo trial
+  furlong NAME.furlong-series  open the window on a trial series
+  furlong --demo-series        open the window on the built-in demo series
   furlong COMMAND [flags]      run a command without a window
 
 Commands:

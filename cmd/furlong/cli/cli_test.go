@@ -253,6 +253,32 @@ func TestWindowArgsCatchMistypedCommands(t *testing.T) {
 	if _, err := ParseWindowArgs([]string{missing}); err == nil || !strings.Contains(err.Error(), "cannot find "+missing) {
 		t.Errorf("a missing trial file: %v", err)
 	}
+	if _, err := ParseWindowArgs([]string{"--demo-series", "--demo"}); !errors.As(err, &ue) {
+		t.Errorf("--demo-series with --demo: %v", err)
+	}
+}
+
+// The window opens a series file as a series (by its ending) and the demo
+// series on --demo-series (the README's contract). The display check may
+// refuse without one; the choice is made before it.
+func TestWindowArgsSeries(t *testing.T) {
+	t.Setenv("DISPLAY", ":99")
+	path := filepath.Join(t.TempDir(), "wheat.furlong-series")
+	if err := os.WriteFile(path, []byte("{}"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	o, err := ParseWindowArgs([]string{path})
+	if err != nil || !o.Series || o.Path != path || o.Demo || o.DemoSeries {
+		t.Errorf("a series file: %+v, %v", o, err)
+	}
+	o, err = ParseWindowArgs([]string{"--demo-series"})
+	if err != nil || !o.DemoSeries || o.Series || o.Path != "" {
+		t.Errorf("--demo-series: %+v, %v", o, err)
+	}
+	o, err = ParseWindowArgs([]string{"--demo"})
+	if err != nil || !o.Demo || o.DemoSeries || o.Series {
+		t.Errorf("--demo: %+v, %v", o, err)
+	}
 }
 
 // TestShowMapReadsLikeTheField checks that stacked blocks are printed top

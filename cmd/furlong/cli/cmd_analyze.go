@@ -105,7 +105,7 @@ func analyzeFlags(o *analyzeOptions) *flag.FlagSet {
 	fs.StringVar(&o.covariate, "covariate", "", "adjust for this covariate: a trait `key` of the trial or a CSV column (analysis of covariance)")
 	fs.BoolVar(&o.lowerBetter, "lower-is-better", false, "CSV: lower values are better (for the one-sided comparison with the check)")
 	fs.Var(&o.contrasts, "contrast", "estimate a contrast: \"NAME=A,B vs C\" or \"NAME=A:1,B:1,C:-2\" (repeatable)")
-	fs.StringVar(&o.adjust, "adjust", "none", "adjust the contrasts' p-values: none, bonferroni, holm or scheffe")
+	fs.StringVar(&o.adjust, "adjust", "", "adjust the contrasts' p-values: none, bonferroni, holm or scheffe (default: the trial's saved choice, else none)")
 	fs.BoolVar(&o.decimalComma, "decimal-comma", false, "CSV: the comma-separated file has decimal commas in quoted cells (\"5,23\")")
 	o.factorial.define(fs)
 	return fs
@@ -164,6 +164,9 @@ func runAnalyze(ctx context.Context, o analyzeOptions) error {
 		}
 		outcomes, err = analysis.AnalyzeAll(ctx, t, keys, opts)
 		saved = t.Analysis.Contrasts
+		if o.adjust == "" {
+			adj = analysis.SavedAdjustment(t)
+		}
 	}
 	if err != nil {
 		return err

@@ -60,7 +60,7 @@ one, or --price-ratio), the economic optimum and its sensitivity to the ratio.`,
 			fs.BoolVar(&o.vsCheck, "vs-check", true, "compare each entry with the check (Dunnett) on the summary and the trait sheets; --vs-check=false leaves it out")
 			fs.StringVar(&o.check, "check", "", "compare with this treatment `code` (default: the trial's check)")
 			fs.Var(&o.contrasts, "contrast", "estimate a contrast: \"NAME=A,B vs C\" or \"NAME=A:1,B:1,C:-2\" (repeatable; the trial's saved ones are estimated too)")
-			fs.StringVar(&o.adjust, "adjust", "none", "adjust the contrasts' p-values: none, bonferroni, holm or scheffe")
+			fs.StringVar(&o.adjust, "adjust", "", "adjust the contrasts' p-values: none, bonferroni, holm or scheffe (default: the trial's saved choice, else none)")
 			fs.Float64Var(&o.priceRatio, "price-ratio", 0, "rate trials: the price of a unit of input in units of produce (default: the trial's saved ratio)")
 			fs.BoolVar(&o.force, "force", false, "replace the output file if it exists")
 			return fs, func(ctx context.Context, args []string) error {
@@ -178,6 +178,9 @@ func runReport(ctx context.Context, o reportOptions) error {
 	}
 	if o.priceRatio > 0 {
 		t.Analysis.Response.PriceRatio = o.priceRatio // this report only; the file is not changed
+	}
+	if o.adjust == "" {
+		adj = analysis.SavedAdjustment(t)
 	}
 	keys, err := traitList(t, o.traits)
 	if err != nil {

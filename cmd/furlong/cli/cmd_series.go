@@ -30,9 +30,10 @@ type seriesOptions struct {
 	format    string
 	out       string
 	save      string
-	site      string // CSV: the site column
-	block     string // CSV: the block column ("" = site means)
-	treatment string // CSV: the treatment column
+	versus    stringList // "A,B": entry A head to head with entry B
+	site      string     // CSV: the site column
+	block     string     // CSV: the block column ("" = site means)
+	treatment string     // CSV: the treatment column
 	responses stringList
 }
 
@@ -57,7 +58,8 @@ Sites are random by default: entries are tested against entry × site, so the co
 sites like these. --sites fixed tests them against the pooled error (for these sites only).
 --weighted weights the two-stage analysis by each site's precision. Also given: stability
 (Finlay–Wilkinson slope, deviation MS, Wricke's ecovalence), percent of the check per site and across
-sites, and each entry head to head with the check (sites higher and lower, mean difference, paired t).
+sites, and each entry head to head with the check (sites higher and lower, mean difference, paired t);
+--versus A,B adds entry A against entry B (any two entries; repeatable).
 
 A CSV table holds plot data of many sites (--site, --block, --treatment and response columns); without
 --block its rows are site means. --save writes a series file listing the trials (the window reopens
@@ -74,6 +76,7 @@ it); a series file given as the argument brings back its trials and options.`,
 			fs.StringVar(&o.format, "format", "text", "output format: text, json or csv")
 			fs.StringVar(&o.out, "o", "", "also write the series workbook to this `file` (.xlsx)")
 			fs.StringVar(&o.save, "save", "", "write a series `file` (.furlong-series) listing the trials and options")
+			fs.Var(&o.versus, "versus", "also compare two entries head to head: \"A,B\" (repeatable)")
 			fs.StringVar(&o.site, "site", "", "CSV: the site `column`")
 			fs.StringVar(&o.block, "block", "", "CSV: the block `column` (without it the rows are site means)")
 			fs.StringVar(&o.treatment, "treatment", "", "CSV: the treatment `column`")
@@ -165,6 +168,18 @@ func runSeries(ctx context.Context, o seriesOptions) error {
 				return fmt.Errorf("trait %q: %w", tt.Trait.Key, err)
 			}
 			return err
+		}
+		for _, v := range o.versus {
+			a, b, ok := strings.Cut(v, ",")
+			a, b = strings.TrimSpace(a), strings.TrimSpace(b)
+			if !ok || a == "" || b == "" || a == b {
+				return usagef("series: --versus %q: name two different entries, A,B", v)
+			}
+			h, err := res.Pair(a, b)
+			if err != nil {
+				return usagef("series: --versus %q: %s", v, err)
+			}
+			res.HeadToHead = append(res.HeadToHead, h)
 		}
 		results = append(results, res)
 	}

@@ -97,3 +97,62 @@ func TestContrastsCommand(t *testing.T) {
 		t.Errorf("analyze text: %d, no contrasts table:\n%s", code, out)
 	}
 }
+
+// TestContrastsSavedAdjustment: 'furlong contrasts --adjust holm' saves the
+// adjustment; 'furlong analyze' then adjusts the saved contrasts by Holm
+// (Holm 1979, Scand. J. Statist. 6, 65–70: the smaller p times 2, the
+// larger p but never below the first), and --adjust none on the command
+// line still overrides it.
+func TestContrastsSavedAdjustment(t *testing.T) {
+	t.Parallel()
+	path := filepath.Join(t.TempDir(), "demo.furlong")
+	if code, _, errs := run(t, "new", "--demo", "-o", path); code != 0 {
+		t.Fatalf("new --demo: %d %s", code, errs)
+	}
+	code, out, errs := run(t, "contrasts", path, "--add", "new=HM01,HM02 vs CHK", "--add", "one=HM01:1,HM02:-1", "--adjust", "holm")
+	if code != 0 || !strings.Contains(out, "p-values adjusted together: holm") {
+		t.Fatalf("save: %d %q %q", code, out, errs)
+	}
+	type contrastJSON struct {
+		Name      string  `json:"name"`
+		P         float64 `json:"p"`
+		PAdjusted float64 `json:"p_adjusted"`
+	}
+	get := func(args ...string) []contrastJSON {
+		t.Helper()
+		code, out, errs := run(t, append([]string{"analyze", path, "--trait", "yield", "--format", "json"}, args...)...)
+		if code != 0 {
+			t.Fatalf("analyze: %d %s", code, errs)
+		}
+		var doc struct {
+			Traits []struct {
+				Contrasts []contrastJSON `json:"contrasts"`
+			} `json:"traits"`
+		}
+		if err := json.Unmarshal([]byte(out), &doc); err != nil {
+			t.Fatal(err)
+		}
+		return doc.Traits[0].Contrasts
+	}
+	cs := get()
+	if len(cs) != 2 {
+		t.Fatalf("contrasts %+v", cs)
+	}
+	lo, hi := cs[0], cs[1]
+	if lo.P > hi.P {
+		lo, hi = hi, lo
+	}
+	first := math.Min(1, 2*lo.P)
+	second := math.Min(1, math.Max(first, hi.P))
+	if math.Abs(lo.PAdjusted-first) > 1e-12 || math.Abs(hi.PAdjusted-second) > 1e-12 {
+		t.Errorf("saved Holm: %+v, by hand %g and %g", cs, first, second)
+	}
+	for _, c := range get("--adjust", "none") {
+		if c.PAdjusted != c.P {
+			t.Errorf("--adjust none: %+v", c)
+		}
+	}
+	if code, _, errs := run(t, "contrasts", path, "--adjust", "sidak"); code != ExitUsage || !strings.Contains(errs, "not known") {
+		t.Errorf("unknown adjustment: %d %q", code, errs)
+	}
+}

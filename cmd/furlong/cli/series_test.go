@@ -8,11 +8,14 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
 
 	"github.com/xuri/excelize/v2"
+	"gonum.org/v1/gonum/stat"
+	"gonum.org/v1/gonum/stat/distuv"
 
 	"furlong/export/xlsx"
 	"furlong/trial/series"
@@ -477,6 +480,61 @@ func TestSeriesErrors(t *testing.T) {
 		_, errs, code := run(tc.args...)
 		if code != tc.code || !strings.Contains(errs, tc.want) {
 			t.Errorf("%v: exit %d %q; want exit %d with %q", tc.args[1:], code, errs, tc.code, tc.want)
+		}
+	}
+}
+
+// TestSeriesVersus: --versus V2,V3 adds V2 against V3 head to head, worked
+// by hand from the CSV's plots: each site's entry means, their differences
+// d, and the paired t = mean(d)/(sd(d)/√n) on n−1 df (common practice),
+// its two-sided p from gonum's Student's t; the check lines stay.
+func TestSeriesVersus(t *testing.T) {
+	t.Parallel()
+	path := filepath.Join(seriesTestdata, "series-4-sites.csv")
+	got := seriesJSON(t, path, "--site", "site", "--block", "block", "--treatment", "entry", "--response", "yield", "--check", "V1", "--versus", "V2,V3")
+	f, err := os.Open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	rows, err := csv.NewReader(f).ReadAll()
+	f.Close()
+	if err != nil {
+		t.Fatal(err)
+	}
+	sum, n := map[[2]string]float64{}, map[[2]string]int{}
+	var sites []string
+	for _, r := range rows[1:] {
+		y, _ := strconv.ParseFloat(r[4], 64)
+		k := [2]string{r[1], r[3]}
+		if !slices.Contains(sites, r[1]) {
+			sites = append(sites, r[1])
+		}
+		sum[k] += y
+		n[k]++
+	}
+	var d []float64
+	higher := 0
+	for _, s := range sites {
+		a, b := sum[[2]string{s, "V2"}]/float64(n[[2]string{s, "V2"}]), sum[[2]string{s, "V3"}]/float64(n[[2]string{s, "V3"}])
+		d = append(d, a-b)
+		if a > b {
+			higher++
+		}
+	}
+	mean, sd := stat.MeanStdDev(d, nil)
+	tv := mean / (sd / math.Sqrt(float64(len(d))))
+	p := 2 * distuv.StudentsT{Mu: 0, Sigma: 1, Nu: float64(len(d) - 1)}.Survival(math.Abs(tv))
+	hh := got.Traits[0].HeadToHead
+	if len(hh) != 6 {
+		t.Fatalf("%d head-to-head lines, want 5 against the check and the pair", len(hh))
+	}
+	h := hh[5]
+	if h.Treatment != "V2" || h.Versus != "V3" || h.Sites != len(sites) || h.Higher != higher || math.Abs(h.MeanDiff-mean) > 1e-9 || h.P == nil || math.Abs(*h.P-p) > 1e-9 {
+		t.Errorf("V2 vs V3: %+v (p %v); by hand diff %.6f, higher %d, p %.6f", h, h.P, mean, higher, p)
+	}
+	for _, bad := range []string{"V2", "V2,V2", "V2,ZZ"} {
+		if _, errs, code := runSeriesCmd(t, path, "--site", "site", "--block", "block", "--treatment", "entry", "--response", "yield", "--versus", bad); code != ExitUsage || !strings.Contains(errs, "--versus") {
+			t.Errorf("--versus %q: exit %d, %q", bad, code, errs)
 		}
 	}
 }

@@ -156,11 +156,15 @@ func writeSeriesResultText(bw io.Writer, r *series.Result) {
 	}
 
 	if len(r.HeadToHead) > 0 {
-		fmt.Fprintf(bw, "\nHead to head with the check %s (paired t over sites):\n", r.Entries[r.Check].Code)
+		if r.Check >= 0 {
+			fmt.Fprintf(bw, "\nHead to head with the check %s (paired t over sites):\n", r.Entries[r.Check].Code)
+		} else {
+			fmt.Fprintln(bw, "\nHead to head (paired t over sites):")
+		}
 		tw = tabwriter.NewWriter(bw, 0, 0, 2, ' ', tabwriter.AlignRight)
-		fmt.Fprintln(tw, "entry\tsites\thigher\tlower\tmean diff\tp\t")
+		fmt.Fprintln(tw, "entry\tversus\tsites\thigher\tlower\tmean diff\tp\t")
 		for _, h := range r.HeadToHead {
-			fmt.Fprintf(tw, "%s\t%d\t%d\t%d\t%s\t%s\t\n", h.A, h.Sites, h.Higher, h.Lower, seriesNum(h.MeanDiff, d+1), seriesOptP(h.P))
+			fmt.Fprintf(tw, "%s\t%s\t%d\t%d\t%d\t%s\t%s\t\n", h.A, h.B, h.Sites, h.Higher, h.Lower, seriesNum(h.MeanDiff, d+1), seriesOptP(h.P))
 		}
 		tw.Flush()
 	}

@@ -4,24 +4,32 @@ import (
 	"errors"
 	"io/fs"
 	"os"
+	"path/filepath"
 	"runtime"
 	"strings"
+
+	"furlong/trial/series"
 )
 
 // WindowOptions are the command-line choices of the window path.
 type WindowOptions struct {
-	Demo bool   // open the built-in demo trial
-	Path string // open this trial file
+	Demo       bool   // open the built-in demo trial
+	DemoSeries bool   // open the built-in demo series
+	Path       string // open this trial file, or this series file (Series)
+	Series     bool   // Path is a series file (.furlong-series)
 }
 
-// ParseWindowArgs reads the window path's arguments: nothing, --demo, or
-// one trial file. Anything else is a usage error (Main reports it).
+// ParseWindowArgs reads the window path's arguments: nothing, --demo,
+// --demo-series, or one trial or series file. Anything else is a usage
+// error (Main reports it).
 func ParseWindowArgs(args []string) (WindowOptions, error) {
 	var o WindowOptions
 	for _, a := range args {
 		switch {
 		case a == "--demo" || a == "-demo":
 			o.Demo = true
+		case a == "--demo-series" || a == "-demo-series":
+			o.DemoSeries = true
 		case strings.HasPrefix(a, "-"):
 			return o, usagef("unknown option %q", a)
 		case o.Path == "":
@@ -33,6 +41,10 @@ func ParseWindowArgs(args []string) (WindowOptions, error) {
 	if o.Demo && o.Path != "" {
 		return o, usagef("--demo and a trial file cannot be opened together")
 	}
+	if o.DemoSeries && (o.Demo || o.Path != "") {
+		return o, usagef("--demo-series opens the demo series on its own, without --demo or a file")
+	}
+	o.Series = strings.EqualFold(filepath.Ext(o.Path), series.FileExt)
 	if o.Path != "" {
 		if _, err := os.Stat(o.Path); errors.Is(err, fs.ErrNotExist) {
 			if !strings.ContainsAny(o.Path, "./\\") {

@@ -4,6 +4,9 @@
 // reproducible: a few entries differ clearly from the rest, most do not,
 // block 1 sits on the better end of a fertility gradient, one plot is
 // excluded (deer grazing) and one height reading is missing.
+//
+// With -series DIR it also writes the demo series (series.go): the same
+// entries at five fictional sites in one season, one trial file per site.
 package main
 
 import (
@@ -20,7 +23,14 @@ import (
 
 func main() {
 	out := flag.String("o", "demo.furlong", "output file")
+	seriesDir := flag.String("series", "", "also write the demo series' trial files into this folder")
 	flag.Parse()
+	if *seriesDir != "" {
+		if err := writeSeries(*seriesDir); err != nil {
+			fmt.Fprintln(os.Stderr, "gen:", err)
+			os.Exit(1)
+		}
+	}
 	t, err := build()
 	if err != nil {
 		fmt.Fprintln(os.Stderr, "gen:", err)
