@@ -245,6 +245,14 @@ func (t *Trial) RemoveTrait(key string) error {
 	for i := range t.Plots {
 		t.Plots[i].Exclusions = dropExclusions(t.Plots[i].Exclusions, key)
 	}
+	for i := range t.Traits {
+		if t.Traits[i].Covariate == key {
+			t.Traits[i].Covariate = "" // its covariate is gone (undo brings both back)
+		}
+	}
+	if t.Economics.Trait == key {
+		t.Economics.Trait = ""
+	}
 	return nil
 }
 
@@ -358,6 +366,11 @@ func (t *Trial) UpdateTrait(key string, tr Trait) error {
 		}
 		if t.Economics.Trait == key {
 			t.Economics.Trait = tr.Key
+		}
+		for i := range t.Traits {
+			if t.Traits[i].Covariate == key {
+				t.Traits[i].Covariate = tr.Key
+			}
 		}
 	}
 	var p problems

@@ -377,6 +377,10 @@ type Trait struct {
 	// PreCountOf, when set, marks the trait as the pre-treatment count of
 	// the trait or series with that key (for Henderson–Tilton efficacy).
 	PreCountOf string
+	// Covariate, when set, is the key of another trait measured on the same
+	// plots (a stand count, a pre-treatment count) that this trait's
+	// analysis is adjusted for (analysis of covariance), in every view.
+	Covariate string
 }
 
 // Missing is the value stored for a missing observation.

@@ -304,6 +304,14 @@ func (p *problems) checkTrait(t *Trial, i int, seen map[string]int) {
 		} else if tr.Min != nil && tr.Max != nil && *tr.Min > *tr.Max {
 			p.add(f+".Min", "trait %q has its minimum (%g) above its maximum (%g)", tr.Key, *tr.Min, *tr.Max)
 		}
+		if c := tr.Covariate; c != "" {
+			switch j := t.TraitIndex(c); {
+			case c == tr.Key:
+				p.add(f+".Covariate", "trait %q cannot be adjusted for itself; choose another trait measured on the same plots", tr.Key)
+			case j < 0:
+				p.add(f+".Covariate", "trait %q is adjusted for the covariate %q, which the trial does not have", tr.Key, c)
+			}
+		}
 		if tr.Decimals < 0 || tr.Decimals > MaxDecimals {
 			p.add(f+".Decimals", "trait %q is set to %d decimals; use 0 to %d", tr.Key, tr.Decimals, MaxDecimals)
 		}

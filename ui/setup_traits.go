@@ -41,6 +41,8 @@ type traitForm struct {
 	// pctCheck whether its means are shown as percent of the check
 	// (pctCheckLabels: the default, yes or no).
 	transform, pctCheck *widget.Select
+	// covariate is the trait this one is adjusted for (noCovariate: none).
+	covariate *widget.Select
 
 	// Settings of a derived (adjusted-yield) trait, shown only for one.
 	derivedBox       *fyne.Container
@@ -83,6 +85,9 @@ func (s *traitsTab) build() fyne.CanvasObject {
 			if tr.Transform != trial.TransformNone {
 				txt += " · " + stats.Transform(tr.Transform).Scale() + " scale"
 			}
+			if tr.Covariate != "" {
+				txt += " · adjusted for " + tr.Covariate
+			}
 			o.(*widget.Label).SetText(txt)
 		})
 	f := &traitForm{}
@@ -106,6 +111,8 @@ func (s *traitsTab) build() fyne.CanvasObject {
 	f.transform.SetSelectedIndex(0)
 	f.pctCheck = widget.NewSelect(pctCheckLabels, nil)
 	f.pctCheck.SetSelectedIndex(0)
+	f.covariate = widget.NewSelect([]string{noCovariate}, nil)
+	f.covariate.SetSelected(noCovariate)
 
 	f.derivedFrom = widget.NewLabel("")
 	f.derivedFrom.Wrapping = fyne.TextWrapWord
@@ -165,6 +172,7 @@ func (s *traitsTab) build() fyne.CanvasObject {
 		widget.NewFormItem("Kind", f.kind), widget.NewFormItem("Valid from", f.minE), widget.NewFormItem("Valid to", f.maxE),
 		widget.NewFormItem("Decimals", f.dec), widget.NewFormItem("", f.higher),
 		widget.NewFormItem("Analysed as", f.transform), widget.NewFormItem("Percent of check", f.pctCheck),
+		widget.NewFormItem("Adjusted for", f.covariate),
 	)
 	help := widget.NewLabel("Select a trait to change it; values outside the valid range are kept and flagged in Record. Adjusted yield is computed from plot weight and grain moisture. " + transformHelp)
 	help.Wrapping = fyne.TextWrapWord
@@ -194,6 +202,7 @@ func (s *traitsTab) loadTraitForm(tr *trial.Trait) {
 		f.higher.SetChecked(true)
 		f.transform.SetSelectedIndex(0)
 		f.pctCheck.SetSelectedIndex(0)
+		s.fillCovariates("", "")
 		f.derivedBox.Hide()
 		f.apply.Disable()
 		f.remove.Disable()
@@ -211,6 +220,7 @@ func (s *traitsTab) loadTraitForm(tr *trial.Trait) {
 	f.higher.SetChecked(tr.HigherBetter)
 	f.transform.SetSelectedIndex(max(slices.Index(transformValues, tr.Transform), 0))
 	f.pctCheck.SetSelectedIndex(pctCheckIndex(tr.PercentOfCheck))
+	s.fillCovariates(tr.Key, tr.Covariate)
 	f.apply.Enable()
 	f.remove.Enable()
 	if d := tr.Derived; d != nil {
@@ -279,6 +289,10 @@ func (s *traitsTab) traitFromForm(base trial.Trait) (trial.Trait, error) {
 	tr.HigherBetter = f.higher.Checked
 	tr.Transform = transformValues[max(f.transform.SelectedIndex(), 0)]
 	tr.PercentOfCheck = pctCheckValue(f.pctCheck.SelectedIndex())
+	tr.Covariate = ""
+	if c := f.covariate.Selected; c != noCovariate && c != "" {
+		tr.Covariate = c
+	}
 	if base.Derived == nil {
 		tr.Kind = kindValues[max(f.kind.SelectedIndex(), 0)]
 		return tr, errors.Join(errs...)
@@ -397,4 +411,24 @@ func pctCheckValue(i int) *bool {
 		return &no
 	}
 	return nil
+}
+
+// noCovariate is the covariate select's entry for no adjustment.
+const noCovariate = "nothing (no covariate)"
+
+// fillCovariates offers the trial's other traits as the covariate of the
+// trait with key (every trait for a new one) and selects cov.
+func (s *traitsTab) fillCovariates(key, cov string) {
+	opts := []string{noCovariate}
+	for _, tr := range s.t().Traits {
+		if tr.Key != key {
+			opts = append(opts, tr.Key)
+		}
+	}
+	f := s.tf
+	f.covariate.Options = opts
+	if cov == "" || !slices.Contains(opts, cov) {
+		cov = noCovariate
+	}
+	f.covariate.SetSelected(cov)
 }

@@ -203,3 +203,36 @@ func TestTraitTransformAndPercentOfCheck(t *testing.T) {
 		t.Fatalf("undo left transform %q, percent of check %v", got.Transform, got.PercentOfCheck)
 	}
 }
+
+// Setup › Traits: "Adjusted for" offers the other traits; the choice is
+// saved with the trait (undoable) and Compare's analysis of it is then the
+// analysis of covariance on that trait, as the report's and the CLI's are.
+func TestTraitCovariateChoice(t *testing.T) {
+	u, _ := newTestApp(t, 0)
+	tr := smallTrial(t)
+	for i := range tr.Plots {
+		tr.Traits[0].Values[i] = 5 + 0.1*float64(i%4) + 0.01*float64(i)
+		tr.Traits[1].Values[i] = 300 + float64((i*7)%11)
+	}
+	u.OpenTrial(tr, "")
+	u.showStep(stepSetup)
+	s := u.steps[stepSetup].(*setupStep)
+	f := s.tf
+	s.traitList.Select(0)
+	if got := f.covariate.Options; len(got) != 2 || got[0] != noCovariate || got[1] != "heads" || f.covariate.Selected != noCovariate {
+		t.Fatalf("covariate choices %v, selected %q", got, f.covariate.Selected)
+	}
+	f.covariate.SetSelected("heads")
+	test.Tap(f.apply)
+	if got := u.doc.t.Trait("yld").Covariate; got != "heads" {
+		t.Fatalf("saved covariate %q", got)
+	}
+	s2 := pumpAnalysis(t, u, func() { u.showStep(stepCompare) })
+	if r := s2.result("yld"); r == nil || r.res == nil || r.res.Covariate == nil || r.res.Covariate.Key != "heads" {
+		t.Fatalf("Compare's analysis is not adjusted for heads: %+v", r)
+	}
+	u.undo()
+	if got := u.doc.t.Trait("yld").Covariate; got != "" {
+		t.Errorf("after undo: %q", got)
+	}
+}

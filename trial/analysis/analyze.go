@@ -116,9 +116,17 @@ func Analyze(t *trial.Trial, key string, o Options) (*Result, error) {
 	if err != nil {
 		return nil, err
 	}
-	// The covariate trait itself is analysed as it is.
-	if o.Covariate != "" && o.Covariate != key {
-		if err := attachCovariate(t, d, o.Covariate); err != nil {
+	// The covariate: the one asked for, else the trait's own (saved with
+	// it); NoCovariate asks for none. The covariate trait itself is
+	// analysed as it is.
+	cov := o.Covariate
+	if cov == "" {
+		if tr := t.Trait(key); tr != nil {
+			cov = tr.Covariate
+		}
+	}
+	if cov != "" && cov != NoCovariate && cov != key {
+		if err := attachCovariate(t, d, cov); err != nil {
 			return nil, err
 		}
 	}

@@ -152,3 +152,7 @@ func factorialCovariate(r *Result, d *Data, g *glm.Result, combo func(int) int, 
 	r.Covariate = rc
 	return nil
 }
+
+// NoCovariate, as Options.Covariate, analyses a trait without the
+// covariate saved with it (the command line's --covariate none).
+const NoCovariate = "none"

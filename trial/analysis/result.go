@@ -30,7 +30,9 @@ type Options struct {
 	// Both letterings are computed whatever the method.
 	Method meansep.Method
 	// Covariate is the key of a trait (or a table's column) to adjust
-	// every analysed trait for by analysis of covariance; "" for none.
+	// every analysed trait for by analysis of covariance; "" for each
+	// trait's own saved covariate (trial.Trait.Covariate, none when it has
+	// none), NoCovariate for none at all.
 	Covariate string
 }
 

@@ -130,6 +130,9 @@ func decodeV1(data []byte, version int) (*trial.Trial, error) {
 			f.Trial.Analysis.ContrastAdjust = ""
 		}
 		f.Trial.Economics = nil
+		for i := range f.Trial.Traits {
+			f.Trial.Traits[i].Covariate = ""
+		}
 	}
 	if version < 5 {
 		f.Trial.Operations = nil
@@ -282,6 +285,7 @@ func fromV1(ft *trialV1) (*trial.Trial, *fieldError) {
 			HigherBetter:   tr.HigherBetter,
 			Transform:      tr.Transform,
 			PercentOfCheck: tr.PercentOfCheck,
+			Covariate:      tr.Covariate,
 		}
 		if tt.Transform == transformNone {
 			tt.Transform = trial.TransformNone

@@ -116,6 +116,7 @@ func toV1(t *trial.Trial) (*trialV1, error) {
 			HigherBetter:   tr.HigherBetter,
 			Transform:      tr.Transform,
 			PercentOfCheck: tr.PercentOfCheck,
+			Covariate:      tr.Covariate,
 		}
 		if fr.Transform == trial.TransformNone {
 			fr.Transform = transformNone

@@ -128,3 +128,29 @@ func TestContrastAdjust(t *testing.T) {
 		t.Errorf("unknown adjustment: %v", err)
 	}
 }
+
+// TestTraitCovariateSaved: a trait's covariate (version 6) is read back as
+// written and ignored in a version 5 file.
+func TestTraitCovariateSaved(t *testing.T) {
+	t.Parallel()
+	src := `{"format": "furlong-trial", "version": 6, "trial": {
+	"treatments": [{"code": "a"}, {"code": "b"}], "design": {"kind": "crd", "reps": 1},
+	"plots": [{"number": 1, "block": 1, "row": 1, "column": 1, "treatment": "a"}, {"number": 2, "block": 1, "row": 1, "column": 2, "treatment": "b"}],
+	"traits": [{"key": "y", "kind": "continuous", "values": [1, 2], "covariate": "st"},
+	           {"key": "st", "kind": "count", "values": [30, 31]}]}}`
+	tr, err := Decode(strings.NewReader(src))
+	if err != nil || tr.Traits[0].Covariate != "st" {
+		t.Fatalf("read %+v, %v", tr.Traits[0], err)
+	}
+	var buf bytes.Buffer
+	if err := Encode(&buf, tr); err != nil {
+		t.Fatal(err)
+	}
+	back, err := Decode(&buf)
+	if err != nil || back.Traits[0].Covariate != "st" || back.Traits[1].Covariate != "" {
+		t.Errorf("round trip: %v, %q", err, back.Traits[0].Covariate)
+	}
+	if v5, err := Decode(strings.NewReader(strings.Replace(src, `"version": 6`, `"version": 5`, 1))); err != nil || v5.Traits[0].Covariate != "" {
+		t.Errorf("version 5 took the covariate: %v", err)
+	}
+}

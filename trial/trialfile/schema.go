@@ -158,6 +158,8 @@ type traitV1 struct {
 	// count of a trait or series. Absent when not set.
 	Assessment *assessmentV3 `json:"assessment,omitempty"`
 	PreCountOf string        `json:"pre_count_of,omitempty"`
+	// Covariate (version 6): the key of the trait this one is adjusted for.
+	Covariate string `json:"covariate,omitempty"`
 }
 
 // assessmentV3 is one assessment of a series over time.

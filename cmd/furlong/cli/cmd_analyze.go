@@ -102,7 +102,7 @@ func analyzeFlags(o *analyzeOptions) *flag.FlagSet {
 	fs.StringVar(&o.transform, "transform", "", "analyse transformed values: log, sqrt or arcsin")
 	fs.BoolVar(&o.unprotected, "unprotected", false, "give LSD letters even when the treatment F test is not significant")
 	fs.StringVar(&o.check, "check", "", "compare every treatment with this check `code` (Dunnett); default: the trial's one check")
-	fs.StringVar(&o.covariate, "covariate", "", "adjust for this covariate: a trait `key` of the trial or a CSV column (analysis of covariance)")
+	fs.StringVar(&o.covariate, "covariate", "", "adjust for this covariate: a trait `key` of the trial or a CSV column (analysis of covariance); default: each trait's saved covariate; none: no adjustment")
 	fs.BoolVar(&o.lowerBetter, "lower-is-better", false, "CSV: lower values are better (for the one-sided comparison with the check)")
 	fs.Var(&o.contrasts, "contrast", "estimate a contrast: \"NAME=A,B vs C\" or \"NAME=A:1,B:1,C:-2\" (repeatable)")
 	fs.StringVar(&o.adjust, "adjust", "", "adjust the contrasts' p-values: none, bonferroni, holm or scheffe (default: the trial's saved choice, else none)")

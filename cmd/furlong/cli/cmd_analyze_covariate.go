@@ -14,7 +14,7 @@ import (
 // covariate trait out of the traits analysed (it adjusts them; it is not
 // adjusted itself).
 func covariateKeys(t *trial.Trial, keys []string, trait, cov string) ([]string, error) {
-	if cov == "" {
+	if cov == "" || cov == analysis.NoCovariate {
 		return keys, nil
 	}
 	if t.Trait(cov) == nil {
