@@ -2,6 +2,7 @@ package ui
 
 import (
 	"context"
+	"errors"
 	"sync"
 	"time"
 
@@ -195,15 +196,17 @@ func (a *analyser) run() {
 			withCharts.charts = set.charts
 			a.post(func() { a.deliver(&withCharts) })
 		}
+		var rest []string
 		for _, tr := range snap.Traits {
-			if tr.Key == focus {
-				continue
+			if tr.Key != focus {
+				rest = append(rest, tr.Key)
 			}
-			if ctx.Err() != nil {
-				return
-			}
-			set.traits = append(set.traits, analyzeTrait(snap, tr.Key, opts))
 		}
+		more, err := analyzeRest(ctx, snap, rest, opts)
+		if err != nil {
+			return // stopped: a newer round runs
+		}
+		set.traits = append(set.traits, more...)
 		// Keep the trial's trait order.
 		ordered := make([]traitResult, 0, len(set.traits))
 		for _, tr := range snap.Traits {
@@ -296,4 +299,45 @@ func summaryCheck(r *analysis.Result, code string) (vc *analysis.CheckComparison
 		}
 	}()
 	return analysis.CompareWithCheck(r, code)
+}
+
+// analyzeRest analyses the traits of keys by the one per-trait loop
+// (analysis.AnalyzeAll: one worker per processor), for the summary after
+// the trait on screen. Should the statistics panic on one trait, each is
+// analysed again on its own so that only that trait shows the failure. It
+// returns ctx's error when the round was stopped.
+func analyzeRest(ctx context.Context, t *trial.Trial, keys []string, opts analysis.Options) ([]traitResult, error) {
+	if len(keys) == 0 {
+		return nil, nil
+	}
+	outs, err := safeAnalyzeAll(ctx, t, keys, opts)
+	if errors.Is(err, errAnalysisFailed) {
+		out := make([]traitResult, 0, len(keys))
+		for _, k := range keys {
+			if ctx.Err() != nil {
+				return nil, ctx.Err()
+			}
+			out = append(out, analyzeTrait(t, k, opts))
+		}
+		return out, nil
+	}
+	if err != nil {
+		return nil, err
+	}
+	out := make([]traitResult, len(outs))
+	for i, oc := range outs {
+		out[i] = traitResult{key: oc.Key, res: oc.Result, err: oc.Err}
+	}
+	return out, nil
+}
+
+// safeAnalyzeAll is analysis.AnalyzeAll with a panic (raised again on this
+// goroutine by its workers) turned into errAnalysisFailed.
+func safeAnalyzeAll(ctx context.Context, t *trial.Trial, keys []string, opts analysis.Options) (outs []analysis.Outcome, err error) {
+	defer func() {
+		if p := recover(); p != nil {
+			outs, err = nil, errAnalysisFailed
+		}
+	}()
+	return analysis.AnalyzeAll(ctx, t, keys, opts)
 }

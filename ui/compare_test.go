@@ -1,6 +1,7 @@
 package ui
 
 import (
+	"context"
 	"math"
 	"testing"
 
@@ -9,7 +10,9 @@ import (
 	"fyne.io/fyne/v2/test"
 	"fyne.io/fyne/v2/widget"
 
+	"furlong/sampledata"
 	"furlong/stats/meansep"
+	"furlong/trial/analysis"
 )
 
 // Switching to Tukey shows the Tukey letters of the same analysis, and a
@@ -136,5 +139,46 @@ func TestFieldFeet(t *testing.T) {
 	}
 	if l.PlotLength != 10 || math.Abs(l.PlotWidth-1.8288) > 1e-12 {
 		t.Errorf("read back %v m and %v m, want 10 and 1.8288", l.PlotLength, l.PlotWidth)
+	}
+}
+
+// The window's round analyses every trait by the one per-trait rule
+// (analysis.AnalyzeAll, as the report and the command line do): the same
+// ANOVA and means for every trait of the demo trial.
+func TestRoundMatchesAnalyzeAll(t *testing.T) {
+	u, _ := newTestApp(t, 0)
+	tr, err := sampledata.Trial()
+	if err != nil {
+		t.Fatal(err)
+	}
+	u.OpenTrial(tr, "")
+	s := pumpAnalysis(t, u, func() { u.showStep(stepCompare) })
+	outs, err := analysis.AnalyzeAll(context.Background(), s.snap, nil, analysis.Options{Alpha: s.alpha})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(s.traits) != len(outs) {
+		t.Fatalf("%d traits in the round, %d by AnalyzeAll", len(s.traits), len(outs))
+	}
+	for i, oc := range outs {
+		got := s.traits[i]
+		if got.key != oc.Key || (got.err == nil) != (oc.Err == nil) {
+			t.Fatalf("trait %d: %q (%v) vs %q (%v)", i, got.key, got.err, oc.Key, oc.Err)
+		}
+		if oc.Result == nil {
+			continue
+		}
+		a, b := got.res, oc.Result
+		ta, _ := a.ANOVA.Treatment()
+		tb, _ := b.ANOVA.Treatment()
+		if ta.F != tb.F || len(a.Means) != len(b.Means) {
+			t.Errorf("%s: F %v vs %v", oc.Key, ta.F, tb.F)
+			continue
+		}
+		for j := range a.Means {
+			if a.Means[j].Mean != b.Means[j].Mean || a.Means[j].LettersLSD != b.Means[j].LettersLSD {
+				t.Errorf("%s %s: %v %q vs %v %q", oc.Key, a.Means[j].Treatment, a.Means[j].Mean, a.Means[j].LettersLSD, b.Means[j].Mean, b.Means[j].LettersLSD)
+			}
+		}
 	}
 }
