@@ -7,7 +7,7 @@ import (
 )
 
 // plantGrowth is R's datasets::PlantGrowth (Dobson 1983, Table 7.1) as
-// analysed by R 4.2.2 in testdata/open-datasets/plant-growth.expected.json:
+// analysed by R 4.2.2 in stats/refdata/plant-growth.expected.json:
 // the three means (ctrl, trt1, trt2), ten plants each, and the error mean
 // square on 27 df.
 var (

@@ -8,6 +8,8 @@ import (
 	"path/filepath"
 	"sort"
 	"testing"
+
+	"furlong/stats/refdata"
 )
 
 // readCSV returns the header and rows of a testdata CSV file.
@@ -22,6 +24,14 @@ func readCSV(t *testing.T, name string) ([]string, [][]string) {
 	if err != nil {
 		t.Fatal(err)
 	}
+	return recs[0], recs[1:]
+}
+
+// readRefCSV returns the header and rows of a CSV file of the shared
+// reference data (stats/refdata, provenance in its README.md).
+func readRefCSV(t *testing.T, name string) ([]string, [][]string) {
+	t.Helper()
+	recs := refdata.CSV(t, name)
 	return recs[0], recs[1:]
 }
 
@@ -98,7 +108,7 @@ type expected struct {
 
 func readExpected(t *testing.T, name string) expected {
 	t.Helper()
-	b, err := os.ReadFile(filepath.Join("testdata", "open-datasets", name+".expected.json"))
+	b, err := refdata.ReadFile(name + ".expected.json")
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -3,8 +3,8 @@ package stats
 import (
 	"encoding/json"
 	"errors"
+	"furlong/stats/refdata"
 	"math"
-	"os"
 	"testing"
 )
 
@@ -21,7 +21,7 @@ type planningCase struct {
 
 func loadPlanning(t *testing.T) []planningCase {
 	t.Helper()
-	b, err := os.ReadFile("testdata/planning/planning.expected.json")
+	b, err := refdata.ReadFile("planning.expected.json")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -40,7 +40,7 @@ func loadPlanning(t *testing.T) []planningCase {
 func TestDetectableDifferenceAgainstR(t *testing.T) {
 	t.Parallel()
 	// Reference: R 4.2.2, pt/qt with ncp and uniroot
-	// (testdata/planning/planning.expected.json).
+	// (stats/refdata/planning.expected.json).
 	for _, c := range loadPlanning(t) {
 		in := PowerInput{Reps: c.Reps, DFError: c.DFError, CV: c.CV, Alpha: c.Alpha}
 		got, err := DetectableDifference(in, c.Power)

@@ -2,7 +2,6 @@ package stats
 
 import (
 	"math"
-	"path/filepath"
 	"strconv"
 	"strings"
 	"testing"
@@ -16,7 +15,7 @@ const refTol = 1e-9
 // column and nuisance columns, dropping rows whose response is NA.
 func loadRef(t *testing.T, name, response, treatment string, nuisance ...string) (Model, []string) {
 	t.Helper()
-	header, rows := readCSV(t, filepath.Join("open-datasets", name+".csv"))
+	header, rows := readRefCSV(t, name+".csv")
 	ys := column(t, header, rows, response)
 	var keep [][]string
 	var y []float64

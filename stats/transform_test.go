@@ -3,7 +3,6 @@ package stats
 import (
 	"errors"
 	"math"
-	"path/filepath"
 	"strconv"
 	"testing"
 )
@@ -13,8 +12,8 @@ import (
 // significant digits), with no offset.
 func TestSqrtAgainstR(t *testing.T) {
 	t.Parallel()
-	h1, r1 := readCSV(t, filepath.Join("open-datasets", "insect-sprays.csv"))
-	h2, r2 := readCSV(t, filepath.Join("open-datasets", "insect-sprays-sqrt.csv"))
+	h1, r1 := readRefCSV(t, "insect-sprays.csv")
+	h2, r2 := readRefCSV(t, "insect-sprays-sqrt.csv")
 	counts := column(t, h1, r1, "count")
 	roots := column(t, h2, r2, "sqrt_count")
 	var y, want []float64

@@ -4,9 +4,8 @@ import (
 	"encoding/csv"
 	"encoding/json"
 	"errors"
+	"furlong/stats/refdata"
 	"math"
-	"os"
-	"path/filepath"
 	"slices"
 	"strconv"
 	"strings"
@@ -52,14 +51,14 @@ type dataset struct {
 func load(t *testing.T, name string) (fixture, dataset) {
 	t.Helper()
 	var fx fixture
-	b, err := os.ReadFile(filepath.Join("testdata", name+".expected.json"))
+	b, err := refdata.ReadFile(name + ".expected.json")
 	if err != nil {
 		t.Fatal(err)
 	}
 	if err := json.Unmarshal(b, &fx); err != nil {
 		t.Fatal(err)
 	}
-	f, err := os.Open(filepath.Join("testdata", name+".csv"))
+	f, err := refdata.Open(name + ".csv")
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -2,6 +2,8 @@ package dist
 
 import (
 	"bufio"
+	"furlong/stats/refdata"
+	"io/fs"
 	"math"
 	"os"
 	"strconv"
@@ -14,11 +16,12 @@ import (
 	"gonum.org/v1/gonum/stat/distuv"
 )
 
-// readCSV reads a comma-separated file from testdata, skipping comment
-// lines starting with '#' and the header line.
-func readCSV(t *testing.T, name string) [][]string {
+// readCSV reads a comma-separated file from src (testdata or the shared
+// stats/refdata), skipping comment lines starting with '#' and the header
+// line.
+func readCSV(t *testing.T, src fs.FS, name string) [][]string {
 	t.Helper()
-	f, err := os.Open("testdata/" + name)
+	f, err := src.Open(name)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -65,13 +68,13 @@ func parseF(t *testing.T, s string) float64 {
 }
 
 // TestQuantileTable checks Quantile against the upper 5% and 1% points in
-// testdata/studentized-range-quantiles.csv (scipy 1.10.1
+// stats/refdata/studentized-range-quantiles.csv (scipy 1.10.1
 // studentized_range.ppf, confirmed by an independent 30-digit quadrature;
-// see testdata/README.md), printed to 4 decimals. With -short only every
+// see stats/refdata/README.md), printed to 4 decimals. With -short only every
 // fifth row is checked.
 func TestQuantileTable(t *testing.T) {
 	t.Parallel()
-	rows := readCSV(t, "studentized-range-quantiles.csv")
+	rows := readCSV(t, refdata.FS(), "studentized-range-quantiles.csv")
 	if len(rows) != 1144 {
 		t.Fatalf("quantile table has %d rows, want 1144", len(rows))
 	}
@@ -120,7 +123,7 @@ func TestQuantileTable(t *testing.T) {
 // TestSwappedOrder confirms this package's values to 1e-13 relative.)
 func TestScipyFixture(t *testing.T) {
 	t.Parallel()
-	rows := readCSV(t, "studentized-range-scipy.csv")
+	rows := readCSV(t, os.DirFS("testdata"), "studentized-range-scipy.csv")
 	if len(rows) < 200 {
 		t.Fatalf("scipy fixture has only %d rows", len(rows))
 	}

@@ -3,20 +3,19 @@ package glm
 import (
 	"encoding/csv"
 	"encoding/json"
+	"furlong/stats/refdata"
 	"math"
-	"os"
-	"path/filepath"
 	"sort"
 	"strconv"
 	"testing"
 )
 
-// loadCSV reads a reference table from testdata: the named factor columns
+// loadCSV reads a reference table from stats/refdata: the named factor columns
 // (levels sorted as R sorts them), an optional block column and the
 // response (empty cells are missing plots).
 func loadCSV(t *testing.T, name string, factors []string, block, response string) Model {
 	t.Helper()
-	f, err := os.Open(filepath.Join("testdata", name))
+	f, err := refdata.Open(name)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -100,7 +99,7 @@ type reference struct {
 
 func loadRef(t *testing.T, name string) reference {
 	t.Helper()
-	b, err := os.ReadFile(filepath.Join("testdata", name))
+	b, err := refdata.ReadFile(name)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -3,6 +3,7 @@ package meansep
 import (
 	"encoding/json"
 	"errors"
+	"furlong/stats/refdata"
 	"math"
 	"math/rand/v2"
 	"os"
@@ -51,7 +52,7 @@ type loaded struct {
 
 func loadFixture(t *testing.T, name string) loaded {
 	t.Helper()
-	b, err := os.ReadFile(filepath.Join("testdata", name+".expected.json"))
+	b, err := refdata.ReadFile(name + ".expected.json")
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -2,20 +2,19 @@ package meansep
 
 import (
 	"encoding/csv"
+	"furlong/stats/refdata"
 	"math"
 	"math/rand/v2"
-	"os"
-	"path/filepath"
 	"strconv"
 	"testing"
 
 	"gonum.org/v1/gonum/stat/distuv"
 )
 
-// qTable reads testdata/studentized-range-quantiles.csv (scipy
+// qTable reads stats/refdata/studentized-range-quantiles.csv (scipy
 // studentized_range.ppf, 4 decimals).
 func qTable(t *testing.T) map[[3]string]float64 {
-	f, err := os.Open(filepath.Join("testdata", "studentized-range-quantiles.csv"))
+	f, err := refdata.Open("studentized-range-quantiles.csv")
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -3,8 +3,8 @@ package series
 import (
 	"encoding/csv"
 	"encoding/json"
+	"furlong/stats/refdata"
 	"math"
-	"os"
 	"slices"
 	"strconv"
 	"testing"
@@ -30,7 +30,7 @@ type refMean struct {
 
 func readCSV(t *testing.T, name string) [][]string {
 	t.Helper()
-	f, err := os.Open("testdata/" + name)
+	f, err := refdata.Open(name)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -44,7 +44,7 @@ func readCSV(t *testing.T, name string) [][]string {
 
 func readJSON(t *testing.T, name string, v any) {
 	t.Helper()
-	b, err := os.ReadFile("testdata/" + name)
+	b, err := refdata.ReadFile(name)
 	if err != nil {
 		t.Fatal(err)
 	}

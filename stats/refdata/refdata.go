@@ -1,0 +1,94 @@
+// Package refdata holds the reference datasets that the tests of more than
+// one package check against: open datasets with results computed by R and
+// scipy, and the project's generated reference trials. Each file is stored
+// once, embedded in the test binaries that import this package; README.md
+// says where every file comes from.
+//
+// Only tests import refdata. It imports the standard library alone.
+package refdata
+
+import (
+	"bytes"
+	"embed"
+	"encoding/csv"
+	"encoding/json"
+	"io/fs"
+	"os"
+	"path/filepath"
+	"sort"
+	"testing"
+)
+
+//go:embed *.csv *.json
+var files embed.FS
+
+// Names returns the names of the embedded files in sorted order.
+func Names() []string {
+	ents, err := fs.ReadDir(files, ".")
+	if err != nil {
+		return nil
+	}
+	out := make([]string, 0, len(ents))
+	for _, e := range ents {
+		out = append(out, e.Name())
+	}
+	sort.Strings(out)
+	return out
+}
+
+// FS returns the embedded files as a file system, for code written against
+// fs.FS.
+func FS() fs.FS { return files }
+
+// ReadFile returns the contents of the named file, or an error naming it
+// if there is no such file. It reads as os.ReadFile does.
+func ReadFile(name string) ([]byte, error) {
+	return files.ReadFile(name)
+}
+
+// Open opens the named file for reading, as os.Open does.
+func Open(name string) (fs.File, error) {
+	return files.Open(name)
+}
+
+// Bytes returns the contents of the named file; a missing file fails the
+// test.
+func Bytes(tb testing.TB, name string) []byte {
+	tb.Helper()
+	b, err := files.ReadFile(name)
+	if err != nil {
+		tb.Fatalf("refdata: %v", err)
+	}
+	return b
+}
+
+// CSV returns every record of the named CSV file, the header included.
+func CSV(tb testing.TB, name string) [][]string {
+	tb.Helper()
+	recs, err := csv.NewReader(bytes.NewReader(Bytes(tb, name))).ReadAll()
+	if err != nil {
+		tb.Fatalf("refdata: %s: %v", name, err)
+	}
+	return recs
+}
+
+// JSON decodes the named JSON file into v.
+func JSON(tb testing.TB, name string, v any) {
+	tb.Helper()
+	if err := json.Unmarshal(Bytes(tb, name), v); err != nil {
+		tb.Fatalf("refdata: %s: %v", name, err)
+	}
+}
+
+// File writes the named file into a fresh temporary directory of the test
+// under its own name and returns its path, for code that reads files from
+// disk (a command line, a file dialog). The directory is removed when the
+// test ends.
+func File(tb testing.TB, name string) string {
+	tb.Helper()
+	p := filepath.Join(tb.TempDir(), name)
+	if err := os.WriteFile(p, Bytes(tb, name), 0o644); err != nil {
+		tb.Fatalf("refdata: %v", err)
+	}
+	return p
+}
