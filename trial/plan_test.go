@@ -5,7 +5,7 @@ import "testing"
 func TestPlannedErrorDF(t *testing.T) {
 	t.Parallel()
 	// Error df of the classic ANOVA tables (Cochran & Cox 1957, ch. 4), and
-	// the df_error of the R planning reference (stats/testdata/planning):
+	// the df_error of the R planning reference (stats/refdata/planning.expected.json):
 	// rcbd 8 × 4 → 21, crd 4 × 5 → 16, rcbd 20 × 3 → 38.
 	for _, c := range []struct {
 		kind    DesignKind

@@ -6,19 +6,19 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"os"
 	"strconv"
 	"testing"
 
 	"furlong/stats"
+	"furlong/stats/refdata"
 	"furlong/trial"
 )
 
 // barleyTrial builds the 1931 barley RCBD (Immer, Hayes & Powers 1934; see
-// testdata/README.md) as a trial: sites are blocks, varieties treatments.
+// stats/refdata/README.md) as a trial: sites are blocks, varieties treatments.
 func barleyTrial(t *testing.T) *trial.Trial {
 	t.Helper()
-	f, err := os.Open("testdata/barley-1931-rcbd.csv")
+	f, err := refdata.Open("barley-1931-rcbd.csv")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -111,7 +111,7 @@ func TestExcludedPlotsAreLeftOut(t *testing.T) {
 			PTukeyExact float64 `json:"p_tukey_exact"`
 		}
 	}
-	raw, _ := os.ReadFile("testdata/barley-1931-rcbd-missing.expected.json")
+	raw, _ := refdata.ReadFile("barley-1931-rcbd-missing.expected.json")
 	if err := json.Unmarshal(raw, &want); err != nil {
 		t.Fatal(err)
 	}

@@ -3,16 +3,16 @@ package analysis
 import (
 	"encoding/json"
 	"math"
-	"os"
 	"strings"
 	"testing"
 
 	"furlong/stats"
+	"furlong/stats/refdata"
 	"furlong/trial"
 )
 
 // TestContrastsWithMissingPlotsAgainstR: Immer et al.'s barley with two
-// plots left out (testdata/barley-1931-rcbd-missing.expected.json, R 4.2.2
+// plots left out (stats/refdata/barley-1931-rcbd-missing.expected.json, R 4.2.2
 // lm + emmeans). A pairwise contrast is R's pair (diff, se, p_lsd); a
 // contrast of two groups has the variance −½ΣΣ c_i c_j SED²_ij computed here
 // from R's own pair SEs, and the estimate from R's LS means.
@@ -31,7 +31,7 @@ func TestContrastsWithMissingPlotsAgainstR(t *testing.T) {
 			PLSD     float64 `json:"p_lsd"`
 		}
 	}
-	raw, _ := os.ReadFile("testdata/barley-1931-rcbd-missing.expected.json")
+	raw, _ := refdata.ReadFile("barley-1931-rcbd-missing.expected.json")
 	if err := json.Unmarshal(raw, &want); err != nil {
 		t.Fatal(err)
 	}

@@ -3,19 +3,18 @@ package analysis
 import (
 	"encoding/csv"
 	"math"
-	"os"
-	"path/filepath"
 	"strconv"
 	"strings"
 	"testing"
 
 	"furlong/stats"
 	"furlong/stats/glm"
+	"furlong/stats/refdata"
 	"furlong/trial"
 )
 
 // standOf is the constructed covariate of the oats plot with the given
-// number in testdata/oats-split-missing.csv (Yates 1935, R MASS::oats;
+// number in stats/refdata/oats-split-missing.csv (Yates 1935, R MASS::oats;
 // the data have no covariate, so one is made from the plot number: these
 // tests check the wiring and the arithmetic, not the agronomy). Plot 20
 // has none.
@@ -34,7 +33,7 @@ type oatsRow struct {
 
 func readOats(t *testing.T, name string) []oatsRow {
 	t.Helper()
-	f, err := os.Open(filepath.Join("testdata", name))
+	f, err := refdata.Open(name)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -3,10 +3,10 @@ package analysis
 import (
 	"encoding/csv"
 	"math"
-	"os"
 	"strconv"
 	"testing"
 
+	"furlong/stats/refdata"
 	"furlong/trial"
 )
 
@@ -17,7 +17,7 @@ import (
 // covariate, and NoCovariate gives the plain means.
 func TestSavedCovariate(t *testing.T) {
 	t.Parallel()
-	f, err := os.Open("testdata/fiber-ancova.csv")
+	f, err := refdata.Open("fiber-ancova.csv")
 	if err != nil {
 		t.Fatal(err)
 	}

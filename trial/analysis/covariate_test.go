@@ -2,15 +2,15 @@ package analysis
 
 import (
 	"encoding/csv"
+	"furlong/stats/refdata"
 	"math"
-	"os"
 	"strings"
 	"testing"
 )
 
 func readFiber(t *testing.T, cov string) []*Data {
 	t.Helper()
-	f, err := os.ReadFile("testdata/fiber-ancova.csv")
+	f, err := refdata.ReadFile("fiber-ancova.csv")
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -5,21 +5,20 @@ import (
 	"encoding/csv"
 	"encoding/json"
 	"math"
-	"os"
-	"path/filepath"
 	"strconv"
 	"testing"
 
 	"furlong/stats"
+	"furlong/stats/refdata"
 	"furlong/trial"
 )
 
 // oatsTrial lays Yates's oats out as a split-plot trial (variety on main
 // plots, nitrogen on subplots, 6 blocks) and records each plot's yield from
-// testdata/NAME.csv by its block, variety and nitrogen.
+// stats/refdata/NAME.csv by its block, variety and nitrogen.
 func oatsTrial(t *testing.T, name string) *trial.Trial {
 	t.Helper()
-	f, err := os.Open(filepath.Join("testdata", name))
+	f, err := refdata.Open(name)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -108,7 +107,7 @@ func nearRel(got, want, tol float64) bool {
 
 // A split-plot trial is analysed with its strata, through AnalyzeAll as
 // the window and the report do, and agrees with R 4.2.2 on Yates's oats
-// (testdata/oats-split.expected.json: aov with Error(block/variety), SEDs,
+// (stats/refdata/oats-split.expected.json: aov with Error(block/variety), SEDs,
 // lmer means; oats-split-missing: lmer REML, lmerTest, emmeans).
 func TestSplitPlotTrialOats(t *testing.T) {
 	t.Parallel()
@@ -123,7 +122,7 @@ func TestSplitPlotTrialOats(t *testing.T) {
 		t.Run(c.name, func(t *testing.T) {
 			t.Parallel()
 			tr := oatsTrial(t, c.name+".csv")
-			raw, err := os.ReadFile(filepath.Join("testdata", c.name+".expected.json"))
+			raw, err := refdata.ReadFile(c.name + ".expected.json")
 			if err != nil {
 				t.Fatal(err)
 			}

@@ -32,7 +32,7 @@ import (
 //	  (t by root-finding on the regularised incomplete beta, mpmath 1.3.0)
 //	HSD(0.05) = q(0.95; 4, 6)·SE = 4.8956·0.745356 = 3.6490
 //	  (q from scipy 1.10.1's studentized_range, 4 decimals, as in the
-//	  reference table copied to stats/dist/testdata/studentized-range-quantiles.csv:
+//	  reference table copied to stats/refdata/studentized-range-quantiles.csv:
 //	  row "4,6,0.05,4.8956"; the printed tables give 4.90)
 //	RE of blocking = [(r−1)·MSblock + r(t−1)·MSE] / [(rt−1)·MSE]
 //	               = [2·16 + 9·(5/3)] / [11·(5/3)] = 47/18.333 = 2.563636

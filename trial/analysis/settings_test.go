@@ -4,7 +4,6 @@ import (
 	"encoding/csv"
 	"encoding/json"
 	"math"
-	"os"
 	"sort"
 	"strconv"
 	"strings"
@@ -12,11 +11,12 @@ import (
 
 	"furlong/stats"
 	"furlong/stats/meansep"
+	"furlong/stats/refdata"
 	"furlong/trial"
 )
 
 // insectSprays reads the square-root insect-spray counts and R's results
-// (testdata/README.md).
+// (stats/refdata/README.md).
 func insectSprays(t *testing.T) (*Data, []float64, struct {
 	TCrit float64 `json:"t_crit_975"`
 	Means []struct {
@@ -26,7 +26,7 @@ func insectSprays(t *testing.T) (*Data, []float64, struct {
 	}
 }) {
 	t.Helper()
-	f, err := os.Open("testdata/insect-sprays-sqrt.csv")
+	f, err := refdata.Open("insect-sprays-sqrt.csv")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -65,7 +65,7 @@ func insectSprays(t *testing.T) (*Data, []float64, struct {
 			SE        float64
 		}
 	}
-	raw, err := os.ReadFile("testdata/insect-sprays-sqrt.expected.json")
+	raw, err := refdata.ReadFile("insect-sprays-sqrt.expected.json")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -219,7 +219,7 @@ func TestPercentOfCheckAnyTrait(t *testing.T) {
 }
 
 // TestLSDRangeAgainstR: with two plots missing each pair of means has its
-// own SE (R emmeans, testdata); the pairwise LSD is t(0.975, df)·SE
+// own SE (R emmeans, stats/refdata); the pairwise LSD is t(0.975, df)·SE
 // (t from R), and the result gives the smallest and largest of them.
 func TestLSDRangeAgainstR(t *testing.T) {
 	t.Parallel()
@@ -228,7 +228,7 @@ func TestLSDRangeAgainstR(t *testing.T) {
 		TCrit float64 `json:"t_crit_975"`
 		Pairs []struct{ SE float64 }
 	}
-	raw, _ := os.ReadFile("testdata/barley-1931-rcbd-missing.expected.json")
+	raw, _ := refdata.ReadFile("barley-1931-rcbd-missing.expected.json")
 	if err := json.Unmarshal(raw, &want); err != nil {
 		t.Fatal(err)
 	}

@@ -4,23 +4,23 @@ import (
 	"encoding/csv"
 	"fmt"
 	"math"
-	"os"
 	"strconv"
 	"testing"
 
+	"furlong/stats/refdata"
 	"furlong/trial"
 )
 
 func fp(v float64) *float64 { return &v }
 
-// barley builds an RCBD trial from testdata/barley-1931-rcbd-missing.csv:
+// barley builds an RCBD trial from stats/refdata/barley-1931-rcbd-missing.csv:
 // sites as blocks 1–6, varieties as treatments V01–V10, plots numbered
 // block×100+position. It also returns the yield cells as printed in the
 // dataset ("" where the dataset has NA). Two invented traits, a count and
 // a percentage, and a derived trait complete the trial.
 func barley(t testing.TB) (*trial.Trial, []string) {
 	t.Helper()
-	f, err := os.Open("testdata/barley-1931-rcbd-missing.csv")
+	f, err := refdata.Open("barley-1931-rcbd-missing.csv")
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -9,6 +9,7 @@ import (
 	"strings"
 	"testing"
 
+	"furlong/stats/refdata"
 	stseries "furlong/stats/series"
 )
 
@@ -41,7 +42,7 @@ type ref struct {
 
 func readRef(t *testing.T, name string) ref {
 	t.Helper()
-	b, err := os.ReadFile(filepath.Join("testdata", name))
+	b, err := refdata.ReadFile(name)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -54,7 +55,7 @@ func readRef(t *testing.T, name string) ref {
 
 func readTable(t *testing.T, name string, c TableColumns) TableTrait {
 	t.Helper()
-	f, err := os.Open(filepath.Join("testdata", name))
+	f, err := refdata.Open(name)
 	if err != nil {
 		t.Fatal(err)
 	}

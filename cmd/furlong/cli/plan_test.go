@@ -14,7 +14,7 @@ import (
 
 func TestPlanAgainstR(t *testing.T) {
 	t.Parallel()
-	// Reference: R 4.2.2 pt/qt with ncp (stats/testdata/planning,
+	// Reference: R 4.2.2 pt/qt with ncp (stats/refdata/planning.expected.json,
 	// copied from the shared round-2 reference data): detectable difference
 	// for rcbd 8 × 4 CV 10 → 20.7760054247588 %, crd 4 × 5 CV 7 power 0.9 →
 	// 15.2967308700229 %, rcbd 20 × 3 CV 5 → 11.7368053437702 %.
