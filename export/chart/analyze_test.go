@@ -4,22 +4,22 @@ import (
 	"encoding/csv"
 	"encoding/json"
 	"math"
-	"os"
 	"slices"
 	"sort"
 	"strconv"
 	"testing"
 
 	"furlong/stats/meansep"
+	"furlong/stats/refdata"
 	"furlong/trial"
 	"furlong/trial/analysis"
 )
 
-// barleyTrial builds a trial from testdata/barley-1931-rcbd.csv (sites as
+// barleyTrial builds a trial from stats/refdata/barley-1931-rcbd.csv (sites as
 // blocks, one field row per site, varieties in data order along the row).
 func barleyTrial(t *testing.T) *trial.Trial {
 	t.Helper()
-	f, err := os.Open("testdata/barley-1931-rcbd.csv")
+	f, err := refdata.Open("barley-1931-rcbd.csv")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -70,7 +70,7 @@ func TestMeansFromAnalysisBarley(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	b, err := os.ReadFile("testdata/barley-1931-rcbd.expected.json")
+	b, err := refdata.ReadFile("barley-1931-rcbd.expected.json")
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -4,7 +4,6 @@ import (
 	"encoding/csv"
 	"encoding/json"
 	"math"
-	"os"
 	"slices"
 	"strconv"
 	"strings"
@@ -12,15 +11,16 @@ import (
 
 	"gonum.org/v1/gonum/stat"
 
+	"furlong/stats/refdata"
 	"furlong/stats/series"
 )
 
-// fourSiteSeries reads testdata/series-4-sites.csv (R 4.2.2 reference
-// set, see testdata/README.md) into a Series analysed with sites random,
+// fourSiteSeries reads stats/refdata/series-4-sites.csv (R 4.2.2 reference
+// set, see stats/refdata/README.md) into a Series analysed with sites random,
 // with its plot-level cell means computed here.
 func fourSiteSeries(t *testing.T) (*Series, *series.Result) {
 	t.Helper()
-	f, err := os.Open("testdata/series-4-sites.csv")
+	f, err := refdata.Open("series-4-sites.csv")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -76,7 +76,7 @@ func TestSeriesResponseAgainstR(t *testing.T) {
 			Slope     float64 `json:"slope"`
 		} `json:"finlay_wilkinson"`
 	}
-	b, err := os.ReadFile("testdata/series-4-sites.expected.json")
+	b, err := refdata.ReadFile("series-4-sites.expected.json")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -101,7 +101,7 @@ func TestSeriesResponseAgainstR(t *testing.T) {
 		if i < 0 {
 			t.Fatalf("entry %s not in the reference", code)
 		}
-		// R 4.2.2 lm(entry site mean ~ site mean), see testdata/README.md.
+		// R 4.2.2 lm(entry site mean ~ site mean), see stats/refdata/README.md.
 		if math.Abs(l.Slope-ref.FW[i].Slope) > 1e-9 {
 			t.Errorf("%s slope %.12g, R %.12g", code, l.Slope, ref.FW[i].Slope)
 		}
@@ -236,7 +236,7 @@ func TestSeriesMeansChart(t *testing.T) {
 			t.Errorf("entry %s letters %q appear %d times, want %d", s.Entries[i], l, got, want)
 		}
 	}
-	// Ticks in order of the across-site means (R emmeans, testdata), highest first.
+	// Ticks in order of the across-site means (R emmeans, stats/refdata), highest first.
 	var ticks []string
 	for _, tx := range texts {
 		if slices.Contains(s.Entries, tx) {

@@ -13,12 +13,13 @@ import (
 	"testing"
 	"time"
 
+	"furlong/stats/refdata"
 	"furlong/trial"
 	"furlong/trial/analysis"
 )
 
-// barleyExpected is the part of testdata/barley-1931-rcbd.expected.json the
-// tests use (R 4.2.2 results; see testdata/README.md).
+// barleyExpected is the part of stats/refdata/barley-1931-rcbd.expected.json the
+// tests use (R 4.2.2 results; see stats/refdata/README.md).
 type barleyExpected struct {
 	ANOVA []struct {
 		Source string   `json:"source"`
@@ -46,7 +47,7 @@ const barleyTitle = "Barley – variété test ± × (reference data)"
 // varieties (the first one the check), the 6 sites as blocks.
 func barleyTrial(tb testing.TB) (*trial.Trial, barleyExpected) {
 	tb.Helper()
-	raw, err := os.ReadFile("testdata/barley-1931-rcbd.csv")
+	raw, err := refdata.ReadFile("barley-1931-rcbd.csv")
 	if err != nil {
 		tb.Fatal(err)
 	}
@@ -73,7 +74,7 @@ func barleyTrial(tb testing.TB) (*trial.Trial, barleyExpected) {
 		}
 	}
 	var exp barleyExpected
-	js, err := os.ReadFile("testdata/barley-1931-rcbd.expected.json")
+	js, err := refdata.ReadFile("barley-1931-rcbd.expected.json")
 	if err != nil {
 		tb.Fatal(err)
 	}

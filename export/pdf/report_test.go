@@ -26,7 +26,7 @@ func TestReportPrintsTheAnalysis(t *testing.T) {
 		}
 	}
 	f := func(v float64, dec int) string { return strconv.FormatFloat(v, 'f', dec, 64) }
-	// ANOVA lines: R 4.2.2, stats::lm on lattice::barley 1931 (testdata/README.md).
+	// ANOVA lines: R 4.2.2, stats::lm on lattice::barley 1931 (stats/refdata/README.md).
 	for _, a := range exp.ANOVA {
 		name := map[string]string{"site": "Blocks", "variety": "Treatments", "Residuals": "Error"}[a.Source]
 		line := name + " " + strconv.Itoa(a.DF) + " " + f(a.SS, 3) + " " + f(a.MS, 3)

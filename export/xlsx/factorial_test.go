@@ -6,22 +6,21 @@ import (
 	"encoding/csv"
 	"encoding/json"
 	"math"
-	"os"
-	"path/filepath"
 	"strconv"
 	"testing"
 
 	"github.com/xuri/excelize/v2"
 
+	"furlong/stats/refdata"
 	"furlong/trial"
 	"furlong/trial/analysis"
 )
 
-// oatsSplitTrial lays Yates's oats (testdata/oats-split.csv) out as a
+// oatsSplitTrial lays Yates's oats (stats/refdata/oats-split.csv) out as a
 // split-plot trial with variety on main plots.
 func oatsSplitTrial(t *testing.T) *trial.Trial {
 	t.Helper()
-	f, err := os.Open(filepath.Join("testdata", "oats-split.csv"))
+	f, err := refdata.Open("oats-split.csv")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -69,7 +68,7 @@ func oatsSplitTrial(t *testing.T) *trial.Trial {
 }
 
 // The trait sheet of a split plot shows the strata ANOVA and the SEDs of
-// R 4.2.2 on Yates's oats (testdata/oats-split.expected.json), the
+// R 4.2.2 on Yates's oats (stats/refdata/oats-split.expected.json), the
 // two-way table of means and the interaction chart.
 func TestReportSplitPlotSheet(t *testing.T) {
 	t.Parallel()
@@ -96,7 +95,7 @@ func TestReportSplitPlotSheet(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	raw, err := os.ReadFile(filepath.Join("testdata", "oats-split.expected.json"))
+	raw, err := refdata.ReadFile("oats-split.expected.json")
 	if err != nil {
 		t.Fatal(err)
 	}

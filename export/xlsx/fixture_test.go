@@ -7,7 +7,6 @@ import (
 	"encoding/json"
 	"fmt"
 	"math"
-	"os"
 	"strconv"
 	"strings"
 	"sync"
@@ -16,13 +15,14 @@ import (
 
 	"github.com/xuri/excelize/v2"
 
+	"furlong/stats/refdata"
 	"furlong/trial"
 	"furlong/trial/analysis"
 )
 
-// barleyExpected is the part of testdata/barley-1931-rcbd.expected.json the
+// barleyExpected is the part of stats/refdata/barley-1931-rcbd.expected.json the
 // tests use (R 4.2.2 results for Immer, Hayes & Powers 1934; see
-// testdata/README.md).
+// stats/refdata/README.md).
 type barleyExpected struct {
 	ANOVA []struct {
 		Source string   `json:"source"`
@@ -57,7 +57,7 @@ type barleyExpected struct {
 
 func loadBarley(tb testing.TB) (sites, varieties []string, yield map[[2]string]float64, exp barleyExpected) {
 	tb.Helper()
-	raw, err := os.ReadFile("testdata/barley-1931-rcbd.csv")
+	raw, err := refdata.ReadFile("barley-1931-rcbd.csv")
 	if err != nil {
 		tb.Fatal(err)
 	}
@@ -82,7 +82,7 @@ func loadBarley(tb testing.TB) (sites, varieties []string, yield map[[2]string]f
 			varieties = append(varieties, r[1])
 		}
 	}
-	js, err := os.ReadFile("testdata/barley-1931-rcbd.expected.json")
+	js, err := refdata.ReadFile("barley-1931-rcbd.expected.json")
 	if err != nil {
 		tb.Fatal(err)
 	}

@@ -68,7 +68,7 @@ func TestReportSummaryNumbers(t *testing.T) {
 		if got := numberAt(t, f, SummarySheet, cell(4, row)); got != m.BackMean {
 			t.Errorf("%s mean = %v, want %v", m.Treatment, got, m.BackMean)
 		}
-		// And against the R reference (testdata, emmeans least-squares mean).
+		// And against the R reference (stats/refdata, emmeans least-squares mean).
 		if got := numberAt(t, f, SummarySheet, cell(4, row)); !near(got, exp.Means[i].LSMean, 1e-12) {
 			t.Errorf("%s mean = %v, R gives %v", m.Treatment, got, exp.Means[i].LSMean)
 		}
@@ -185,7 +185,7 @@ func TestReportTraitSheet(t *testing.T) {
 			t.Errorf("%s has F %q; the error and total lines have no test", src.Name, got)
 		}
 	}
-	// Against R (car::Anova type II, testdata): variety SS and F.
+	// Against R (car::Anova type II, stats/refdata): variety SS and F.
 	if got := numberAt(t, f, sh, cell(3, head+1)); !near(got, exp.ANOVA[1].SS, 1e-12) {
 		t.Errorf("treatment SS %v, R gives %v", got, exp.ANOVA[1].SS)
 	}
@@ -201,7 +201,7 @@ func TestReportTraitSheet(t *testing.T) {
 			}
 		}
 		// The limits are the LS mean ± t(0.975, error df)·SE (t from the R
-		// reference file, testdata).
+		// reference file, stats/refdata).
 		if lo := m.Mean - exp.TCrit*m.SE; !near(*m.Lower, lo, 1e-9) {
 			t.Errorf("%s lower limit %v, want %v", m.Treatment, *m.Lower, lo)
 		}
@@ -210,7 +210,7 @@ func TestReportTraitSheet(t *testing.T) {
 		}
 	}
 	// Each statistic is the analysis' value exactly and, where the R
-	// reference file has it (testdata: R 4.2.2 lm/emmeans; hsd_05 with
+	// reference file has it (stats/refdata: R 4.2.2 lm/emmeans; hsd_05 with
 	// scipy's studentized_range; relative efficiency by Gomez & Gomez 1984,
 	// section 2.2.3), agrees with R to 1e-9; ref 0 means no reference value.
 	for _, want := range []struct {
@@ -236,7 +236,7 @@ func TestReportTraitSheet(t *testing.T) {
 		}
 	}
 	// The Shapiro–Wilk reading is given in words with its p (R 4.2.2
-	// shapiro.test on the residuals: p = 0.018746, testdata).
+	// shapiro.test on the residuals: p = 0.018746, stats/refdata).
 	rows, _ := f.GetRows(sh)
 	var all strings.Builder
 	for _, r := range rows {

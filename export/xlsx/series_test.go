@@ -4,7 +4,6 @@ import (
 	"bytes"
 	"encoding/json"
 	"math"
-	"os"
 	"strconv"
 	"strings"
 	"testing"
@@ -13,6 +12,7 @@ import (
 	"github.com/xuri/excelize/v2"
 
 	"furlong/export"
+	"furlong/stats/refdata"
 	"furlong/trial/series"
 )
 
@@ -35,11 +35,11 @@ type seriesRef struct {
 	} `json:"finlay_wilkinson"`
 }
 
-// fourSitesResult analyses testdata/series-4-sites.csv (R 4.2.2 reference
+// fourSitesResult analyses stats/refdata/series-4-sites.csv (R 4.2.2 reference
 // set) through trial/series with V1 as the check.
 func fourSitesResult(t testing.TB) *series.Result {
 	t.Helper()
-	f, err := os.Open("testdata/series-4-sites.csv")
+	f, err := refdata.Open("series-4-sites.csv")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -96,7 +96,7 @@ func cellFloat(t *testing.T, f *excelize.File, sheet string, col, row int) float
 func TestSeriesWorkbookAgainstR(t *testing.T) {
 	t.Parallel()
 	var ref seriesRef
-	b, err := os.ReadFile("testdata/series-4-sites.expected.json")
+	b, err := refdata.ReadFile("series-4-sites.expected.json")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -114,7 +114,7 @@ func TestSeriesWorkbookAgainstR(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	// The combined ANOVA, R 4.2.2 aov (testdata/README.md).
+	// The combined ANOVA, R 4.2.2 aov (stats/refdata/README.md).
 	at := rowOf(rows, "Source", 0)
 	if at == 0 {
 		t.Fatal("no ANOVA table")

@@ -53,7 +53,7 @@ func TestReportVsCheckAndContrasts(t *testing.T) {
 		ref[m.Treatment] = m.LSMean
 	}
 	// The balanced RCBD: every difference has SE √(2·MSE/r) (common
-	// practice), with MSE and the means from R (testdata/barley-1931-rcbd.*).
+	// practice), with MSE and the means from R (stats/refdata/barley-1931-rcbd.*).
 	reps := float64(exp.Means[0].N)
 	sed := math.Sqrt(2 * exp.MSE / reps)
 	for i, row := range vc.Rows {
