@@ -3,12 +3,11 @@ package ui
 import (
 	"encoding/json"
 	"math"
-	"os"
-	"path/filepath"
 	"strings"
 	"testing"
 
 	"furlong/stats"
+	"furlong/stats/refdata"
 	"furlong/trial"
 )
 
@@ -27,10 +26,10 @@ func contrastsOf(t *testing.T, c *compareStep) *contrastsView {
 // The Contrasts tab saves a contrast typed in with the trial, estimates it
 // on the trait shown, and Undo takes it away again. "N2 vs STD" is the
 // difference R's multcomp gives for N2 against the check, with the same SE
-// (testdata/dunnett-example.expected.json: lm with one plot missing), and
+// (stats/refdata/dunnett-example.expected.json: lm with one plot missing), and
 // t is the estimate over its SE.
 func TestContrastsViewSaveEstimateUndo(t *testing.T) {
-	data, err := os.ReadFile(filepath.Join("testdata", "dunnett-example.expected.json"))
+	data, err := refdata.ReadFile("dunnett-example.expected.json")
 	if err != nil {
 		t.Fatal(err)
 	}

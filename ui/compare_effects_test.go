@@ -3,21 +3,20 @@ package ui
 import (
 	"encoding/csv"
 	"encoding/json"
-	"os"
-	"path/filepath"
 	"strconv"
 	"strings"
 	"testing"
 
 	"furlong/stats/meansep"
+	"furlong/stats/refdata"
 	"furlong/trial/analysis"
 )
 
-// warpbreaks analyses testdata/warpbreaks-factorial.csv as a 2 × 3
+// warpbreaks analyses stats/refdata/warpbreaks-factorial.csv as a 2 × 3
 // factorial (wool, tension).
 func warpbreaks(t *testing.T) *analysis.Result {
 	t.Helper()
-	f, err := os.Open(filepath.Join("testdata", "warpbreaks-factorial.csv"))
+	f, err := refdata.Open("warpbreaks-factorial.csv")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -38,13 +37,13 @@ func warpbreaks(t *testing.T) *analysis.Result {
 }
 
 // The Effects tab's two-way table holds R 4.2.2's emmeans cell means and
-// the main-effect means in its margins (testdata/warpbreaks-factorial.
+// the main-effect means in its margins (stats/refdata/warpbreaks-factorial.
 // expected.json), and the wool × tension interaction, significant in R
 // (p = 0.021), opens on its slices.
 func TestEffectsTable(t *testing.T) {
 	t.Parallel()
 	r := warpbreaks(t)
-	raw, err := os.ReadFile(filepath.Join("testdata", "warpbreaks-factorial.expected.json"))
+	raw, err := refdata.ReadFile("warpbreaks-factorial.expected.json")
 	if err != nil {
 		t.Fatal(err)
 	}

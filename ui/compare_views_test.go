@@ -3,8 +3,6 @@ package ui
 import (
 	"encoding/json"
 	"math"
-	"os"
-	"path/filepath"
 	"strconv"
 	"strings"
 	"testing"
@@ -13,10 +11,11 @@ import (
 	"gonum.org/v1/gonum/stat/distuv"
 
 	"furlong/stats/meansep"
+	"furlong/stats/refdata"
 	"furlong/trial"
 )
 
-// barleyTrial is the 1931 barley RCBD (testdata/README.md) as a trial:
+// barleyTrial is the 1931 barley RCBD (stats/refdata/README.md) as a trial:
 // the varieties as treatments (codes V1…V10 in file order, the varieties
 // as names), the sites as blocks 1–6 in
 // file order, every plot's yield filled in.
@@ -75,10 +74,10 @@ func pText(t *testing.T, s string) float64 {
 
 // Compare's Pairs tab shows every pair of the barley RCBD with the
 // difference, SE, the t-test P and Tukey's P of R 4.2.2 (emmeans; Tukey's
-// exact P from scipy), as testdata/barley-1931-rcbd.expected.json gives
+// exact P from scipy), as stats/refdata/barley-1931-rcbd.expected.json gives
 // them; the statistics show R's Shapiro–Wilk W and P on the residuals.
 func TestComparePairsAndChecksAgainstR(t *testing.T) {
-	data, err := os.ReadFile(filepath.Join("testdata", "barley-1931-rcbd.expected.json"))
+	data, err := refdata.ReadFile("barley-1931-rcbd.expected.json")
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -4,21 +4,20 @@ import (
 	"encoding/csv"
 	"encoding/json"
 	"math"
-	"os"
-	"path/filepath"
 	"strconv"
 	"strings"
 	"testing"
 	"time"
 
+	"furlong/stats/refdata"
 	"furlong/trial"
 )
 
-// dunnettTrial is testdata/dunnett-example.csv as a trial: the entries and
+// dunnettTrial is stats/refdata/dunnett-example.csv as a trial: the entries and
 // the check STD in three blocks, plot 9 missing.
 func dunnettTrial(t *testing.T) *trial.Trial {
 	t.Helper()
-	f, err := os.Open(filepath.Join("testdata", "dunnett-example.csv"))
+	f, err := refdata.Open("dunnett-example.csv")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -92,12 +91,12 @@ func pumpUntil(t *testing.T, u *App, what string, cond func() bool) {
 }
 
 // The "Against the check" tab compares every entry with the trial's check
-// as R's multcomp does (testdata/dunnett-example.expected.json: Dunnett
+// as R's multcomp does (stats/refdata/dunnett-example.expected.json: Dunnett
 // single-step with one plot missing, p good to about 1e-6): differences
 // and SEs to 1e-9, adjusted P two-sided and one-sided (greater: higher is
 // better here) to 2e-5, and each verdict follows its simultaneous interval.
 func TestVsCheckAgainstR(t *testing.T) {
-	data, err := os.ReadFile(filepath.Join("testdata", "dunnett-example.expected.json"))
+	data, err := refdata.ReadFile("dunnett-example.expected.json")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -196,9 +195,9 @@ func TestVsCheckWithoutCheck(t *testing.T) {
 // with the trial's check are done (after the round, off the UI goroutine):
 // better where R's multcomp two-sided adjusted p is below 0.05 and the
 // difference positive (higher is better here), ns where p is above it
-// (testdata/dunnett-example.expected.json), "check" for the check itself.
+// (stats/refdata/dunnett-example.expected.json), "check" for the check itself.
 func TestSummaryVsCheckColumn(t *testing.T) {
-	data, err := os.ReadFile(filepath.Join("testdata", "dunnett-example.expected.json"))
+	data, err := refdata.ReadFile("dunnett-example.expected.json")
 	if err != nil {
 		t.Fatal(err)
 	}

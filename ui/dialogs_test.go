@@ -2,11 +2,12 @@ package ui
 
 import (
 	"furlong/export/chart"
-	"fyne.io/fyne/v2/canvas"
 	"math/rand/v2"
 	"slices"
 	"strings"
 	"testing"
+
+	"fyne.io/fyne/v2/canvas"
 
 	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/test"

@@ -18,11 +18,12 @@ import (
 	"fyne.io/fyne/v2/widget"
 
 	"furlong/stats"
+	"furlong/stats/refdata"
 	"furlong/trial"
 	"furlong/trial/analysis"
 )
 
-// barley is the 1931 barley RCBD (testdata/README.md): yield by site and
+// barley is the 1931 barley RCBD (stats/refdata/README.md): yield by site and
 // variety, in file order.
 type barley struct {
 	sites, varieties []string
@@ -31,7 +32,7 @@ type barley struct {
 
 func readBarley(t *testing.T) barley {
 	t.Helper()
-	f, err := os.Open("testdata/barley-1931-rcbd.csv")
+	f, err := refdata.Open("barley-1931-rcbd.csv")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -74,7 +75,7 @@ type expectedANOVA struct {
 
 func readExpected(t *testing.T, name string) expectedANOVA {
 	t.Helper()
-	data, err := os.ReadFile(filepath.Join("testdata", name))
+	data, err := refdata.ReadFile(name)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -125,7 +126,7 @@ func checkANOVA(t *testing.T, got *analysis.Result, want expectedANOVA) {
 
 // TestFlow walks the whole window as a user would: create a trial, paste
 // the treatments, choose the design, add a trait, randomise, type the 1931
-// barley data (testdata/README.md) into the grid, compare the ANOVA with
+// barley data (stats/refdata/README.md) into the grid, compare the ANOVA with
 // R's, exclude two plots and compare with R's missing-plot analysis,
 // export the season report, save, reopen and find everything.
 func TestFlow(t *testing.T) {

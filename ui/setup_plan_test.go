@@ -4,14 +4,13 @@ import (
 	"encoding/json"
 	"fmt"
 	"math"
-	"os"
-	"path/filepath"
 	"strconv"
 	"testing"
 	"time"
 
 	"fyne.io/fyne/v2/test"
 
+	"furlong/stats/refdata"
 	"furlong/trial"
 )
 
@@ -47,12 +46,12 @@ func waitPlan(t *testing.T, u *App, p *planPanel, reps int) {
 }
 
 // The planning panel of the Design tab gives the detectable difference of
-// R 4.2.2 (testdata/planning.expected.json: pt/qt with a noncentrality
+// R 4.2.2 (stats/refdata/planning.expected.json: pt/qt with a noncentrality
 // parameter) for each case, updating as the design, the replicates, the
 // CV and the power change; the replicates needed for a target difference
 // are the fewest whose detectable difference is at most the target.
 func TestPlanPanelAgainstR(t *testing.T) {
-	data, err := os.ReadFile(filepath.Join("testdata", "planning.expected.json"))
+	data, err := refdata.ReadFile("planning.expected.json")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -133,9 +132,9 @@ func TestPlanPanelAgainstR(t *testing.T) {
 }
 
 // "This trial" takes the CV from the trial's own analysis: for the 1931
-// barley RCBD, R's CV (testdata/barley-1931-rcbd.expected.json).
+// barley RCBD, R's CV (stats/refdata/barley-1931-rcbd.expected.json).
 func TestPlanPanelCVFromTrial(t *testing.T) {
-	data, err := os.ReadFile(filepath.Join("testdata", "barley-1931-rcbd.expected.json"))
+	data, err := refdata.ReadFile("barley-1931-rcbd.expected.json")
 	if err != nil {
 		t.Fatal(err)
 	}
