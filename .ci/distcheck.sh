@@ -158,10 +158,10 @@ wver=$(tr -d '\r' <"$work/out"; tr -d '\r' <"$work/err")
 step "wine: --help and --version ($wver) work"
 
 # The same numbers: an open dataset (Immer et al. 1934 barley, see
-# cmd/furlong/cli/testdata/README.md) and the demo trial, both programs
+# stats/refdata/README.md) and the demo trial, both programs
 # run in the same folder on the same relative file names.
 data=$work/data; mkdir -p "$data"
-cp cmd/furlong/cli/testdata/open-datasets/barley-1931-rcbd.csv "$data/barley.csv"
+cp stats/refdata/barley-1931-rcbd.csv "$data/barley.csv"
 (cd "$data" && "$lin" new --demo -o demo.furlong >/dev/null 2>&1) || fail "the Linux program could not write the demo trial"
 compare() { # label, then the arguments
   local label=$1; shift

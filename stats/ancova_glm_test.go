@@ -13,7 +13,7 @@ import (
 // line by line, mean by mean and pair by pair, to about 1e-9. Data: the
 // fibre CRD of Montgomery (the published example of ancova_test.go, from
 // memory); the barley RCBD of Immer et al. (1934; R lattice::barley,
-// open-datasets/barley-1931-rcbd.csv) with the yield of the same variety
+// stats/refdata/barley-1931-rcbd.csv) with the yield of the same variety
 // at the next site as a constructed covariate, complete and with three
 // plots left out (unbalanced).
 func TestCovariateGLMOneFactor(t *testing.T) {

@@ -4,9 +4,8 @@ import (
 	"bytes"
 	"context"
 	"encoding/json"
+	"furlong/stats/refdata"
 	"math"
-	"os"
-	"path/filepath"
 	"strings"
 	"testing"
 )
@@ -83,7 +82,7 @@ func close(t *testing.T, what string, got, want, tol float64) {
 // open datasets and compares every number with the reference results made by
 // R 4.2.2 (stats::lm, car::Anova type II, emmeans, shapiro.test,
 // car::leveneTest, bartlett.test) and scipy's studentized_range for the exact
-// Tukey p-values (see testdata/README.md).
+// Tukey p-values (see stats/refdata/README.md).
 func TestAnalyzeCSVAgainstR(t *testing.T) {
 	t.Parallel()
 	cases := []struct {
@@ -100,8 +99,7 @@ func TestAnalyzeCSVAgainstR(t *testing.T) {
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
 			t.Parallel()
-			dir := filepath.Join("testdata", "open-datasets")
-			raw, err := os.ReadFile(filepath.Join(dir, c.name+".expected.json"))
+			raw, err := refdata.ReadFile(c.name + ".expected.json")
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -109,7 +107,7 @@ func TestAnalyzeCSVAgainstR(t *testing.T) {
 			if err := json.Unmarshal(raw, &want); err != nil {
 				t.Fatal(err)
 			}
-			args := append([]string{"analyze", filepath.Join(dir, c.name+".csv"), "--format", "json"}, c.args...)
+			args := append([]string{"analyze", refdata.File(t, c.name+".csv"), "--format", "json"}, c.args...)
 			code, out, stderr := run(t, args...)
 			if code != 0 {
 				t.Fatalf("exit %d: %s", code, stderr)
@@ -185,7 +183,7 @@ func TestAnalyzeCSVAgainstR(t *testing.T) {
 				close(t, w.Contrast+" diff", p.Diff, w.Diff, tol)
 				close(t, w.Contrast+" SE", p.SE, w.SE, tol)
 				close(t, w.Contrast+" p (LSD)", p.PLSD, w.PLSD, tol)
-				// scipy's studentized_range, good to about 1e-15 (testdata/README.md).
+				// scipy's studentized_range, good to about 1e-15 (stats/refdata/README.md).
 				close(t, w.Contrast+" p (Tukey)", p.PTukey, w.PTukeyExact, tol)
 			}
 			if want.LSD != nil {

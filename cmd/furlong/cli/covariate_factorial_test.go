@@ -12,10 +12,11 @@ import (
 
 	"gonum.org/v1/gonum/mat"
 
+	"furlong/stats/refdata"
 	"furlong/trial/trialfile"
 )
 
-// Tippett's warp breaks (testdata/round2/warpbreaks-factorial.csv, R
+// Tippett's warp breaks (stats/refdata/warpbreaks-factorial.csv, R
 // datasets::warpbreaks: 2 wools × 3 tensions, 9 looms each) with two
 // columns made here from the layout: rep, the loom's position 1–9 within
 // its combination, used as the block of a factorial RCBD, and x, a
@@ -31,7 +32,7 @@ type wbRow struct {
 
 func warpbreaksCovariate(t *testing.T) []wbRow {
 	t.Helper()
-	f, err := os.Open("testdata/round2/warpbreaks-factorial.csv")
+	f, err := refdata.Open("warpbreaks-factorial.csv")
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -4,12 +4,12 @@ import (
 	"encoding/csv"
 	"encoding/json"
 	"math"
-	"os"
 	"path/filepath"
 	"strconv"
 	"strings"
 	"testing"
 
+	"furlong/stats/refdata"
 	"furlong/trial/trialfile"
 )
 
@@ -29,7 +29,7 @@ func TestAnalyzeCovariateTrial(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	f, err := os.Open("testdata/fiber-ancova.csv")
+	f, err := refdata.Open("fiber-ancova.csv")
 	if err != nil {
 		t.Fatal(err)
 	}

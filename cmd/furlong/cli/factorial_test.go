@@ -2,9 +2,8 @@ package cli
 
 import (
 	"encoding/json"
+	"furlong/stats/refdata"
 	"math"
-	"os"
-	"path/filepath"
 	"strings"
 	"testing"
 )
@@ -73,7 +72,7 @@ func relNear(got, want, tol float64) bool {
 
 // TestAnalyzeFactorialReference runs the whole command on the round-2
 // reference data and compares its JSON with R 4.2.2's results (see
-// testdata/README.md): Tippett's (1950) warp breaks as a 2 × 3 factorial
+// stats/refdata/README.md): Tippett's (1950) warp breaks as a 2 × 3 factorial
 // (car::Anova type II, emmeans), Yates's (1935) oats as a split plot (aov
 // strata, SEDs, lmer means) and the oats with three plots missing (lmer
 // REML, lmerTest Satterthwaite df, variance components, emmeans).
@@ -92,7 +91,7 @@ func TestAnalyzeFactorialReference(t *testing.T) {
 	for _, c := range cases {
 		t.Run(c.file, func(t *testing.T) {
 			t.Parallel()
-			raw, err := os.ReadFile(filepath.Join("testdata", "round2", c.file+".expected.json"))
+			raw, err := refdata.ReadFile(c.file + ".expected.json")
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -100,7 +99,7 @@ func TestAnalyzeFactorialReference(t *testing.T) {
 			if err := json.Unmarshal(raw, &ref); err != nil {
 				t.Fatal(err)
 			}
-			args := append([]string{"analyze", filepath.Join("testdata", "round2", c.file+".csv"), "--format", "json"}, c.args...)
+			args := append([]string{"analyze", refdata.File(t, c.file+".csv"), "--format", "json"}, c.args...)
 			code, stdout, stderr := run(t, args...)
 			if code != 0 {
 				t.Fatalf("exit %d: %s", code, stderr)
@@ -226,12 +225,12 @@ func sameLevels(a, b map[string]string) bool {
 }
 
 // The warp-break interaction is significant at 5% (R 4.2.2, car::Anova:
-// p = 0.021 for wool:tension, testdata/round2/warpbreaks-factorial): the
+// p = 0.021 for wool:tension, stats/refdata/warpbreaks-factorial): the
 // output says so in words and compares wool within each tension and
 // tension within each wool (slices).
 func TestAnalyzeFactorialSlices(t *testing.T) {
 	t.Parallel()
-	csv := filepath.Join("testdata", "round2", "warpbreaks-factorial.csv")
+	csv := refdata.File(t, "warpbreaks-factorial.csv")
 	code, stdout, stderr := run(t, "analyze", csv, "--factor", "wool", "--factor", "tension", "--response", "breaks", "--format", "json")
 	if code != 0 {
 		t.Fatal(stderr)
@@ -269,7 +268,7 @@ func TestAnalyzeFactorialSlices(t *testing.T) {
 // need their blocks).
 func TestAnalyzeFactorialFlags(t *testing.T) {
 	t.Parallel()
-	csv := filepath.Join("testdata", "round2", "oats-split.csv")
+	csv := refdata.File(t, "oats-split.csv")
 	for _, c := range []struct {
 		args []string
 		want string

@@ -2,6 +2,7 @@ package cli
 
 import (
 	"encoding/binary"
+	"furlong/stats/refdata"
 	"os"
 	"path/filepath"
 	"strings"
@@ -14,7 +15,7 @@ import (
 // TestAnalyzeCSVAgainstR checks against R (PlantGrowth, R datasets).
 func TestAnalyzeReadsEveryFormOfACSVFile(t *testing.T) {
 	t.Parallel()
-	plain, err := os.ReadFile(filepath.Join("testdata", "open-datasets", "plant-growth.csv"))
+	plain, err := refdata.ReadFile("plant-growth.csv")
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -14,6 +14,7 @@ import (
 
 	"furlong/export/jsonout"
 	"furlong/sampledata"
+	"furlong/stats/refdata"
 	"furlong/trial/analysis"
 	"furlong/trial/trialfile"
 )
@@ -68,14 +69,13 @@ func writeJSONCases(t *testing.T, dir string) []jsonCase {
 	if err := os.WriteFile(big, []byte(b.String()), 0o644); err != nil {
 		t.Fatal(err)
 	}
-	od := filepath.Join("testdata", "open-datasets")
 	return []jsonCase{
 		{"demo trial, one trait, log", []string{demo, "--trait", "yield", "--transform", "log"}},
-		{"plant growth (CRD)", []string{filepath.Join(od, "plant-growth.csv"), "--treatment", "treatment", "--response", "weight"}},
-		{"insect sprays", []string{filepath.Join(od, "insect-sprays-sqrt.csv"), "--treatment", "treatment", "--response", "sqrt_count", "--transform", "sqrt"}},
-		{"barley RCBD missing", []string{filepath.Join(od, "barley-1931-rcbd-missing.csv"), "--treatment", "variety", "--block", "site"}},
-		{"orchard Latin square", []string{filepath.Join(od, "orchard-sprays-latin.csv"), "--treatment", "treatment", "--row", "row", "--column", "col"}},
-		{"Dunnett vs check", []string{filepath.Join("testdata", "round2", "dunnett-example.csv"), "--treatment", "entry", "--block", "block", "--check", "STD"}},
+		{"plant growth (CRD)", []string{refdata.File(t, "plant-growth.csv"), "--treatment", "treatment", "--response", "weight"}},
+		{"insect sprays", []string{refdata.File(t, "insect-sprays-sqrt.csv"), "--treatment", "treatment", "--response", "sqrt_count", "--transform", "sqrt"}},
+		{"barley RCBD missing", []string{refdata.File(t, "barley-1931-rcbd-missing.csv"), "--treatment", "variety", "--block", "site"}},
+		{"orchard Latin square", []string{refdata.File(t, "orchard-sprays-latin.csv"), "--treatment", "treatment", "--row", "row", "--column", "col"}},
+		{"Dunnett vs check", []string{refdata.File(t, "dunnett-example.csv"), "--treatment", "entry", "--block", "block", "--check", "STD"}},
 		{"escaped codes + failed trait", []string{odd, "--treatment", "code", "--block", "block", "--unprotected"}},
 		{"120 entries", []string{big, "--treatment", "entry", "--block", "block"}},
 	}

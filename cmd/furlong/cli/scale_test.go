@@ -3,6 +3,7 @@ package cli
 import (
 	"encoding/csv"
 	"encoding/json"
+	"furlong/stats/refdata"
 	"math"
 	"os"
 	"path/filepath"
@@ -12,13 +13,13 @@ import (
 )
 
 // TestAnalyzeExtremeUnits: the barley RCBD (Immer, Hayes & Powers 1934; see
-// testdata/README.md) with its yields
+// stats/refdata/README.md) with its yields
 // multiplied by 1e-160 and by 1e100 analyses like the original: text and
 // JSON output, no "NaN" anywhere, the same treatment F (F does not depend
 // on the unit: a property of the ANOVA).
 func TestAnalyzeExtremeUnits(t *testing.T) {
 	t.Parallel()
-	src := filepath.Join("testdata", "open-datasets", "barley-1931-rcbd.csv")
+	src := refdata.File(t, "barley-1931-rcbd.csv")
 	f, err := os.Open(src)
 	if err != nil {
 		t.Fatal(err)

@@ -18,15 +18,15 @@ import (
 	"gonum.org/v1/gonum/stat/distuv"
 
 	"furlong/export/xlsx"
+	"furlong/stats/refdata"
 	"furlong/trial/series"
 )
 
-// The series reference data kept with package trial/series (README there):
+// The series reference data come from stats/refdata (README there):
 // series-4-sites (R 4.2.2 aov, lm and emmeans on a seeded 4-site RCBD
 // series, refdata round2) and the 1931 half of Immer, Hayes & Powers
 // (1934), J. Am. Soc. Agron. 26, 403–419, as shipped in R's lattice::barley
 // (R 4.2.2 aov and emmeans with sites as blocks).
-const seriesTestdata = "../../../trial/series/testdata"
 
 type seriesRefLine struct {
 	Source string   `json:"source"`
@@ -118,7 +118,7 @@ type seriesOut struct {
 
 func readSeriesRef(t *testing.T, name string) seriesRef {
 	t.Helper()
-	b, err := os.ReadFile(filepath.Join(seriesTestdata, name))
+	b, err := refdata.ReadFile(name)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -250,7 +250,7 @@ func checkFourSites(t *testing.T, label string, got seriesOut) {
 
 func TestSeriesCSVFourSites(t *testing.T) {
 	t.Parallel()
-	got := seriesJSON(t, filepath.Join(seriesTestdata, "series-4-sites.csv"), "--site", "site", "--block", "block", "--treatment", "entry", "--response", "yield", "--check", "V1")
+	got := seriesJSON(t, refdata.File(t, "series-4-sites.csv"), "--site", "site", "--block", "block", "--treatment", "entry", "--response", "yield", "--check", "V1")
 	checkFourSites(t, "CSV", got)
 }
 
@@ -262,7 +262,7 @@ func TestSeriesBarley(t *testing.T) {
 	t.Parallel()
 	for _, name := range []string{"barley-1931-rcbd", "barley-1931-rcbd-missing"} {
 		want := readSeriesRef(t, name+".expected.json")
-		got := seriesJSON(t, filepath.Join(seriesTestdata, name+".csv"), "--site", "site", "--treatment", "variety")
+		got := seriesJSON(t, refdata.File(t, name+".csv"), "--site", "site", "--treatment", "variety")
 		tr := got.Traits[0]
 		if tr.Method != "two-stage" || tr.Weighted {
 			t.Errorf("%s: method %q weighted %v, want an unweighted two-stage analysis (site means)", name, tr.Method, tr.Weighted)
@@ -306,7 +306,7 @@ func TestSeriesBarley(t *testing.T) {
 // sites assumption, the per-site table and the cautions.
 func TestSeriesText(t *testing.T) {
 	t.Parallel()
-	out, errs, code := runSeriesCmd(t, filepath.Join(seriesTestdata, "barley-1931-rcbd-missing.csv"), "--site", "site", "--treatment", "variety", "--check", "Glabron")
+	out, errs, code := runSeriesCmd(t, refdata.File(t, "barley-1931-rcbd-missing.csv"), "--site", "site", "--treatment", "variety", "--check", "Glabron")
 	if code != ExitOK {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
@@ -323,7 +323,7 @@ func TestSeriesText(t *testing.T) {
 // returns their paths.
 func writeFourSiteTrials(t *testing.T, dir string) []string {
 	t.Helper()
-	b, err := os.ReadFile(filepath.Join(seriesTestdata, "series-4-sites.csv"))
+	b, err := refdata.ReadFile("series-4-sites.csv")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -422,7 +422,7 @@ func TestSeriesTrialFiles(t *testing.T) {
 func TestSeriesWorkbook(t *testing.T) {
 	t.Parallel()
 	out := filepath.Join(t.TempDir(), "series.xlsx")
-	_, errs, code := runSeriesCmd(t, filepath.Join(seriesTestdata, "series-4-sites.csv"), "--site", "site", "--block", "block", "--treatment", "entry", "--check", "V1", "-o", out)
+	_, errs, code := runSeriesCmd(t, refdata.File(t, "series-4-sites.csv"), "--site", "site", "--block", "block", "--treatment", "entry", "--check", "V1", "-o", out)
 	if code != ExitOK {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
@@ -443,7 +443,7 @@ func TestSeriesWorkbook(t *testing.T) {
 func TestSeriesErrors(t *testing.T) {
 	t.Parallel()
 	dir := t.TempDir()
-	four := filepath.Join(seriesTestdata, "series-4-sites.csv")
+	four := refdata.File(t, "series-4-sites.csv")
 	overlap := filepath.Join(dir, "overlap.csv")
 	// Two sites sharing 1 of 4 entries (common practice: a series compares the same entries).
 	os.WriteFile(overlap, []byte("site,trt,y\nA,x1,1\nA,x2,2\nA,x3,3\nA,x4,4\nB,x1,1.5\nB,y2,2\nB,y3,3\nB,y4,4\n"), 0o644)
@@ -490,7 +490,7 @@ func TestSeriesErrors(t *testing.T) {
 // its two-sided p from gonum's Student's t; the check lines stay.
 func TestSeriesVersus(t *testing.T) {
 	t.Parallel()
-	path := filepath.Join(seriesTestdata, "series-4-sites.csv")
+	path := refdata.File(t, "series-4-sites.csv")
 	got := seriesJSON(t, path, "--site", "site", "--block", "block", "--treatment", "entry", "--response", "yield", "--check", "V1", "--versus", "V2,V3")
 	f, err := os.Open(path)
 	if err != nil {

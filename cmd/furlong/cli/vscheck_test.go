@@ -2,8 +2,8 @@ package cli
 
 import (
 	"encoding/json"
+	"furlong/stats/refdata"
 	"math"
-	"os"
 	"strings"
 	"testing"
 )
@@ -11,10 +11,10 @@ import (
 func TestAnalyzeVsCheckAgainstMultcomp(t *testing.T) {
 	t.Parallel()
 	// Reference: R 4.2.2 multcomp::glht Dunnett single-step on an RCBD with
-	// one plot missing (testdata/round2/dunnett-example.expected.json);
+	// one plot missing (stats/refdata/dunnett-example.expected.json);
 	// multcomp's p-values are good to about 1e-6, differences and SEs are
 	// exact least squares.
-	b, err := os.ReadFile("testdata/round2/dunnett-example.expected.json")
+	b, err := refdata.ReadFile("dunnett-example.expected.json")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -30,7 +30,7 @@ func TestAnalyzeVsCheckAgainstMultcomp(t *testing.T) {
 	if err := json.Unmarshal(b, &ref); err != nil {
 		t.Fatal(err)
 	}
-	code, stdout, stderr := run(t, "analyze", "testdata/round2/dunnett-example.csv", "--treatment", "entry", "--block", "block",
+	code, stdout, stderr := run(t, "analyze", refdata.File(t, "dunnett-example.csv"), "--treatment", "entry", "--block", "block",
 		"--response", "yield", "--check", "STD", "--format", "json")
 	if code != ExitOK {
 		t.Fatalf("exit %d: %s", code, stderr)
@@ -63,7 +63,7 @@ func TestAnalyzeVsCheckAgainstMultcomp(t *testing.T) {
 		t.Errorf("vs_check_method %+v", info)
 	}
 	// Lower is better: the one-sided p looks the other way.
-	code, stdout, _ = run(t, "analyze", "testdata/round2/dunnett-example.csv", "--treatment", "entry", "--block", "block",
+	code, stdout, _ = run(t, "analyze", refdata.File(t, "dunnett-example.csv"), "--treatment", "entry", "--block", "block",
 		"--response", "yield", "--check", "STD", "--lower-is-better", "--format", "json")
 	if code != ExitOK {
 		t.Fatal(stdout)
@@ -92,7 +92,7 @@ func TestAnalyzeVsCheckErrors(t *testing.T) {
 		code int
 		in   string
 	}{
-		{[]string{"analyze", "testdata/round2/dunnett-example.csv", "--treatment", "entry", "--block", "block", "--response", "yield", "--check", "NOPE"}, ExitFailure, `no treatment "NOPE"`},
+		{[]string{"analyze", refdata.File(t, "dunnett-example.csv"), "--treatment", "entry", "--block", "block", "--response", "yield", "--check", "NOPE"}, ExitFailure, `no treatment "NOPE"`},
 		{[]string{"analyze", "x.furlong", "--lower-is-better"}, ExitUsage, "for CSV tables"},
 	} {
 		code, _, stderr := run(t, c.args...)
