@@ -2,7 +2,6 @@ package stats
 
 import (
 	"encoding/csv"
-	"encoding/json"
 	"math"
 	"os"
 	"path/filepath"
@@ -108,14 +107,8 @@ type expected struct {
 
 func readExpected(t *testing.T, name string) expected {
 	t.Helper()
-	b, err := refdata.ReadFile(name + ".expected.json")
-	if err != nil {
-		t.Fatal(err)
-	}
 	var e expected
-	if err := json.Unmarshal(b, &e); err != nil {
-		t.Fatal(err)
-	}
+	refdata.JSON(t, name+".expected.json", &e)
 	return e
 }
 

@@ -3,9 +3,10 @@ package stats
 import (
 	"encoding/json"
 	"errors"
-	"furlong/stats/refdata"
 	"math"
 	"testing"
+
+	"furlong/stats/refdata"
 )
 
 type planningCase struct {

@@ -1,7 +1,6 @@
 package ui
 
 import (
-	"encoding/json"
 	"math"
 	"strconv"
 	"strings"
@@ -77,14 +76,8 @@ func pText(t *testing.T, s string) float64 {
 // exact P from scipy), as stats/refdata/barley-1931-rcbd.expected.json gives
 // them; the statistics show R's Shapiro–Wilk W and P on the residuals.
 func TestComparePairsAndChecksAgainstR(t *testing.T) {
-	data, err := refdata.ReadFile("barley-1931-rcbd.expected.json")
-	if err != nil {
-		t.Fatal(err)
-	}
 	var want barleyPairs
-	if err := json.Unmarshal(data, &want); err != nil {
-		t.Fatal(err)
-	}
+	refdata.JSON(t, "barley-1931-rcbd.expected.json", &want)
 	u, _ := newTestApp(t, 0)
 	u.OpenTrial(barleyTrial(t), "")
 	pumpAnalysis(t, u, func() { u.showStep(stepCompare) })

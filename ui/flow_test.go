@@ -3,7 +3,6 @@ package ui
 import (
 	"context"
 	"encoding/csv"
-	"encoding/json"
 	"io"
 	"math"
 	"os"
@@ -75,14 +74,8 @@ type expectedANOVA struct {
 
 func readExpected(t *testing.T, name string) expectedANOVA {
 	t.Helper()
-	data, err := refdata.ReadFile(name)
-	if err != nil {
-		t.Fatal(err)
-	}
 	var e expectedANOVA
-	if err := json.Unmarshal(data, &e); err != nil {
-		t.Fatal(err)
-	}
+	refdata.JSON(t, name, &e)
 	return e
 }
 

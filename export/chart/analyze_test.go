@@ -2,7 +2,6 @@ package chart
 
 import (
 	"encoding/csv"
-	"encoding/json"
 	"math"
 	"slices"
 	"sort"
@@ -70,14 +69,8 @@ func TestMeansFromAnalysisBarley(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	b, err := refdata.ReadFile("barley-1931-rcbd.expected.json")
-	if err != nil {
-		t.Fatal(err)
-	}
 	var want barleyExpected
-	if err := json.Unmarshal(b, &want); err != nil {
-		t.Fatal(err)
-	}
+	refdata.JSON(t, "barley-1931-rcbd.expected.json", &want)
 	bars, _, _, err := meanBars(r, MeansOptions{ErrorBars: ConfidenceInterval, Letters: meansep.Tukey})
 	if err != nil {
 		t.Fatal(err)

@@ -4,12 +4,13 @@ import (
 	"encoding/csv"
 	"encoding/json"
 	"errors"
-	"furlong/stats/refdata"
 	"math"
 	"slices"
 	"strconv"
 	"strings"
 	"testing"
+
+	"furlong/stats/refdata"
 )
 
 // fixture is the part of a testdata/*.expected.json file these tests use.

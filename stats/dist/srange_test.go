@@ -2,7 +2,6 @@ package dist
 
 import (
 	"bufio"
-	"furlong/stats/refdata"
 	"io/fs"
 	"math"
 	"os"
@@ -10,6 +9,8 @@ import (
 	"strings"
 	"sync"
 	"testing"
+
+	"furlong/stats/refdata"
 
 	"gonum.org/v1/gonum/integrate/quad"
 	"gonum.org/v1/gonum/mathext"

@@ -2,12 +2,12 @@ package glm
 
 import (
 	"encoding/csv"
-	"encoding/json"
-	"furlong/stats/refdata"
 	"math"
 	"sort"
 	"strconv"
 	"testing"
+
+	"furlong/stats/refdata"
 )
 
 // loadCSV reads a reference table from stats/refdata: the named factor columns
@@ -99,14 +99,8 @@ type reference struct {
 
 func loadRef(t *testing.T, name string) reference {
 	t.Helper()
-	b, err := refdata.ReadFile(name)
-	if err != nil {
-		t.Fatal(err)
-	}
 	var r reference
-	if err := json.Unmarshal(b, &r); err != nil {
-		t.Fatal(err)
-	}
+	refdata.JSON(t, name, &r)
 	return r
 }
 

@@ -3,7 +3,6 @@ package meansep
 import (
 	"encoding/json"
 	"errors"
-	"furlong/stats/refdata"
 	"math"
 	"math/rand/v2"
 	"os"
@@ -12,6 +11,8 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"furlong/stats/refdata"
 )
 
 type fixture struct {

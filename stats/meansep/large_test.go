@@ -2,11 +2,12 @@ package meansep
 
 import (
 	"encoding/csv"
-	"furlong/stats/refdata"
 	"math"
 	"math/rand/v2"
 	"strconv"
 	"testing"
+
+	"furlong/stats/refdata"
 
 	"gonum.org/v1/gonum/stat/distuv"
 )

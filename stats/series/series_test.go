@@ -1,13 +1,12 @@
 package series
 
 import (
-	"encoding/csv"
-	"encoding/json"
-	"furlong/stats/refdata"
 	"math"
 	"slices"
 	"strconv"
 	"testing"
+
+	"furlong/stats/refdata"
 
 	"gonum.org/v1/gonum/mathext"
 	"gonum.org/v1/gonum/stat"
@@ -30,27 +29,12 @@ type refMean struct {
 
 func readCSV(t *testing.T, name string) [][]string {
 	t.Helper()
-	f, err := refdata.Open(name)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	rows, err := csv.NewReader(f).ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
-	return rows[1:]
+	return refdata.CSV(t, name)[1:]
 }
 
 func readJSON(t *testing.T, name string, v any) {
 	t.Helper()
-	b, err := refdata.ReadFile(name)
-	if err != nil {
-		t.Fatal(err)
-	}
-	if err := json.Unmarshal(b, v); err != nil {
-		t.Fatal(err)
-	}
+	refdata.JSON(t, name, v)
 }
 
 func index(names []string, s string) ([]string, int) {

@@ -2,10 +2,11 @@ package analysis
 
 import (
 	"encoding/csv"
-	"furlong/stats/refdata"
 	"math"
 	"strings"
 	"testing"
+
+	"furlong/stats/refdata"
 )
 
 func readFiber(t *testing.T, cov string) []*Data {

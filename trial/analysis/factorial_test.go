@@ -3,7 +3,6 @@ package analysis
 import (
 	"context"
 	"encoding/csv"
-	"encoding/json"
 	"math"
 	"strconv"
 	"testing"
@@ -122,14 +121,8 @@ func TestSplitPlotTrialOats(t *testing.T) {
 		t.Run(c.name, func(t *testing.T) {
 			t.Parallel()
 			tr := oatsTrial(t, c.name+".csv")
-			raw, err := refdata.ReadFile(c.name + ".expected.json")
-			if err != nil {
-				t.Fatal(err)
-			}
 			var ref oatsRef
-			if err := json.Unmarshal(raw, &ref); err != nil {
-				t.Fatal(err)
-			}
+			refdata.JSON(t, c.name+".expected.json", &ref)
 			out, err := AnalyzeAll(context.Background(), tr, nil, Options{})
 			if err != nil || out[0].Err != nil {
 				t.Fatal(err, out[0].Err)

@@ -2,7 +2,6 @@ package series
 
 import (
 	"bytes"
-	"encoding/json"
 	"math"
 	"os"
 	"path/filepath"
@@ -42,14 +41,8 @@ type ref struct {
 
 func readRef(t *testing.T, name string) ref {
 	t.Helper()
-	b, err := refdata.ReadFile(name)
-	if err != nil {
-		t.Fatal(err)
-	}
 	var r ref
-	if err := json.Unmarshal(b, &r); err != nil {
-		t.Fatal(err)
-	}
+	refdata.JSON(t, name, &r)
 	return r
 }
 

@@ -4,10 +4,11 @@ import (
 	"bytes"
 	"context"
 	"encoding/json"
-	"furlong/stats/refdata"
 	"math"
 	"strings"
 	"testing"
+
+	"furlong/stats/refdata"
 )
 
 // run runs the CLI as a user would and returns exit code, stdout, stderr.
@@ -99,14 +100,8 @@ func TestAnalyzeCSVAgainstR(t *testing.T) {
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
 			t.Parallel()
-			raw, err := refdata.ReadFile(c.name + ".expected.json")
-			if err != nil {
-				t.Fatal(err)
-			}
 			var want refExpected
-			if err := json.Unmarshal(raw, &want); err != nil {
-				t.Fatal(err)
-			}
+			refdata.JSON(t, c.name+".expected.json", &want)
 			args := append([]string{"analyze", refdata.File(t, c.name+".csv"), "--format", "json"}, c.args...)
 			code, out, stderr := run(t, args...)
 			if code != 0 {

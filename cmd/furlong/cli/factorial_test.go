@@ -2,10 +2,11 @@ package cli
 
 import (
 	"encoding/json"
-	"furlong/stats/refdata"
 	"math"
 	"strings"
 	"testing"
+
+	"furlong/stats/refdata"
 )
 
 // refFactorial is the part of a round-2 reference file the tests read.
@@ -91,14 +92,8 @@ func TestAnalyzeFactorialReference(t *testing.T) {
 	for _, c := range cases {
 		t.Run(c.file, func(t *testing.T) {
 			t.Parallel()
-			raw, err := refdata.ReadFile(c.file + ".expected.json")
-			if err != nil {
-				t.Fatal(err)
-			}
 			var ref refFactorial
-			if err := json.Unmarshal(raw, &ref); err != nil {
-				t.Fatal(err)
-			}
+			refdata.JSON(t, c.file+".expected.json", &ref)
 			args := append([]string{"analyze", refdata.File(t, c.file+".csv"), "--format", "json"}, c.args...)
 			code, stdout, stderr := run(t, args...)
 			if code != 0 {

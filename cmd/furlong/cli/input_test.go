@@ -2,12 +2,13 @@ package cli
 
 import (
 	"encoding/binary"
-	"furlong/stats/refdata"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
 	"unicode/utf16"
+
+	"furlong/stats/refdata"
 )
 
 // 'furlong analyze data.csv' reads what 'furlong import' reads: every form

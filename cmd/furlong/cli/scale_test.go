@@ -3,13 +3,14 @@ package cli
 import (
 	"encoding/csv"
 	"encoding/json"
-	"furlong/stats/refdata"
 	"math"
 	"os"
 	"path/filepath"
 	"strconv"
 	"strings"
 	"testing"
+
+	"furlong/stats/refdata"
 )
 
 // TestAnalyzeExtremeUnits: the barley RCBD (Immer, Hayes & Powers 1934; see

@@ -118,14 +118,8 @@ type seriesOut struct {
 
 func readSeriesRef(t *testing.T, name string) seriesRef {
 	t.Helper()
-	b, err := refdata.ReadFile(name)
-	if err != nil {
-		t.Fatal(err)
-	}
 	var r seriesRef
-	if err := json.Unmarshal(b, &r); err != nil {
-		t.Fatal(err)
-	}
+	refdata.JSON(t, name, &r)
 	return r
 }
 

@@ -2,10 +2,11 @@ package cli
 
 import (
 	"encoding/json"
-	"furlong/stats/refdata"
 	"math"
 	"strings"
 	"testing"
+
+	"furlong/stats/refdata"
 )
 
 func TestAnalyzeVsCheckAgainstMultcomp(t *testing.T) {
