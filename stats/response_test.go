@@ -4,18 +4,19 @@ import (
 	"encoding/csv"
 	"encoding/json"
 	"math"
-	"os"
 	"sort"
 	"strconv"
 	"testing"
+
+	"furlong/stats/refdata"
 )
 
-// nitrogenData reads testdata/response/nitrogen-rates.csv: per rate the
+// nitrogenData reads stats/refdata/nitrogen-rates.csv: per rate the
 // treatment mean, and the RCBD error mean square and df computed from the
 // definitions (block and treatment sums of squares of a balanced table).
 func nitrogenData(t *testing.T) (rates, means []float64, reps int, mse float64, dfe int) {
 	t.Helper()
-	f, err := os.Open("testdata/response/nitrogen-rates.csv")
+	f, err := refdata.Open("nitrogen-rates.csv")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -79,7 +80,7 @@ type nitrogenExpected struct {
 
 func loadNitrogenExpected(t *testing.T) nitrogenExpected {
 	t.Helper()
-	b, err := os.ReadFile("testdata/response/nitrogen-rates.expected.json")
+	b, err := refdata.ReadFile("nitrogen-rates.expected.json")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -95,7 +96,7 @@ func relClose(a, b, tol float64) bool { return math.Abs(a-b) <= tol*math.Max(mat
 func TestPolynomialTrendAgainstR(t *testing.T) {
 	t.Parallel()
 	// Reference: R 4.2.2 aov with contr.poly(scores = rates)
-	// (testdata/response/nitrogen-rates.expected.json).
+	// (stats/refdata/nitrogen-rates.expected.json).
 	rates, means, reps, mse, dfe := nitrogenData(t)
 	cov := make([]float64, len(rates)*len(rates))
 	for i := range rates {
@@ -159,7 +160,7 @@ func TestPolynomialTrendUnequalSpacingAddsUp(t *testing.T) {
 func TestFitResponseAgainstR(t *testing.T) {
 	t.Parallel()
 	// Reference: R 4.2.2 lm on the means and the profiled quadratic-plateau
-	// (testdata/response/nitrogen-rates.expected.json); price ratio 0.008 t
+	// (stats/refdata/nitrogen-rates.expected.json); price ratio 0.008 t
 	// grain per kg N. The quadratic's economic optimum is also checked by
 	// hand: x* = (R − b)/(2c).
 	rates, means, _, _, _ := nitrogenData(t)

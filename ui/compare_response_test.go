@@ -3,11 +3,11 @@ package ui
 import (
 	"encoding/json"
 	"math"
-	"os"
 	"slices"
 	"strings"
 	"testing"
 
+	"furlong/stats/refdata"
 	"furlong/trial"
 	"furlong/trial/trialfile"
 )
@@ -15,17 +15,17 @@ import (
 // The nitrogen-rate reference data (5 rates × 4 blocks) as a trial file,
 // with R 4.2.2 results beside the CSV it was made from: aov with
 // contr.poly(scores = rates), lm, the profiled quadratic-plateau, the
-// economic optimum at a price ratio of 0.008 (see the READMEs there).
+// economic optimum at a price ratio of 0.008 (see stats/refdata/README.md).
 const (
-	nitrogenFixture = "../trial/analysis/testdata/nitrogen-rates.furlong"
-	nitrogenJSON    = "../stats/testdata/response/nitrogen-rates.expected.json"
+	nitrogenFixture = "nitrogen-rates.furlong"
+	nitrogenJSON    = "nitrogen-rates.expected.json"
 )
 
 // nitrogenTrial is the nitrogen trial with an untreated control that has
 // no rate (any values: it is left out of the trend).
 func nitrogenTrial(t *testing.T) *trial.Trial {
 	t.Helper()
-	tr, err := trialfile.Load(nitrogenFixture)
+	tr, err := trialfile.Load(refdata.File(t, nitrogenFixture))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -53,7 +53,7 @@ func responseViewOf(t *testing.T, c *compareStep) *responseView {
 // ratio typed in with the trial (undoable), and then shows R's economic
 // optimum of the quadratic.
 func TestResponseViewAgainstR(t *testing.T) {
-	b, err := os.ReadFile(nitrogenJSON)
+	b, err := refdata.ReadFile(nitrogenJSON)
 	if err != nil {
 		t.Fatal(err)
 	}

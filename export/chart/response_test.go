@@ -7,6 +7,7 @@ import (
 	"strings"
 	"testing"
 
+	"furlong/stats/refdata"
 	"furlong/trial"
 	"furlong/trial/analysis"
 	"furlong/trial/trialfile"
@@ -16,13 +17,13 @@ import (
 // blocks, R 4.2.2 results beside it) as a trial file (see the README in its
 // folder); here only the drawing is checked, the numbers are checked
 // against R in trial/analysis.
-const nitrogenFixture = "../../trial/analysis/testdata/nitrogen-rates.furlong"
+const nitrogenFixture = "nitrogen-rates.furlong"
 
 // rateTrial is the nitrogen trial, plus (with control) an untreated
 // control without a rate, which must stay off the chart.
 func rateTrial(tb testing.TB, control bool) *trial.Trial {
 	tb.Helper()
-	t, err := trialfile.Load(nitrogenFixture)
+	t, err := trialfile.Load(refdata.File(tb, nitrogenFixture))
 	if err != nil {
 		tb.Fatal(err)
 	}

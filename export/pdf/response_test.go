@@ -4,26 +4,26 @@ import (
 	"bytes"
 	"context"
 	"encoding/json"
-	"os"
 	"regexp"
 	"strconv"
 	"strings"
 	"testing"
 
 	"furlong/export"
+	"furlong/stats/refdata"
 	"furlong/trial"
 	"furlong/trial/analysis"
 	"furlong/trial/trialfile"
 )
 
 // TestReportResponse prints the nitrogen-rate trial (the reference data as
-// a trial file, trial/analysis/testdata) with a price ratio of 0.008 and
+// a trial file, stats/refdata) with a price ratio of 0.008 and
 // reads back the response section: R 4.2.2's economic optima of the
 // quadratic and the quadratic-plateau, to the one decimal printed, the
 // trend lines and the economic caution.
 func TestReportResponse(t *testing.T) {
 	t.Parallel()
-	b, err := os.ReadFile("../../stats/testdata/response/nitrogen-rates.expected.json")
+	b, err := refdata.ReadFile("nitrogen-rates.expected.json")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -39,7 +39,7 @@ func TestReportResponse(t *testing.T) {
 	if err := json.Unmarshal(b, &ref); err != nil {
 		t.Fatal(err)
 	}
-	tr, err := trialfile.Load("../../trial/analysis/testdata/nitrogen-rates.furlong")
+	tr, err := trialfile.Load(refdata.File(t, "nitrogen-rates.furlong"))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -75,7 +75,7 @@ func TestReportResponse(t *testing.T) {
 // the analysis gives.
 func TestReportMargins(t *testing.T) {
 	t.Parallel()
-	tr, err := trialfile.Load("../../trial/analysis/testdata/nitrogen-rates.furlong")
+	tr, err := trialfile.Load(refdata.File(t, "nitrogen-rates.furlong"))
 	if err != nil {
 		t.Fatal(err)
 	}

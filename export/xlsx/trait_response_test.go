@@ -4,10 +4,10 @@ import (
 	"context"
 	"encoding/json"
 	"math"
-	"os"
 	"testing"
 
 	"furlong/export"
+	"furlong/stats/refdata"
 	"furlong/trial"
 	"furlong/trial/analysis"
 	"furlong/trial/trialfile"
@@ -16,15 +16,15 @@ import (
 // The nitrogen-rate reference data (5 rates × 4 blocks) as a trial file,
 // and R 4.2.2's results for it (aov with contr.poly(scores = rates), lm,
 // the profiled quadratic-plateau, the economic optimum at a price ratio of
-// 0.008; see the READMEs beside them).
+// 0.008; see stats/refdata/README.md).
 const (
-	nitrogenFixture = "../../trial/analysis/testdata/nitrogen-rates.furlong"
-	nitrogenJSON    = "../../stats/testdata/response/nitrogen-rates.expected.json"
+	nitrogenFixture = "nitrogen-rates.furlong"
+	nitrogenJSON    = "nitrogen-rates.expected.json"
 )
 
 func nitrogenTrial(tb testing.TB) *trial.Trial {
 	tb.Helper()
-	t, err := trialfile.Load(nitrogenFixture)
+	t, err := trialfile.Load(refdata.File(tb, nitrogenFixture))
 	if err != nil {
 		tb.Fatal(err)
 	}
@@ -36,7 +36,7 @@ func nitrogenTrial(tb testing.TB) *trial.Trial {
 // the numbers R gives; a trial without rates has no such section.
 func TestReportResponse(t *testing.T) {
 	t.Parallel()
-	b, err := os.ReadFile(nitrogenJSON)
+	b, err := refdata.ReadFile(nitrogenJSON)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -19,7 +19,7 @@ import (
 	"testing"
 )
 
-//go:embed *.csv *.json
+//go:embed *.csv *.json *.furlong
 var files embed.FS
 
 // Names returns the names of the embedded files in sorted order.

@@ -17,7 +17,7 @@ func TestReadmeListsEveryFile(t *testing.T) {
 		t.Fatal(err)
 	}
 	listed := map[string]bool{}
-	for _, m := range regexp.MustCompile("`([^`/ ]+\\.(?:csv|json))`").FindAllStringSubmatch(string(readme), -1) {
+	for _, m := range regexp.MustCompile("`([^`/ ]+\\.(?:csv|json|furlong))`").FindAllStringSubmatch(string(readme), -1) {
 		listed[m[1]] = true
 	}
 	names := Names()
@@ -37,7 +37,7 @@ func TestReadmeListsEveryFile(t *testing.T) {
 }
 
 // TestFilesParse checks that each CSV file parses into a header and rows of
-// its width, and each JSON file decodes into an object.
+// its width, and each JSON file (and trial file) decodes into an object.
 func TestFilesParse(t *testing.T) {
 	for _, n := range Names() {
 		switch {
@@ -52,7 +52,7 @@ func TestFilesParse(t *testing.T) {
 					t.Errorf("%s: record %d has %d fields, header %d", n, i+1, len(r), len(recs[0]))
 				}
 			}
-		case strings.HasSuffix(n, ".json"):
+		case strings.HasSuffix(n, ".json"), strings.HasSuffix(n, ".furlong"): // a trial file is JSON
 			var v map[string]any
 			JSON(t, n, &v)
 			if len(v) == 0 {

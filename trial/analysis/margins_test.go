@@ -5,6 +5,7 @@ import (
 	"math"
 	"testing"
 
+	"furlong/stats/refdata"
 	"furlong/trial"
 	"furlong/trial/trialfile"
 )
@@ -24,7 +25,7 @@ func nitrogenResult(t *testing.T, tr *trial.Trial) *Result {
 // in a balanced RCBD: common practice; Searle 1971, ch. 5, from memory) and the letters are the means'.
 func TestMarginsWithoutCosts(t *testing.T) {
 	t.Parallel()
-	tr, err := trialfile.Load(nitrogenFixture)
+	tr, err := trialfile.Load(refdata.File(t, nitrogenFixture))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -56,7 +57,7 @@ func TestMarginsWithoutCosts(t *testing.T) {
 // a letter even though their means differ.
 func TestMarginsWithCosts(t *testing.T) {
 	t.Parallel()
-	tr, err := trialfile.Load(nitrogenFixture)
+	tr, err := trialfile.Load(refdata.File(t, nitrogenFixture))
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -5,26 +5,26 @@ import (
 	"encoding/csv"
 	"encoding/json"
 	"math"
-	"os"
 	"strconv"
 	"strings"
 	"testing"
 
+	"furlong/stats/refdata"
 	"furlong/trial"
 	"furlong/trial/trialfile"
 )
 
 const (
-	nitrogenCSV     = "../../stats/testdata/response/nitrogen-rates.csv"
-	nitrogenJSON    = "../../stats/testdata/response/nitrogen-rates.expected.json"
-	nitrogenFixture = "testdata/nitrogen-rates.furlong"
+	nitrogenCSV     = "nitrogen-rates.csv"
+	nitrogenJSON    = "nitrogen-rates.expected.json"
+	nitrogenFixture = "nitrogen-rates.furlong"
 )
 
 // TestNitrogenFixture: the trial file other packages' tests load holds the
-// reference CSV's yields, plot by plot (testdata/README.md).
+// reference CSV's yields, plot by plot (stats/refdata/README.md).
 func TestNitrogenFixture(t *testing.T) {
 	t.Parallel()
-	f, err := os.Open(nitrogenCSV)
+	f, err := refdata.Open(nitrogenCSV)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -38,7 +38,7 @@ func TestNitrogenFixture(t *testing.T) {
 		y, _ := strconv.ParseFloat(r[3], 64)
 		want[[2]string{r[1], "N" + r[2]}] = y
 	}
-	tr, err := trialfile.Load(nitrogenFixture)
+	tr, err := trialfile.Load(refdata.File(t, nitrogenFixture))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -80,7 +80,7 @@ type nitrogenRef struct {
 // profiled quadratic-plateau, the optimum at a price ratio of 0.008).
 func TestResponseOfAgainstR(t *testing.T) {
 	t.Parallel()
-	b, err := os.ReadFile(nitrogenJSON)
+	b, err := refdata.ReadFile(nitrogenJSON)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -88,7 +88,7 @@ func TestResponseOfAgainstR(t *testing.T) {
 	if err := json.Unmarshal(b, &ref); err != nil {
 		t.Fatal(err)
 	}
-	tr, err := trialfile.Load(nitrogenFixture)
+	tr, err := trialfile.Load(refdata.File(t, nitrogenFixture))
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -8,16 +8,17 @@ import (
 	"strings"
 	"testing"
 
+	"furlong/stats/refdata"
 	"furlong/trial/trialfile"
 )
 
 // nitrogenFixture: the nitrogen-rate reference data as a trial file (see
-// trial/analysis/testdata/README.md).
-const nitrogenFixture = "../../../trial/analysis/testdata/nitrogen-rates.furlong"
+// stats/refdata/README.md).
+const nitrogenFixture = "nitrogen-rates.furlong"
 
 func copyNitrogen(t *testing.T) string {
 	t.Helper()
-	b, err := os.ReadFile(nitrogenFixture)
+	b, err := refdata.ReadFile(nitrogenFixture)
 	if err != nil {
 		t.Fatal(err)
 	}

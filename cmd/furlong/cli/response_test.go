@@ -4,20 +4,20 @@ import (
 	"encoding/csv"
 	"encoding/json"
 	"math"
-	"os"
 	"path/filepath"
 	"strconv"
 	"strings"
 	"testing"
 
+	"furlong/stats/refdata"
 	"furlong/trial/trialfile"
 )
 
 // nitrogenCSV is the R reference of the rate analysis (5 N rates × 4
 // blocks; R 4.2.2 aov with contr.poly(scores = rates), lm, profiled
-// quadratic-plateau), kept with the stats package's test data.
-const nitrogenCSV = "../../../stats/testdata/response/nitrogen-rates.csv"
-const nitrogenJSON = "../../../stats/testdata/response/nitrogen-rates.expected.json"
+// quadratic-plateau), in stats/refdata.
+const nitrogenCSV = "nitrogen-rates.csv"
+const nitrogenJSON = "nitrogen-rates.expected.json"
 
 type nitrogenRef struct {
 	Contrasts []struct {
@@ -40,7 +40,7 @@ type responseOut struct {
 
 func checkNitrogen(t *testing.T, label string, got responseJSON) {
 	t.Helper()
-	b, err := os.ReadFile(nitrogenJSON)
+	b, err := refdata.ReadFile(nitrogenJSON)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -82,7 +82,7 @@ func checkNitrogen(t *testing.T, label string, got responseJSON) {
 
 func TestResponseCSVAgainstR(t *testing.T) {
 	t.Parallel()
-	code, stdout, stderr := run(t, "response", nitrogenCSV, "--rate", "rate", "--block", "block", "--response", "yield", "--price-ratio", "0.008", "--format", "json")
+	code, stdout, stderr := run(t, "response", refdata.File(t, nitrogenCSV), "--rate", "rate", "--block", "block", "--response", "yield", "--price-ratio", "0.008", "--format", "json")
 	if code != ExitOK {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
@@ -95,7 +95,7 @@ func TestResponseCSVAgainstR(t *testing.T) {
 	}
 	checkNitrogen(t, "csv", out.Traits[0])
 	// The text form carries the same analysis and the cautions.
-	code, stdout, _ = run(t, "response", nitrogenCSV, "--rate", "rate", "--block", "block", "--response", "yield", "--price-ratio", "0.008")
+	code, stdout, _ = run(t, "response", refdata.File(t, nitrogenCSV), "--rate", "rate", "--block", "block", "--response", "yield", "--price-ratio", "0.008")
 	if code != ExitOK || !strings.Contains(stdout, "quadratic-plateau") || !strings.Contains(stdout, "lack of fit") || !strings.Contains(stdout, "not a recommendation") {
 		t.Errorf("text output:\n%s", stdout)
 	}
@@ -116,7 +116,7 @@ func TestResponseTrialFile(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	f, err := os.Open(nitrogenCSV)
+	f, err := refdata.Open(nitrogenCSV)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -158,7 +158,7 @@ func TestResponseTrialFile(t *testing.T) {
 	// treatments, so F differs from R's five-treatment aov; the sums of
 	// squares of the trends and the curves on the means do not.
 	got := out.Traits[0]
-	b, _ := os.ReadFile(nitrogenJSON)
+	b, _ := refdata.ReadFile(nitrogenJSON)
 	var ref nitrogenRef
 	_ = json.Unmarshal(b, &ref)
 	for i, c := range ref.Contrasts {
@@ -210,7 +210,7 @@ func TestResponseErrors(t *testing.T) {
 		in   string
 	}{
 		{[]string{"response", path}, ExitFailure, "at least 3 treatments with a rate"},
-		{[]string{"response", nitrogenCSV}, ExitUsage, "--rate COL"},
+		{[]string{"response", refdata.File(t, nitrogenCSV)}, ExitUsage, "--rate COL"},
 		{[]string{"response", path, "--leave-out", "ZZ"}, ExitUsage, `no treatment "ZZ"`},
 		{[]string{"response", path, "--format", "xml"}, ExitUsage, "text or json"},
 		{[]string{"new", "-o", filepath.Join(dir, "x.furlong"), "--treatments", "3", "--reps", "2", "--rates", "0,1"}, ExitUsage, "one place per treatment"},
