@@ -1,30 +1,12 @@
 package stats
 
 import (
-	"encoding/csv"
 	"math"
-	"os"
-	"path/filepath"
 	"sort"
 	"testing"
 
 	"furlong/stats/refdata"
 )
-
-// readCSV returns the header and rows of a testdata CSV file.
-func readCSV(t *testing.T, name string) ([]string, [][]string) {
-	t.Helper()
-	f, err := os.Open(filepath.Join("testdata", name))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	recs, err := csv.NewReader(f).ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
-	return recs[0], recs[1:]
-}
 
 // readRefCSV returns the header and rows of a CSV file of the shared
 // reference data (stats/refdata, provenance in its README.md).

@@ -4,10 +4,10 @@ import (
 	"encoding/json"
 	"math"
 	"math/big"
-	"os"
-	"path/filepath"
 	"strconv"
 	"testing"
+
+	"furlong/stats/refdata"
 )
 
 // lre is the log relative error: the number of correct significant digits
@@ -26,7 +26,7 @@ func lre(got, cert float64) float64 {
 // parsing error that otherwise limits every algorithm.
 func nistSet(t *testing.T, name string, exactOffset bool) Model {
 	t.Helper()
-	header, rows := readCSV(t, filepath.Join("nist-strd-anova", name+".csv"))
+	header, rows := readRefCSV(t, "nist-strd-anova/"+name+".csv")
 	groups := column(t, header, rows, "group")
 	vals := column(t, header, rows, "value")
 	y := make([]float64, len(vals))
@@ -93,8 +93,8 @@ func exactOneWay(m Model) (between, within float64) {
 
 // TestNISTOneWay checks Fit against the certified values of the eleven NIST
 // StRD one-way ANOVA datasets (NIST Statistical Reference Datasets, ANOVA
-// section; testdata/nist-strd-anova). Required digits follow the limit that
-// a float64 parse of the responses allows (testdata/README.md): 13 for
+// section; stats/refdata/nist-strd-anova). Required digits follow the limit that
+// a float64 parse of the responses allows (stats/refdata/README.md): 13 for
 // SiRstv, 15 for SmLs01–03 (14.5 allowed for the last-digit rounding of the
 // certified strings), about 10 for AtmWtAg and SmLs04–06 and about 4 for
 // SmLs07–09. Exact rational arithmetic on the float64-parsed responses
@@ -105,7 +105,7 @@ func exactOneWay(m Model) (between, within float64) {
 // values when the common decimal offset is removed before parsing.
 func TestNISTOneWay(t *testing.T) {
 	t.Parallel()
-	b, err := os.ReadFile(filepath.Join("testdata", "nist-strd-anova", "certified.json"))
+	b, err := refdata.ReadFile("nist-strd-anova/certified.json")
 	if err != nil {
 		t.Fatal(err)
 	}

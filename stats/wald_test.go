@@ -3,10 +3,10 @@ package stats
 import (
 	"encoding/json"
 	"math"
-	"os"
-	"path/filepath"
 	"strconv"
 	"testing"
+
+	"furlong/stats/refdata"
 )
 
 // TestEqualityTestNIST: with the group means of NIST StRD SiRstv and their
@@ -16,7 +16,7 @@ import (
 // changes nothing, shifting one changes F.
 func TestEqualityTestNIST(t *testing.T) {
 	t.Parallel()
-	header, rows := readCSV(t, filepath.Join("nist-strd-anova", "SiRstv.csv"))
+	header, rows := readRefCSV(t, "nist-strd-anova/SiRstv.csv")
 	groups := column(t, header, rows, "group")
 	vals := column(t, header, rows, "value")
 	sum, n := map[string]float64{}, map[string]int{}
@@ -32,7 +32,7 @@ func TestEqualityTestNIST(t *testing.T) {
 		sum[g] += v
 		n[g]++
 	}
-	b, err := os.ReadFile(filepath.Join("testdata", "nist-strd-anova", "certified.json"))
+	b, err := refdata.ReadFile("nist-strd-anova/certified.json")
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -19,19 +19,19 @@ import (
 	"testing"
 )
 
-//go:embed *.csv *.json *.furlong
+//go:embed *.csv *.json *.furlong nist-strd-anova
 var files embed.FS
 
-// Names returns the names of the embedded files in sorted order.
+// Names returns the names of the embedded files in sorted order, those in
+// a folder as folder/name (nist-strd-anova/SiRstv.csv).
 func Names() []string {
-	ents, err := fs.ReadDir(files, ".")
-	if err != nil {
-		return nil
-	}
-	out := make([]string, 0, len(ents))
-	for _, e := range ents {
-		out = append(out, e.Name())
-	}
+	var out []string
+	fs.WalkDir(files, ".", func(p string, d fs.DirEntry, err error) error {
+		if err == nil && !d.IsDir() {
+			out = append(out, p)
+		}
+		return err
+	})
 	sort.Strings(out)
 	return out
 }
@@ -81,12 +81,15 @@ func JSON(tb testing.TB, name string, v any) {
 }
 
 // File writes the named file into a fresh temporary directory of the test
-// under its own name and returns its path, for code that reads files from
+// under its own name (in its folder, if it has one) and returns its path, for code that reads files from
 // disk (a command line, a file dialog). The directory is removed when the
 // test ends.
 func File(tb testing.TB, name string) string {
 	tb.Helper()
-	p := filepath.Join(tb.TempDir(), name)
+	p := filepath.Join(tb.TempDir(), filepath.FromSlash(name))
+	if err := os.MkdirAll(filepath.Dir(p), 0o755); err != nil {
+		tb.Fatalf("refdata: %v", err)
+	}
 	if err := os.WriteFile(p, Bytes(tb, name), 0o644); err != nil {
 		tb.Fatalf("refdata: %v", err)
 	}

@@ -17,7 +17,7 @@ func TestReadmeListsEveryFile(t *testing.T) {
 		t.Fatal(err)
 	}
 	listed := map[string]bool{}
-	for _, m := range regexp.MustCompile("`([^`/ ]+\\.(?:csv|json|furlong))`").FindAllStringSubmatch(string(readme), -1) {
+	for _, m := range regexp.MustCompile("`([^` ]+\\.(?:csv|json|furlong))`").FindAllStringSubmatch(string(readme), -1) {
 		listed[m[1]] = true
 	}
 	names := Names()

@@ -8,12 +8,14 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"furlong/stats/refdata"
 )
 
-// nistDir holds the eleven NIST StRD one-way ANOVA datasets with their
+// nistDir, a folder of stats/refdata, holds the eleven NIST StRD one-way ANOVA datasets with their
 // certified values (NIST Statistical Reference Datasets, ANOVA section;
-// provenance in stats/testdata/README.md).
-var nistDir = filepath.Join("..", "..", "..", "stats", "testdata", "nist-strd-anova")
+// provenance in stats/refdata/README.md).
+const nistDir = "nist-strd-anova"
 
 // digitsOf is the log relative error: the number of correct significant
 // digits of got against the certified value, capped at 15 (the certified
@@ -27,7 +29,7 @@ func digitsOf(got, cert float64) float64 {
 
 func nistCertified(t *testing.T) map[string]map[string]string {
 	t.Helper()
-	b, err := os.ReadFile(filepath.Join(nistDir, "certified.json"))
+	b, err := refdata.ReadFile(nistDir + "/certified.json")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -87,7 +89,7 @@ func TestNISTThroughAnalyzeCSV(t *testing.T) {
 	t.Parallel()
 	cert := nistCertified(t)
 	for _, name := range []string{"SiRstv", "SmLs01", "SmLs02", "SmLs03", "AtmWtAg", "SmLs04", "SmLs05", "SmLs06", "SmLs07", "SmLs08", "SmLs09"} {
-		code, out, errOut := run(t, "analyze", filepath.Join(nistDir, name+".csv"), "--treatment", "group", "--response", "value", "--format", "json")
+		code, out, errOut := run(t, "analyze", refdata.File(t, nistDir+"/"+name+".csv"), "--treatment", "group", "--response", "value", "--format", "json")
 		if code != 0 {
 			t.Fatalf("%s: exit %d: %s", name, code, errOut)
 		}
@@ -116,7 +118,7 @@ func TestNISTThroughFieldBook(t *testing.T) {
 	if code, _, e := run(t, "fieldbook", tr, "-o", book); code != 0 {
 		t.Fatal(e)
 	}
-	src, err := os.ReadFile(filepath.Join(nistDir, "SmLs07.csv"))
+	src, err := refdata.ReadFile(nistDir + "/SmLs07.csv")
 	if err != nil {
 		t.Fatal(err)
 	}
