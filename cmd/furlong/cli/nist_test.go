@@ -12,9 +12,9 @@ import (
 	"furlong/stats/refdata"
 )
 
-// nistDir, a folder of stats/refdata, holds the eleven NIST StRD one-way ANOVA datasets with their
-// certified values (NIST Statistical Reference Datasets, ANOVA section;
-// provenance in stats/refdata/README.md).
+// nistDir, a folder of stats/refdata, holds the eleven NIST StRD one-way
+// ANOVA datasets with their certified values (NIST Statistical Reference
+// Datasets, ANOVA section; provenance in stats/refdata/README.md).
 const nistDir = "nist-strd-anova"
 
 // digitsOf is the log relative error: the number of correct significant
