@@ -12,7 +12,48 @@ import (
 // estimated marginal means of every effect with their comparisons and
 // letters, the SEDs of every kind of comparison, slices of interactions
 // and the residuals. See the package documentation for the formulas.
-func Fit(m Model) (*Result, error) { return fit(m, false) }
+func Fit(m Model) (*Result, error) {
+	r, err := fit(m, false)
+	if err == nil && m.Origin != 0 {
+		r.addOrigin(m.Origin)
+	}
+	return r, err
+}
+
+// addOrigin puts the origin the caller took away back on every quantity
+// that has the values' scale (Model.Origin). The covariance analysis'
+// companions were fitted by Fit and carry it already.
+func (r *Result) addOrigin(o float64) {
+	r.GrandMean += o
+	shift := func(ms []Mean) {
+		for i := range ms {
+			if ms[i].Estimable {
+				ms[i].Mean += o
+			}
+			if ms[i].N > 0 {
+				ms[i].RawMean += o
+			}
+		}
+	}
+	for i := range r.Effects {
+		shift(r.Effects[i].Means)
+	}
+	for i := range r.Slices {
+		shift(r.Slices[i].Means)
+	}
+	for i := range r.Fitted {
+		r.Fitted[i] += o
+	}
+	for i := range r.Lines {
+		l := &r.Lines[i]
+		if l.Role == RoleError && l.HasSS {
+			l.HasCV, l.CVPercent = false, 0
+			if r.GrandMean > 0 {
+				l.HasCV, l.CVPercent = true, 100*math.Sqrt(l.MS)/r.GrandMean
+			}
+		}
+	}
+}
 
 // fit is Fit; forceREML fits balanced split and strip plots by REML too
 // (for the tests: REML equals the strata analysis there).
