@@ -3,6 +3,7 @@ package glm
 import (
 	"fmt"
 	"math"
+	"strings"
 
 	"gonum.org/v1/gonum/mat"
 )
@@ -571,7 +572,7 @@ func fitStrata(d *design, mx *matrix, ne *normal, m *Model, trt []term, res *Res
 		c := Component{Name: st.comps[j], Variance: sig[j]}
 		if sig[j] < 0 {
 			c.Variance, c.Truncated = 0, true
-			res.Notes = append(res.Notes, fmt.Sprintf("%s is smaller than the error below it, so the %s variance is estimated as 0", st.names[j], st.comps[j]))
+			res.Notes = append(res.Notes, fmt.Sprintf("the mean square of %s is smaller than that of the error below it, so the %s variance is estimated as 0 (its estimate is negative, a chance result common with few blocks)", errorWords(st.names[j]), componentWords(st.comps[j])))
 		}
 		res.VarianceComponents = append(res.VarianceComponents, c)
 	}
@@ -644,4 +645,19 @@ func stratumResiduals(d *design, smx *matrix, sne *normal, res *Result) {
 		return
 	}
 	fillResiduals(d, smx, f.beta, res)
+}
+
+// errorWords names an error stratum in a sentence: "error (a)" for
+// "error_a".
+func errorWords(name string) string {
+	if rest, ok := strings.CutPrefix(name, "error_"); ok {
+		return "error (" + rest + ")"
+	}
+	return strings.ReplaceAll(name, "_", " ")
+}
+
+// componentWords names a variance component in a sentence: "main-plot" for
+// "main_plot", "horizontal-strip" for "horizontal_strip".
+func componentWords(name string) string {
+	return strings.ReplaceAll(name, "_", "-")
 }
