@@ -267,10 +267,11 @@ func responseOf(t *trial.Trial, r *analysis.Result, rates analysis.Rates, ratio 
 	return resp, p, err
 }
 
-// clear shows msg and no analysis.
+// clear shows msg and no analysis (no empty tables).
 func (v *responseView) clear(msg string) {
 	v.gen++
 	v.resp = nil
+	v.body.Hide()
 	v.note.SetText(msg)
 	v.trend.set(nil, nil)
 	v.model.set(nil, nil)
@@ -292,6 +293,7 @@ func (v *responseView) display(r *analysis.Result, resp *analysis.Response, p ch
 		return
 	}
 	v.resp = resp
+	v.body.Show()
 	var note []string
 	note = append(note, r.TraitName+": "+export.ResponseNote(resp, r.ANOVA.DFError))
 	if err != nil {
