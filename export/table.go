@@ -146,9 +146,10 @@ func (s *Summary) VsCheckNote() string {
 }
 
 // MSDText writes a least significant difference for a table: the single
-// value with dec decimals, or for unequal replication the range of the
-// pairwise values, "0.48–0.55 (unequal n)", so that the reader keeps a
-// yardstick; "–" when there is neither.
+// value with dec decimals, or when the pairs have their own (unequal
+// replication, or a split or strip plot's comparisons that mix strata) the
+// range of the pairwise values, "0.48–0.55 (by pair)", so that the reader
+// keeps a yardstick; "–" when there is neither.
 func MSDText(msd *float64, rng *analysis.Range, dec int) string {
 	f := func(v float64) string { return strconv.FormatFloat(v, 'f', dec, 64) }
 	switch {
@@ -157,9 +158,9 @@ func MSDText(msd *float64, rng *analysis.Range, dec int) string {
 	case rng != nil && finite(rng.Min) && finite(rng.Max):
 		lo, hi := f(rng.Min), f(rng.Max)
 		if lo == hi {
-			return lo + " (unequal n)"
+			return lo + " (by pair)"
 		}
-		return lo + "–" + hi + " (unequal n)"
+		return lo + "–" + hi + " (by pair)"
 	}
 	return "–"
 }

@@ -87,8 +87,8 @@ func TestMSDText(t *testing.T) {
 		want string
 	}{
 		{fp(0.512), &analysis.Range{Min: 0.512, Max: 0.512}, "0.51"},
-		{nil, &analysis.Range{Min: 0.4791, Max: 0.5533}, "0.48–0.55 (unequal n)"},
-		{nil, &analysis.Range{Min: 0.5, Max: 0.5001}, "0.50 (unequal n)"},
+		{nil, &analysis.Range{Min: 0.4791, Max: 0.5533}, "0.48–0.55 (by pair)"},
+		{nil, &analysis.Range{Min: 0.5, Max: 0.5001}, "0.50 (by pair)"},
 		{nil, nil, "–"},
 	} {
 		if got := MSDText(c.msd, c.rng, 2); got != c.want {

@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 	"sort"
+	"strconv"
+	"strings"
 	"time"
 )
 
@@ -308,4 +310,68 @@ func (p *problems) checkAssessment(t *Trial, i int) {
 			p.add(f, "trait %q is the pre-treatment count of %q, which is neither a trait nor a series of the trial", tr.Key, tr.PreCountOf)
 		}
 	}
+}
+
+// AssessmentSeries makes the traits of an assessment series: one trait per
+// assessment (key_1, key_2, ...) in the given unit ("%" makes percent
+// traits with a 0–100 range), each assessed on a date (2026-06-01) or a day
+// count after treatment or sowing (7DAT, 35DAS; "2026-06-01/7DAT" gives
+// both), and the series' AUDPC and standardised AUDPC traits (key_audpc,
+// key_saudpc). whens lists the assessments, comma-separated, in order; at
+// least two are needed. The command line's --assess and the window's
+// Traits tab both use it.
+func AssessmentSeries(key, unit, whens string) ([]Trait, error) {
+	if err := CheckTraitKey(key); err != nil {
+		return nil, err
+	}
+	kind := Continuous
+	if unit == "%" {
+		kind = Percent
+	}
+	var out []Trait
+	for i, w := range strings.Split(whens, ",") {
+		w = strings.TrimSpace(w)
+		if w == "" {
+			continue
+		}
+		tr := Trait{
+			Key: fmt.Sprintf("%s_%d", key, len(out)+1), Unit: unit, Kind: kind, Decimals: 1,
+			Assessment: &Assessment{Series: key},
+		}
+		if kind == Percent {
+			lo, hi := 0.0, 100.0
+			tr.Min, tr.Max = &lo, &hi
+		}
+		var label []string
+		for _, part := range strings.Split(w, "/") {
+			part = strings.TrimSpace(part)
+			up := strings.ToUpper(part)
+			switch {
+			case strings.HasSuffix(up, "DAT") || strings.HasSuffix(up, "DAS"):
+				n, err := strconv.Atoi(strings.TrimSpace(up[:len(up)-3]))
+				if err != nil || n < 0 {
+					return nil, fmt.Errorf("series %s: %q is not a day count such as 7DAT or 35DAS", key, part)
+				}
+				tr.Assessment.Days, tr.Assessment.From = n, DaysAfterTreatment
+				if strings.HasSuffix(up, "DAS") {
+					tr.Assessment.From = DaysAfterSowing
+				}
+				label = append(label, fmt.Sprintf("%d %s", n, tr.Assessment.From.Abbrev()))
+			default:
+				d, err := time.Parse("2006-01-02", part)
+				if err != nil {
+					return nil, fmt.Errorf("series %s: assessment %d, %q, is neither a date (2026-06-01) nor a day count (7DAT, 35DAS)", key, i+1, part)
+				}
+				tr.Assessed = d
+				label = append(label, part)
+			}
+		}
+		tr.Name = key + ", " + strings.Join(label, ", ")
+		out = append(out, tr)
+	}
+	if len(out) < 2 {
+		return nil, fmt.Errorf("series %s needs at least two assessments to follow over time", key)
+	}
+	out = append(out, AUDPCTrait(key+"_audpc", key, unit, false), AUDPCTrait(key+"_saudpc", key, unit, true))
+	return out, nil
 }

@@ -60,8 +60,10 @@ type compareStep struct {
 	// eff is the percent efficacy of the trait shown against the
 	// untreated check, a sixth column of the means table (nil: none).
 	eff *analysis.Efficacy
-	// views are the further views beside "This trait" (compare_views.go).
+	// views are the further views beside "This trait" (compare_views.go),
+	// in tabs.
 	views []compareView
+	tabs  *container.AppTabs
 	root  fyne.CanvasObject
 }
 
@@ -165,6 +167,16 @@ func newCompareStep(u *App) *compareStep {
 	c.views = c.newViews()
 	for _, v := range c.views {
 		tabs.Append(v.tab())
+	}
+	// A view that is costly to fill (every pair of 300 entries) fills
+	// itself only while its tab is shown.
+	c.tabs = tabs
+	tabs.OnSelected = func(it *container.TabItem) {
+		for _, v := range c.views {
+			if l, ok := v.(interface{ shown() }); ok && v.tab() == it {
+				l.shown()
+			}
+		}
 	}
 	c.root = container.NewBorder(controls, caution, nil, nil, tabs)
 	u.compute.onResults = append(u.compute.onResults, c.show)

@@ -42,8 +42,9 @@ type marginsView struct {
 	// shown is the margins on screen (nil when none).
 	shown *analysis.Margins
 	// codes are the treatments the cost rows were made for.
-	codes   []string
-	syncing bool
+	codes     []string
+	syncing   bool
+	syncedFor *trial.Trial // the trial the controls show
 	// done, when set, is called after margins were shown (tests).
 	done func()
 }
@@ -138,6 +139,7 @@ func (v *marginsView) sync() {
 		}
 		v.costs.Refresh()
 	}
+	v.syncedFor = t
 	ratio := t.Analysis.Response.PriceRatio
 	for _, code := range codes {
 		p, a := v.product[code], v.applic[code]
@@ -247,7 +249,9 @@ func (v *marginsView) refresh(ch change) {
 }
 
 func (v *marginsView) show(s *resultSet, tr *traitResult) {
-	v.sync()
+	if v.trial() != v.syncedFor {
+		v.sync() // another trial; edits of this one come through refresh
+	}
 	if s == nil {
 		return
 	}

@@ -48,8 +48,9 @@ type responseView struct {
 	// resp is the analysis shown (nil when none).
 	resp *analysis.Response
 	// syncing is set while the controls are filled from the trial, so that
-	// their callbacks do not edit it.
-	syncing bool
+	// their callbacks do not edit it; syncedFor is the trial they show.
+	syncing   bool
+	syncedFor *trial.Trial
 	// done, when set, is called after an analysis was shown (tests).
 	done func()
 }
@@ -117,14 +118,35 @@ func (v *responseView) syncSettings() {
 		v.ratio.SetText("")
 		return
 	}
-	v.leave.Options = t.TreatmentCodes()
-	v.leave.Selected = leftOutChoices(t)
-	v.leave.Refresh()
-	if r := t.Analysis.Response.PriceRatio; r > 0 {
-		v.ratio.SetText(strconv.FormatFloat(r, 'g', -1, 64))
-	} else {
-		v.ratio.SetText("")
+	// Only a rate trial offers its treatments (a long list of check boxes
+	// costs the window time on every round for nothing otherwise), and the
+	// boxes are redrawn only when they change.
+	var opts, sel []string
+	if hasRates(t) {
+		opts, sel = t.TreatmentCodes(), leftOutChoices(t)
 	}
+	if !slices.Equal(opts, v.leave.Options) || !slices.Equal(sel, v.leave.Selected) {
+		v.leave.Options, v.leave.Selected = opts, sel
+		v.leave.Refresh()
+	}
+	txt := ""
+	if r := t.Analysis.Response.PriceRatio; r > 0 {
+		txt = strconv.FormatFloat(r, 'g', -1, 64)
+	}
+	if v.ratio.Text != txt {
+		v.ratio.SetText(txt)
+	}
+	v.syncedFor = t
+}
+
+// hasRates reports whether any treatment of t has a rate.
+func hasRates(t *trial.Trial) bool {
+	for _, tr := range t.Treatments {
+		if tr.Rate != nil {
+			return true
+		}
+	}
+	return false
 }
 
 // leftOutChoices are the treatments ticked as left out of the trend: the
@@ -189,7 +211,9 @@ func (v *responseView) refresh(ch change) {
 }
 
 func (v *responseView) show(s *resultSet, tr *traitResult) {
-	v.syncSettings()
+	if v.trial() != v.syncedFor {
+		v.syncSettings() // another trial; edits of this one come through refresh
+	}
 	if s == nil {
 		return
 	}
@@ -243,10 +267,11 @@ func responseOf(t *trial.Trial, r *analysis.Result, rates analysis.Rates, ratio 
 	return resp, p, err
 }
 
-// clear shows msg and no analysis.
+// clear shows msg and no analysis (no empty tables).
 func (v *responseView) clear(msg string) {
 	v.gen++
 	v.resp = nil
+	v.body.Hide()
 	v.note.SetText(msg)
 	v.trend.set(nil, nil)
 	v.model.set(nil, nil)
@@ -268,6 +293,7 @@ func (v *responseView) display(r *analysis.Result, resp *analysis.Response, p ch
 		return
 	}
 	v.resp = resp
+	v.body.Show()
 	var note []string
 	note = append(note, r.TraitName+": "+export.ResponseNote(resp, r.ANOVA.DFError))
 	if err != nil {

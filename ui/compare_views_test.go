@@ -91,6 +91,10 @@ func TestComparePairsAndChecksAgainstR(t *testing.T) {
 	if pv == nil {
 		t.Fatal("Compare has no Pairs view")
 	}
+	if len(pv.table.rows) != 0 {
+		t.Errorf("the pairs were formatted before their tab was shown (%d rows)", len(pv.table.rows))
+	}
+	c.tabs.Select(pv.item) // as the user does
 	rows := pv.table.rows
 	if len(rows) != len(want.Pairs) || len(rows) != 45 {
 		t.Fatalf("%d pairs shown, R lists %d (10 varieties: 45)", len(rows), len(want.Pairs))

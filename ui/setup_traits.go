@@ -41,8 +41,10 @@ type traitForm struct {
 	// pctCheck whether its means are shown as percent of the check
 	// (pctCheckLabels: the default, yes or no).
 	transform, pctCheck *widget.Select
-	// covariate is the trait this one is adjusted for (noCovariate: none).
-	covariate *widget.Select
+	// covariate is the trait this one is adjusted for (noCovariate: none);
+	// preCount the trait or series this one counts before treatment
+	// (noPreCount: none).
+	covariate, preCount *widget.Select
 
 	// Settings of a derived (adjusted-yield) trait, shown only for one.
 	derivedBox       *fyne.Container
@@ -88,6 +90,12 @@ func (s *traitsTab) build() fyne.CanvasObject {
 			if tr.Covariate != "" {
 				txt += " · adjusted for " + tr.Covariate
 			}
+			if tr.PreCountOf != "" {
+				txt += " · count before treatment of " + tr.PreCountOf
+			}
+			if a := tr.Assessment; a != nil {
+				txt += " · assessment of series " + a.Series
+			}
 			o.(*widget.Label).SetText(txt)
 		})
 	f := &traitForm{}
@@ -113,6 +121,8 @@ func (s *traitsTab) build() fyne.CanvasObject {
 	f.pctCheck.SetSelectedIndex(0)
 	f.covariate = widget.NewSelect([]string{noCovariate}, nil)
 	f.covariate.SetSelected(noCovariate)
+	f.preCount = widget.NewSelect([]string{noPreCount}, nil)
+	f.preCount.SetSelected(noPreCount)
 
 	f.derivedFrom = widget.NewLabel("")
 	f.derivedFrom.Wrapping = fyne.TextWrapWord
@@ -167,18 +177,20 @@ func (s *traitsTab) build() fyne.CanvasObject {
 	})
 	f.remove.Disable()
 	yield := widget.NewButtonWithIcon("Add adjusted yield…", theme.ContentAddIcon(), s.yieldDialog)
+	assess := widget.NewButtonWithIcon("Add assessment series…", theme.ContentAddIcon(), s.assessDialog)
 	form := widget.NewForm(
 		widget.NewFormItem("Key", f.key), widget.NewFormItem("Name", f.name), widget.NewFormItem("Unit", f.unit),
 		widget.NewFormItem("Kind", f.kind), widget.NewFormItem("Valid from", f.minE), widget.NewFormItem("Valid to", f.maxE),
 		widget.NewFormItem("Decimals", f.dec), widget.NewFormItem("", f.higher),
 		widget.NewFormItem("Analysed as", f.transform), widget.NewFormItem("Percent of check", f.pctCheck),
 		widget.NewFormItem("Adjusted for", f.covariate),
+		widget.NewFormItem("Count before treatment of", f.preCount),
 	)
 	help := widget.NewLabel("Select a trait to change it; values outside the valid range are kept and flagged in Record. Adjusted yield is computed from plot weight and grain moisture. " + transformHelp)
 	help.Wrapping = fyne.TextWrapWord
 	help.Importance = widget.LowImportance
 	right := container.NewVBox(form, f.derivedBox, f.msg,
-		container.NewHBox(f.apply, f.add, f.clear, f.remove), widget.NewSeparator(), yield, help)
+		container.NewHBox(f.apply, f.add, f.clear, f.remove), widget.NewSeparator(), container.NewHBox(yield, assess), help)
 	split := container.NewHSplit(s.traitList, container.NewVScroll(right))
 	split.Offset = 0.45
 	return split
@@ -203,6 +215,7 @@ func (s *traitsTab) loadTraitForm(tr *trial.Trait) {
 		f.transform.SetSelectedIndex(0)
 		f.pctCheck.SetSelectedIndex(0)
 		s.fillCovariates("", "")
+		s.fillPreCounts("", "")
 		f.derivedBox.Hide()
 		f.apply.Disable()
 		f.remove.Disable()
@@ -221,6 +234,7 @@ func (s *traitsTab) loadTraitForm(tr *trial.Trait) {
 	f.transform.SetSelectedIndex(max(slices.Index(transformValues, tr.Transform), 0))
 	f.pctCheck.SetSelectedIndex(pctCheckIndex(tr.PercentOfCheck))
 	s.fillCovariates(tr.Key, tr.Covariate)
+	s.fillPreCounts(tr.Key, tr.PreCountOf)
 	f.apply.Enable()
 	f.remove.Enable()
 	if d := tr.Derived; d != nil {
@@ -292,6 +306,10 @@ func (s *traitsTab) traitFromForm(base trial.Trait) (trial.Trait, error) {
 	tr.Covariate = ""
 	if c := f.covariate.Selected; c != noCovariate && c != "" {
 		tr.Covariate = c
+	}
+	tr.PreCountOf = ""
+	if c := f.preCount.Selected; c != noPreCount && c != "" {
+		tr.PreCountOf = strings.TrimSuffix(c, seriesSuffix)
 	}
 	if base.Derived == nil {
 		tr.Kind = kindValues[max(f.kind.SelectedIndex(), 0)]
@@ -431,4 +449,40 @@ func (s *traitsTab) fillCovariates(key, cov string) {
 		cov = noCovariate
 	}
 	f.covariate.SetSelected(cov)
+}
+
+// noPreCount is the pre-count select's entry for none; seriesSuffix marks
+// an assessment series among its choices.
+const (
+	noPreCount   = "nothing (not a pre-treatment count)"
+	seriesSuffix = " (series)"
+)
+
+// fillPreCounts offers the trial's other traits and its assessment series
+// as what the trait with key counts before treatment (Henderson–Tilton's
+// efficacy needs it), and selects cur.
+func (s *traitsTab) fillPreCounts(key, cur string) {
+	opts := []string{noPreCount}
+	sel := noPreCount
+	seen := map[string]bool{}
+	for _, tr := range s.t().Traits {
+		if a := tr.Assessment; a != nil && !seen[a.Series] {
+			seen[a.Series] = true
+			opts = append(opts, a.Series+seriesSuffix)
+			if a.Series == cur {
+				sel = a.Series + seriesSuffix
+			}
+		}
+	}
+	for _, tr := range s.t().Traits {
+		if tr.Key != key && tr.Derived == nil && tr.Assessment == nil {
+			opts = append(opts, tr.Key)
+			if tr.Key == cur {
+				sel = tr.Key
+			}
+		}
+	}
+	f := s.tf
+	f.preCount.Options = opts
+	f.preCount.SetSelected(sel)
 }

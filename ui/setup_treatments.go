@@ -47,8 +47,11 @@ func (s *treatmentsTab) build() fyne.CanvasObject {
 			row.Objects[0].(*widget.Label).SetText(fmt.Sprintf("%-6s", tr.Code))
 			row.Objects[1].(*widget.Label).SetText(tr.Name)
 			role := ""
-			if tr.Role == trial.RoleCheck {
+			switch tr.Role {
+			case trial.RoleCheck:
 				role = "check"
+			case trial.RoleUntreated:
+				role = "untreated check"
 			}
 			row.Objects[2].(*widget.Label).SetText(rateText(tr))
 			row.Objects[3].(*widget.Label).SetText(role)
@@ -60,12 +63,13 @@ func (s *treatmentsTab) build() fyne.CanvasObject {
 	f.name.SetPlaceHolder("name")
 	f.desc = widget.NewEntry()
 	f.desc.SetPlaceHolder("description (optional)")
-	f.check = widget.NewCheck("Check (the standard the others are compared with)", nil)
+	f.role = widget.NewRadioGroup(roleLabels, nil)
+	f.role.SetSelected(roleLabels[0])
 	f.rate = widget.NewEntry()
 	f.rate.SetPlaceHolder("rate applied or sown, e.g. 120 (empty: none)")
 	f.rateUnit = widget.NewEntry()
 	f.rateUnit.SetPlaceHolder("unit of the rate, e.g. kg N/ha")
-	code, name, desc, check := f.code, f.name, f.desc, f.check
+	code, name, desc := f.code, f.name, f.desc
 	s.trtList.OnSelected = func(i widget.ListItemID) {
 		if s.trtMsg != nil {
 			s.trtMsg.SetText("")
@@ -75,7 +79,7 @@ func (s *treatmentsTab) build() fyne.CanvasObject {
 		code.SetText(tr.Code)
 		name.SetText(tr.Name)
 		desc.SetText(tr.Description)
-		check.SetChecked(tr.Role == trial.RoleCheck)
+		f.role.SetSelected(roleLabel(tr.Role))
 		f.rate.SetText(boundText(tr.Rate))
 		f.rateUnit.SetText(tr.RateUnit)
 		s.trtButtons()
@@ -88,7 +92,7 @@ func (s *treatmentsTab) build() fyne.CanvasObject {
 		widget.NewFormItem("Code", code),
 		widget.NewFormItem("Name", name),
 		widget.NewFormItem("Description", desc),
-		widget.NewFormItem("", check),
+		widget.NewFormItem("Role", f.role),
 		widget.NewFormItem("Rate", f.rate),
 		widget.NewFormItem("Rate unit", f.rateUnit),
 	)
@@ -96,10 +100,7 @@ func (s *treatmentsTab) build() fyne.CanvasObject {
 		base.Code = strings.TrimSpace(code.Text)
 		base.Name = strings.TrimSpace(name.Text)
 		base.Description = desc.Text
-		base.Role = trial.RoleEntry
-		if check.Checked {
-			base.Role = trial.RoleCheck
-		}
+		base.Role = roleOf(f.role.Selected)
 		rate, err := rateFromText(f.rate.Text)
 		if err != nil {
 			s.trtProblem(err.Error())
@@ -200,7 +201,7 @@ func (s *treatmentsTab) build() fyne.CanvasObject {
 // treatmentForm holds the Treatments tab's form and buttons.
 type treatmentForm struct {
 	code, name, desc             *widget.Entry
-	check                        *widget.Check
+	role                         *widget.RadioGroup // roleLabels
 	rate, rateUnit               *widget.Entry
 	add, apply, remove, up, down *widget.Button
 }
@@ -211,7 +212,7 @@ func (s *treatmentsTab) clearTreatmentForm() {
 	f.code.SetText("")
 	f.name.SetText("")
 	f.desc.SetText("")
-	f.check.SetChecked(false)
+	f.role.SetSelected(roleLabels[0])
 	f.rate.SetText("")
 	f.rateUnit.SetText("")
 }
@@ -389,4 +390,31 @@ func treatmentChange(old, nu trial.Treatment) string {
 		return "Treatment " + old.Code + " changed."
 	}
 	return "Treatment " + old.Code + ": " + strings.Join(parts, ", ") + "."
+}
+
+// roleLabels are the treatment roles offered, in the order of roleValues:
+// an entry, the check (the standard the others are compared with) and the
+// untreated check (the control of a crop-protection trial, against which
+// percent efficacy is worked out; a check too).
+var (
+	roleLabels = []string{"Entry", "Check (the standard)", "Untreated check (for % efficacy)"}
+	roleValues = []trial.Role{trial.RoleEntry, trial.RoleCheck, trial.RoleUntreated}
+)
+
+func roleLabel(r trial.Role) string {
+	for i, v := range roleValues {
+		if v == r {
+			return roleLabels[i]
+		}
+	}
+	return roleLabels[0]
+}
+
+func roleOf(label string) trial.Role {
+	for i, l := range roleLabels {
+		if l == label {
+			return roleValues[i]
+		}
+	}
+	return trial.RoleEntry
 }

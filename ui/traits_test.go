@@ -2,6 +2,7 @@ package ui
 
 import (
 	"math"
+	"slices"
 	"strings"
 	"testing"
 
@@ -234,5 +235,49 @@ func TestTraitCovariateChoice(t *testing.T) {
 	u.undo()
 	if got := u.doc.t.Trait("yld").Covariate; got != "" {
 		t.Errorf("after undo: %q", got)
+	}
+}
+
+// Setup › Traits builds a crop-protection trial as 'furlong new --assess'
+// and '--pre-count' do: an assessment series with its AUDPC traits added
+// in one undoable edit, a trait marked as the count before treatment of
+// the series, and bad dates refused in words.
+func TestTraitAssessmentSeries(t *testing.T) {
+	u, _ := newTestApp(t, 0)
+	u.OpenTrial(smallTrial(t), "")
+	u.showStep(stepSetup)
+	s := u.steps[stepSetup].(*setupStep)
+	if s.addAssessmentSeries("sev", "%", "2026-06-01, 13 June") || !strings.Contains(s.tf.msg.Text, "neither a date") {
+		t.Fatalf("a bad date was accepted: %q", s.tf.msg.Text)
+	}
+	if !s.addAssessmentSeries("sev", "%", "2026-06-01, 2026-06-15/14DAT, 2026-06-29") {
+		t.Fatalf("series not added: %q", s.tf.msg.Text)
+	}
+	want, _ := trial.AssessmentSeries("sev", "%", "2026-06-01, 2026-06-15/14DAT, 2026-06-29")
+	var keys []string
+	for _, tr := range u.doc.t.Traits {
+		keys = append(keys, tr.Key)
+	}
+	if got := strings.Join(keys, ","); got != "yld,heads,sev_1,sev_2,sev_3,sev_audpc,sev_saudpc" || len(want) != 5 {
+		t.Fatalf("traits %s", got)
+	}
+	if a := u.doc.t.Trait("sev_2").Assessment; a == nil || a.Series != "sev" || a.Days != 14 || a.From != trial.DaysAfterTreatment {
+		t.Errorf("sev_2 assessment %+v", a)
+	}
+	// heads counted before treatment of the series.
+	s.traitList.Select(1)
+	f := s.tf
+	if !slices.Contains(f.preCount.Options, "sev"+seriesSuffix) {
+		t.Fatalf("pre-count choices %v", f.preCount.Options)
+	}
+	f.preCount.SetSelected("sev" + seriesSuffix)
+	test.Tap(f.apply)
+	if got := u.doc.t.Trait("heads").PreCountOf; got != "sev" {
+		t.Fatalf("pre-count of %q (%s)", got, f.msg.Text)
+	}
+	u.undo()
+	u.undo()
+	if len(u.doc.t.Traits) != 2 {
+		t.Errorf("after undoing both: %d traits", len(u.doc.t.Traits))
 	}
 }

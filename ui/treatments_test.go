@@ -43,7 +43,7 @@ func TestTreatmentsTabNewTrial(t *testing.T) {
 	if f.apply.Disabled() || f.remove.Disabled() || f.up.Disabled() || f.down.Disabled() || f.name.Text != "Brisk" {
 		t.Fatalf("selection of the middle treatment: form %q, buttons not all on", f.name.Text)
 	}
-	test.Tap(f.check)
+	f.role.SetSelected(roleLabels[1]) // the check
 	test.Tap(f.apply)
 	test.Tap(f.up)
 	tr = u.doc.t.Treatments
@@ -165,5 +165,33 @@ func TestTreatmentRates(t *testing.T) {
 	tr := u.doc.t.Treatments[len(u.doc.t.Treatments)-1]
 	if tr.Name != "Delta" || tr.Rate == nil || *tr.Rate != 80 || tr.RateUnit != "kg N/ha" || rateText(tr) != "80 kg N/ha" {
 		t.Fatalf("new treatment %+v", tr)
+	}
+}
+
+// The untreated check is a role of its own in the Treatments tab: chosen
+// there it is saved (the efficacy against it follows), and editing such a
+// treatment keeps it (before, the form knew only entry and check, and an
+// edit made an untreated check a plain entry).
+func TestTreatmentUntreatedRole(t *testing.T) {
+	u, _ := newTestApp(t, 0)
+	u.OpenTrial(smallTrial(t), "")
+	u.showStep(stepSetup)
+	s := u.steps[stepSetup].(*setupStep)
+	f := &s.trtForm
+	s.trtList.Select(2) // C
+	f.role.SetSelected(roleLabels[2])
+	test.Tap(f.apply)
+	if got := u.doc.t.Treatments[2].Role; got != trial.RoleUntreated {
+		t.Fatalf("role %q", got)
+	}
+	s.trtList.Select(0)
+	s.trtList.Select(2)
+	if f.role.Selected != roleLabels[2] {
+		t.Fatalf("the form shows %q for the untreated check", f.role.Selected)
+	}
+	f.name.SetText("Charlie untreated")
+	test.Tap(f.apply)
+	if tr := u.doc.t.Treatments[2]; tr.Role != trial.RoleUntreated || tr.Name != "Charlie untreated" {
+		t.Errorf("after editing the name: %+v", tr)
 	}
 }

@@ -512,6 +512,11 @@ func writeTrait(d *doc, t *trial.Trial, tr trial.Trait, results []analysis.Outco
 			return err
 		}
 	}
+	if a.IsFactorial() {
+		if err := writeFactorial(d, a, scaleDec, opts.Method, opts.Charts); err != nil {
+			return err
+		}
+	}
 
 	d.section("Statistics", 20)
 	var st [][2]string

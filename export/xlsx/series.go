@@ -341,15 +341,15 @@ func (r *seriesReport) writeSummary(name string) error {
 			}
 			row++
 		}
-		if res.Check >= 0 {
-			for j := range res.SiteStats {
-				if v, ok := res.Cell(j, res.Check); ok {
-					s.num(3+j, row, v, styleKey{numFmt: DecimalsFormat(dec), italic: true})
-				}
-			}
-			s.text(1, row, "Check mean", styleKey{italic: true})
-			row++
+		// The site means (every entry tested there): how good each site
+		// was, the x of the stability regressions. (The check's own row is
+		// above; it is not repeated.)
+		for j, st := range res.SiteStats {
+			s.num(3+j, row, st.GrandMean, styleKey{numFmt: DecimalsFormat(dec), italic: true})
 		}
+		s.text(1, row, "Site mean", styleKey{italic: true})
+		s.text(2, row, "all entries tested there", styleKey{italic: true})
+		row++
 		if res.LettersWithheld {
 			s.textNoWidth(1, row, "LSD letters withheld: the entries' F test is not significant.", noteStyle)
 			row++

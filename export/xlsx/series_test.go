@@ -2,6 +2,7 @@ package xlsx
 
 import (
 	"bytes"
+	"encoding/csv"
 	"encoding/json"
 	"math"
 	"strconv"
@@ -208,6 +209,34 @@ func TestSeriesWorkbookAgainstR(t *testing.T) {
 		}
 		if got := cellFloat(t, f, SeriesSummarySheet, 6+len(res.SiteStats), row); math.Abs(got-100*res.Means[i].Mean/res.Means[res.Check].Mean) > 1e-9 {
 			t.Errorf("summary %s %% check %v", e.Code, got)
+		}
+	}
+
+	// Under the entries, each site's mean of all its plots (by hand from
+	// the CSV: the site is balanced, so the grand mean of its plots), not
+	// a second copy of the check's row.
+	srow := rowOf(srows, "Site mean", head)
+	if srow == 0 || rowOf(srows, "Check mean", head) != 0 {
+		t.Fatalf("site mean row %d (and a check mean row?)", srow)
+	}
+	raw, err := os.ReadFile("testdata/series-4-sites.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	recs, err := csv.NewReader(bytes.NewReader(raw)).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	siteSum, siteN := map[string]float64{}, map[string]int{}
+	for _, r := range recs[1:] {
+		y, _ := strconv.ParseFloat(r[4], 64)
+		siteSum[r[1]] += y
+		siteN[r[1]]++
+	}
+	for j, st := range res.SiteStats {
+		want := siteSum[st.Site] / float64(siteN[st.Site])
+		if got := cellFloat(t, f, SeriesSummarySheet, 3+j, srow); math.Abs(got-want) > 1e-9 {
+			t.Errorf("site mean of %s: %v, by hand %v", st.Site, got, want)
 		}
 	}
 

@@ -113,7 +113,7 @@ func covariateCompanions(m Model, used []int, cv *Covariance) {
 		cv.Unadjusted = r
 	}
 	onx := plain
-	onx.Response = m.Covariate
+	onx.Response, onx.Origin = m.Covariate, 0
 	if r, err := Fit(onx); err == nil {
 		cv.OnTreatment = r
 	}

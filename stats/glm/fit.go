@@ -3,6 +3,7 @@ package glm
 import (
 	"fmt"
 	"math"
+	"strings"
 
 	"gonum.org/v1/gonum/mat"
 )
@@ -12,7 +13,48 @@ import (
 // estimated marginal means of every effect with their comparisons and
 // letters, the SEDs of every kind of comparison, slices of interactions
 // and the residuals. See the package documentation for the formulas.
-func Fit(m Model) (*Result, error) { return fit(m, false) }
+func Fit(m Model) (*Result, error) {
+	r, err := fit(m, false)
+	if err == nil && m.Origin != 0 {
+		r.addOrigin(m.Origin)
+	}
+	return r, err
+}
+
+// addOrigin puts the origin the caller took away back on every quantity
+// that has the values' scale (Model.Origin). The covariance analysis'
+// companions were fitted by Fit and carry it already.
+func (r *Result) addOrigin(o float64) {
+	r.GrandMean += o
+	shift := func(ms []Mean) {
+		for i := range ms {
+			if ms[i].Estimable {
+				ms[i].Mean += o
+			}
+			if ms[i].N > 0 {
+				ms[i].RawMean += o
+			}
+		}
+	}
+	for i := range r.Effects {
+		shift(r.Effects[i].Means)
+	}
+	for i := range r.Slices {
+		shift(r.Slices[i].Means)
+	}
+	for i := range r.Fitted {
+		r.Fitted[i] += o
+	}
+	for i := range r.Lines {
+		l := &r.Lines[i]
+		if l.Role == RoleError && l.HasSS {
+			l.HasCV, l.CVPercent = false, 0
+			if r.GrandMean > 0 {
+				l.HasCV, l.CVPercent = true, 100*math.Sqrt(l.MS)/r.GrandMean
+			}
+		}
+	}
+}
 
 // fit is Fit; forceREML fits balanced split and strip plots by REML too
 // (for the tests: REML equals the strata analysis there).
@@ -530,7 +572,7 @@ func fitStrata(d *design, mx *matrix, ne *normal, m *Model, trt []term, res *Res
 		c := Component{Name: st.comps[j], Variance: sig[j]}
 		if sig[j] < 0 {
 			c.Variance, c.Truncated = 0, true
-			res.Notes = append(res.Notes, fmt.Sprintf("%s is smaller than the error below it, so the %s variance is estimated as 0", st.names[j], st.comps[j]))
+			res.Notes = append(res.Notes, fmt.Sprintf("the mean square of %s is smaller than that of the error below it, so the %s variance is estimated as 0 (its estimate is negative, a chance result common with few blocks)", errorWords(st.names[j]), componentWords(st.comps[j])))
 		}
 		res.VarianceComponents = append(res.VarianceComponents, c)
 	}
@@ -603,4 +645,19 @@ func stratumResiduals(d *design, smx *matrix, sne *normal, res *Result) {
 		return
 	}
 	fillResiduals(d, smx, f.beta, res)
+}
+
+// errorWords names an error stratum in a sentence: "error (a)" for
+// "error_a".
+func errorWords(name string) string {
+	if rest, ok := strings.CutPrefix(name, "error_"); ok {
+		return "error (" + rest + ")"
+	}
+	return strings.ReplaceAll(name, "_", " ")
+}
+
+// componentWords names a variance component in a sentence: "main-plot" for
+// "main_plot", "horizontal-strip" for "horizontal_strip".
+func componentWords(name string) string {
+	return strings.ReplaceAll(name, "_", "-")
 }

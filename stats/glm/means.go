@@ -207,7 +207,9 @@ func compare(fam *family, idx []int, means []Mean, hasTest bool, pTest, alpha fl
 		return c
 	}
 	if ok, note := meansep.Protect(pTest, alpha); !ok {
-		c.NoteLSD = note
+		// The effect's (or slice's) own F test protects its letters, not
+		// "the treatment F test" of a one-list analysis.
+		c.NoteLSD = strings.Replace(note, "the treatment F test", "its F test", 1)
 		return c
 	}
 	sig := func(i, j int) bool {

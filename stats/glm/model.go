@@ -74,6 +74,15 @@ type Model struct {
 	// AllSlices computes the slices of every interaction, not only of the
 	// significant ones.
 	AllSlices bool
+	// Origin, when not 0, is the common part of the responses that the
+	// caller has already taken away: the values are Origin + Response[i]
+	// (as stats.Model.Origin: a caller holding decimal numbers subtracts
+	// their shared leading digits exactly, so no digit of the differences
+	// is lost to float64 rounding). Means, the grand mean, fitted values and
+	// CV% are reported on the values' own scale, Origin included; sums of
+	// squares, SEs, residuals and variance components do not depend on it.
+	// The covariate is not shifted.
+	Origin float64
 	// Covariate, when not nil, holds a covariate measured on the same
 	// plots (a stand count, a count before treatment, a soil value), one
 	// value per plot; NaN marks a plot without one, which is then left

@@ -593,7 +593,8 @@ func notes(r *Result, d *Data, a *stats.ANOVA) {
 		sort.Strings(parts)
 		w = append(w, fmt.Sprintf("Excluded from the analysis: %s.", strings.Join(parts, ", ")))
 	}
-	if a.Adjusted && r.Covariate == nil {
+	// A factorial's model says it in its own words (type II, glm's notes).
+	if a.Adjusted && r.Covariate == nil && !r.IsFactorial() {
 		w = append(w, "Some plots are missing, so each sum of squares is adjusted for the other terms of the model and the lines no longer add up to the total; means are least-squares means.")
 	}
 	if r.Transform != stats.NoTransform {

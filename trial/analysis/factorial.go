@@ -327,6 +327,14 @@ func analyzeFactorial(d *Data, o Options, r *Result) (*Result, error) {
 	}
 	r.Offset = offset
 	m := glm.Model{Response: ty, Structure: structure, Alpha: o.Alpha, LowerIsBetter: !d.HigherBetter, Covariate: x}
+	if o.Transform == stats.NoTransform {
+		// Values that share many leading digits are analysed as exact
+		// decimal differences from one of them (trial.SharedDigits), as a
+		// one-way layout's are.
+		if origin, rest, ok := trial.SharedDigits(ty); ok {
+			m.Response, m.Origin = rest, origin
+		}
+	}
 	for f, fd := range d.Factors {
 		m.Factors = append(m.Factors, glm.Factor{Name: fd.Key, Levels: fd.Levels, Index: lv[f]})
 	}
@@ -480,7 +488,7 @@ func analyzeFactorial(d *Data, o Options, r *Result) (*Result, error) {
 			return fail(err.Error(), err)
 		}
 	}
-	r.ANOVA = factorialANOVA(g, r, ty)
+	r.ANOVA = factorialANOVA(g, r, m.Response, m.Origin)
 	if d.PercentOfCheck {
 		percentOfCheck(r)
 	}
@@ -653,7 +661,9 @@ func sedStats(c *glm.Comparison, k int, sed, df **float64, rng **Range, lsd, hsd
 // the views that read one: the lines with their roles (no sums of squares
 // for REML), the grand mean, the error of the lowest stratum, the
 // residuals within it and the combination means.
-func factorialANOVA(g *glm.Result, r *Result, ty []float64) *stats.ANOVA {
+// y are the responses as fitted (less origin, the part taken away exactly:
+// glm.Model.Origin).
+func factorialANOVA(g *glm.Result, r *Result, y []float64, origin float64) *stats.ANOVA {
 	a := &stats.ANOVA{N: g.N, GrandMean: g.GrandMean, DFError: g.ResidualDF, Balanced: g.Balanced,
 		Adjusted: g.Method == glm.SumsOfSquares && (!g.Balanced || g.Covariate != nil), Fitted: g.Fitted, Residuals: g.Residuals}
 	for _, l := range r.Factorial.Lines {
@@ -689,7 +699,7 @@ func factorialANOVA(g *glm.Result, r *Result, ty []float64) *stats.ANOVA {
 	var sse, sst float64
 	for i, e := range g.Residuals {
 		sse += e * e
-		dv := ty[g.Obs[i]] - g.GrandMean
+		dv := y[g.Obs[i]] - (g.GrandMean - origin)
 		sst += dv * dv
 	}
 	if sst > 0 {

@@ -1,10 +1,7 @@
 package cli
 
 import (
-	"fmt"
-	"strconv"
 	"strings"
-	"time"
 
 	"furlong/trial"
 )
@@ -43,68 +40,20 @@ func (f *assessFlags) Set(s string) error {
 	return nil
 }
 
-// parseAssess reads one --assess value into the assessment traits of the
-// series and its two AUDPC traits.
+// parseAssess reads one --assess value, KEY[:UNIT]=WHEN,WHEN,..., into
+// the assessment traits of the series and its two AUDPC traits
+// (trial.AssessmentSeries, the rule the window uses too).
 func parseAssess(s string) ([]trial.Trait, error) {
 	head, whens, ok := strings.Cut(s, "=")
 	if !ok {
 		return nil, usagef("new: --assess needs KEY=WHEN,WHEN,..., for example \"sev:%%=2026-06-01,2026-06-15\"; got %q", s)
 	}
 	key, unit, _ := strings.Cut(head, ":")
-	key, unit = strings.TrimSpace(key), strings.TrimSpace(unit)
-	if err := trial.CheckTraitKey(key); err != nil {
+	ts, err := trial.AssessmentSeries(strings.TrimSpace(key), strings.TrimSpace(unit), whens)
+	if err != nil {
 		return nil, usagef("new: --assess: %v", err)
 	}
-	kind := trial.Continuous
-	if unit == "%" {
-		kind = trial.Percent
-	}
-	var out []trial.Trait
-	for i, w := range strings.Split(whens, ",") {
-		w = strings.TrimSpace(w)
-		if w == "" {
-			continue
-		}
-		tr := trial.Trait{
-			Key: fmt.Sprintf("%s_%d", key, len(out)+1), Unit: unit, Kind: kind, Decimals: 1,
-			Assessment: &trial.Assessment{Series: key},
-		}
-		if kind == trial.Percent {
-			lo, hi := 0.0, 100.0
-			tr.Min, tr.Max = &lo, &hi
-		}
-		var label []string
-		for _, part := range strings.Split(w, "/") {
-			part = strings.TrimSpace(part)
-			up := strings.ToUpper(part)
-			switch {
-			case strings.HasSuffix(up, "DAT") || strings.HasSuffix(up, "DAS"):
-				n, err := strconv.Atoi(strings.TrimSpace(up[:len(up)-3]))
-				if err != nil || n < 0 {
-					return nil, usagef("new: --assess %s: %q is not a day count such as 7DAT or 35DAS", key, part)
-				}
-				tr.Assessment.Days, tr.Assessment.From = n, trial.DaysAfterTreatment
-				if strings.HasSuffix(up, "DAS") {
-					tr.Assessment.From = trial.DaysAfterSowing
-				}
-				label = append(label, fmt.Sprintf("%d %s", n, tr.Assessment.From.Abbrev()))
-			default:
-				d, err := time.Parse("2006-01-02", part)
-				if err != nil {
-					return nil, usagef("new: --assess %s: assessment %d, %q, is neither a date (2026-06-01) nor a day count (7DAT, 35DAS)", key, i+1, part)
-				}
-				tr.Assessed = d
-				label = append(label, part)
-			}
-		}
-		tr.Name = key + ", " + strings.Join(label, ", ")
-		out = append(out, tr)
-	}
-	if len(out) < 2 {
-		return nil, usagef("new: --assess %s needs at least two assessments to follow over time", key)
-	}
-	out = append(out, trial.AUDPCTrait(key+"_audpc", key, unit, false), trial.AUDPCTrait(key+"_saudpc", key, unit, true))
-	return out, nil
+	return ts, nil
 }
 
 // applyCropProtection applies --untreated, --assess and --pre-count to the

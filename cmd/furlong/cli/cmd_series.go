@@ -31,6 +31,7 @@ type seriesOptions struct {
 	out       string
 	save      string
 	versus    stringList // "A,B": entry A head to head with entry B
+	formatSet bool       // --format was given
 	site      string     // CSV: the site column
 	block     string     // CSV: the block column ("" = site means)
 	treatment string     // CSV: the treatment column
@@ -74,7 +75,7 @@ it); a series file given as the argument brings back its trials and options.`,
 			fs.StringVar(&o.method, "method", "lsd", "letters by lsd or tukey")
 			fs.Float64Var(&o.alpha, "alpha", 0.05, "significance level")
 			fs.StringVar(&o.format, "format", "text", "output format: text, json or csv")
-			fs.StringVar(&o.out, "o", "", "also write the series workbook to this `file` (.xlsx)")
+			fs.StringVar(&o.out, "o", "", "write the series workbook to this `file` (.xlsx); with --format the analysis is printed too")
 			fs.StringVar(&o.save, "save", "", "write a series `file` (.furlong-series) listing the trials and options")
 			fs.Var(&o.versus, "versus", "also compare two entries head to head: \"A,B\" (repeatable)")
 			fs.StringVar(&o.site, "site", "", "CSV: the site `column`")
@@ -83,6 +84,7 @@ it); a series file given as the argument brings back its trials and options.`,
 			fs.Var(&o.responses, "response", "CSV: a response `column` to analyse (repeatable; default: every numeric column)")
 			return fs, func(ctx context.Context, args []string) error {
 				o.paths = args
+				fs.Visit(func(f *flag.Flag) { o.formatSet = o.formatSet || f.Name == "format" })
 				return runSeries(ctx, o)
 			}
 		},
@@ -191,6 +193,12 @@ func runSeries(ctx context.Context, o seriesOptions) error {
 	if o.out != "" {
 		if err := writeSeriesXLSX(o, in.name, results); err != nil {
 			return err
+		}
+		if !o.formatSet {
+			// The workbook is what was asked for; --format prints the
+			// analysis as well.
+			fmt.Fprintf(o.env.Stdout, "wrote the series workbook for %d %s to %s\n", len(results), map[bool]string{true: "trait", false: "traits"}[len(results) == 1], o.out)
+			return nil
 		}
 	}
 	w := o.env.Stdout

@@ -532,3 +532,25 @@ func TestSeriesVersus(t *testing.T) {
 		}
 	}
 }
+
+// With -o the workbook is what was asked for: one line says where it went;
+// --format prints the analysis as well (common practice for commands that
+// write a file).
+func TestSeriesWorkbookOnly(t *testing.T) {
+	t.Parallel()
+	path := filepath.Join(seriesTestdata, "series-4-sites.csv")
+	out := filepath.Join(t.TempDir(), "s.xlsx")
+	args := []string{path, "--site", "site", "--block", "block", "--treatment", "entry", "--response", "yield", "--check", "V1", "-o", out}
+	stdout, errs, code := runSeriesCmd(t, args...)
+	if code != ExitOK || strings.TrimSpace(stdout) != "wrote the series workbook for 1 trait to "+out {
+		t.Fatalf("exit %d, stdout %q, stderr %q", code, stdout, errs)
+	}
+	if _, err := os.Stat(out); err != nil {
+		t.Fatal(err)
+	}
+	args[len(args)-1] = filepath.Join(t.TempDir(), "t.xlsx")
+	stdout, _, code = runSeriesCmd(t, append(args, "--format", "text")...)
+	if code != ExitOK || !strings.Contains(stdout, "Head to head") {
+		t.Errorf("with --format text: exit %d, %q", code, stdout)
+	}
+}
