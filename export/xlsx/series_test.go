@@ -219,7 +219,7 @@ func TestSeriesWorkbookAgainstR(t *testing.T) {
 	if srow == 0 || rowOf(srows, "Check mean", head) != 0 {
 		t.Fatalf("site mean row %d (and a check mean row?)", srow)
 	}
-	raw, err := os.ReadFile("testdata/series-4-sites.csv")
+	raw, err := refdata.ReadFile("series-4-sites.csv")
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -19,7 +19,7 @@ import (
 	"testing"
 )
 
-//go:embed *.csv *.json *.furlong nist-strd-anova
+//go:embed *.csv *.json *.furlong nist-strd-anova ancova/*.csv ancova/*.json
 var files embed.FS
 
 // Names returns the names of the embedded files in sorted order, those in

@@ -3,13 +3,14 @@ package cli
 import (
 	"encoding/json"
 	"math"
-	"os"
 	"testing"
+
+	"furlong/stats/refdata"
 )
 
-// ancovaDir holds analysis-of-covariance references computed with R 4.2.2,
-// car and emmeans (stats/testdata/ancova/README.md, the R script beside it).
-const ancovaDir = "../../../stats/testdata/ancova/"
+// The analysis-of-covariance references computed with R 4.2.2, car and
+// emmeans are in stats/refdata/ancova (its README, the R script beside the
+// data).
 
 type rAnova struct {
 	Source string   `json:"source"`
@@ -40,17 +41,11 @@ type rCov struct {
 
 func ancovaRef(t *testing.T) (fiber, wb rCov) {
 	t.Helper()
-	b, err := os.ReadFile(ancovaDir + "ancova.expected.json")
-	if err != nil {
-		t.Fatal(err)
-	}
 	var doc struct {
 		Fiber      rCov `json:"fiber"`
 		Warpbreaks rCov `json:"warpbreaks"`
 	}
-	if err := json.Unmarshal(b, &doc); err != nil {
-		t.Fatal(err)
-	}
+	refdata.JSON(t, "ancova/ancova.expected.json", &doc)
 	return doc.Fiber, doc.Warpbreaks
 }
 
@@ -123,12 +118,12 @@ func checkAncova(t *testing.T, label string, out ancovaOut, ref rCov, names map[
 // fibre data (one list of treatments, CRD) and on warp breaks in blocks
 // with a covariate (2 × 3 factorial, plots missing) gives R's type II
 // lines, slope, test of equal slopes and adjusted (estimated marginal)
-// means with their SEs (stats/testdata/ancova: R 4.2.2, car, emmeans).
+// means with their SEs (stats/refdata/ancova: R 4.2.2, car, emmeans).
 func TestAnalyzeCovariateAgainstR(t *testing.T) {
 	t.Parallel()
 	fiber, wb := ancovaRef(t)
 
-	code, stdout, stderr := run(t, "analyze", ancovaDir+"fiber-emmeans.csv", "--treatment", "machine", "--covariate", "diameter", "--response", "strength", "--format", "json")
+	code, stdout, stderr := run(t, "analyze", refdata.File(t, "ancova/fiber-emmeans.csv"), "--treatment", "machine", "--covariate", "diameter", "--response", "strength", "--format", "json")
 	if code != ExitOK {
 		t.Fatalf("fiber: exit %d: %s", code, stderr)
 	}
@@ -144,7 +139,7 @@ func TestAnalyzeCovariateAgainstR(t *testing.T) {
 		}
 	}
 
-	code, stdout, stderr = run(t, "analyze", ancovaDir+"warpbreaks-covariate.csv", "--factor", "wool", "--factor", "tension", "--block", "rep",
+	code, stdout, stderr = run(t, "analyze", refdata.File(t, "ancova/warpbreaks-covariate.csv"), "--factor", "wool", "--factor", "tension", "--block", "rep",
 		"--covariate", "x", "--response", "breaks", "--format", "json")
 	if code != ExitOK {
 		t.Fatalf("warp breaks: exit %d: %s", code, stderr)

@@ -9,10 +9,12 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"furlong/stats/refdata"
 )
 
 // TestFactorialExactDecimals: warp breaks (R datasets::warpbreaks, R 4.2.2
-// lm + car::Anova type II in testdata/round2) shifted to 1000000000000 +
+// lm + car::Anova type II in stats/refdata) shifted to 1000000000000 +
 // breaks/10, written as decimal text ("1000000000002.6"), as a factorial
 // CSV: the decimal offset is taken away exactly before the fit (as for one
 // list of treatments, NIST StRD's lesson), so every sum of squares is R's
@@ -21,7 +23,7 @@ import (
 // differences.
 func TestFactorialExactDecimals(t *testing.T) {
 	t.Parallel()
-	f, err := os.Open("testdata/round2/warpbreaks-factorial.csv")
+	f, err := refdata.Open("warpbreaks-factorial.csv")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -44,7 +46,7 @@ func TestFactorialExactDecimals(t *testing.T) {
 	if err := os.WriteFile(path, []byte(b.String()), 0o644); err != nil {
 		t.Fatal(err)
 	}
-	raw, err := os.ReadFile("testdata/round2/warpbreaks-factorial.expected.json")
+	raw, err := refdata.ReadFile("warpbreaks-factorial.expected.json")
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -538,7 +538,7 @@ func TestSeriesVersus(t *testing.T) {
 // write a file).
 func TestSeriesWorkbookOnly(t *testing.T) {
 	t.Parallel()
-	path := filepath.Join(seriesTestdata, "series-4-sites.csv")
+	path := refdata.File(t, "series-4-sites.csv")
 	out := filepath.Join(t.TempDir(), "s.xlsx")
 	args := []string{path, "--site", "site", "--block", "block", "--treatment", "entry", "--response", "yield", "--check", "V1", "-o", out}
 	stdout, errs, code := runSeriesCmd(t, args...)
