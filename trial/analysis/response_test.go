@@ -190,3 +190,37 @@ func TestRatesOf(t *testing.T) {
 		t.Errorf("mixed units: %v", err)
 	}
 }
+
+// TestOatsFixture: the oats split-plot trial file (stats/refdata) holds
+// Yates's yields of oats-split.csv, plot by plot (block, variety, nitrogen).
+func TestOatsFixture(t *testing.T) {
+	t.Parallel()
+	recs := refdata.CSV(t, "oats-split.csv")
+	code := map[string]string{"Victory": "Vic", "Golden.rain": "GRain", "Marvellous": "Marv"}
+	blocks := map[string]int{}
+	want := map[[3]string]float64{}
+	for _, r := range recs[1:] {
+		if _, ok := blocks[r[1]]; !ok {
+			blocks[r[1]] = len(blocks) + 1
+		}
+		y, _ := strconv.ParseFloat(r[4], 64)
+		want[[3]string{strconv.Itoa(blocks[r[1]]), code[r[2]], r[3]}] = y
+	}
+	tr, err := trialfile.Load(refdata.File(t, "oats-split.furlong"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	vals, err := tr.TraitValues("yield")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(tr.Plots) != len(want) || tr.Design.Kind != trial.SplitPlot {
+		t.Fatalf("%d plots (%s), the CSV has %d", len(tr.Plots), tr.Design.Kind, len(want))
+	}
+	for i, p := range tr.Plots {
+		k := [3]string{strconv.Itoa(p.Block), tr.LevelCode(p.Treatment, 0), tr.LevelCode(p.Treatment, 1)}
+		if w, ok := want[k]; !ok || vals[i] != w {
+			t.Errorf("plot %d %v: %v, CSV %v", p.Number, k, vals[i], w)
+		}
+	}
+}
