@@ -25,7 +25,7 @@ func TestReportFactorialPage(t *testing.T) {
 		t.Fatal(err)
 	}
 	var ref struct {
-		SED   map[string]float64 `json:"sed"`
+		SED     map[string]float64 `json:"sed"`
 		Effects map[string][]struct {
 			Levels map[string]string `json:"levels"`
 			Mean   float64           `json:"mean"`
