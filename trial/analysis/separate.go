@@ -23,10 +23,16 @@ func separate(r *Result, a *stats.ANOVA, lsm []float64, o Options) (float64, err
 	// Tukey's letters are built on a second goroutine while the pairs are
 	// copied and the LSD letters built (independent work on cmp, which
 	// both only read).
-	var tk meansep.Lettering
-	var tkErr error
+	var tk, lsdL meansep.Lettering
+	var tkErr, lsdErr error
 	var wk trial.Workers
 	wk.Go(func() { tk, tkErr = cmp.TukeyLetters(lo) })
+	// The LSD letters need only the comparisons and the F test: they are
+	// built beside the copy of the pairs too (for 1,000 entries the three
+	// take about the same time, and the copy of 499,500 pairs is not
+	// shorter than either lettering).
+	trtLine, _ := a.Treatment()
+	wk.Go(func() { lsdL, lsdErr = cmp.LSDLetters(trtLine.P, o.Unprotected, lo) })
 	defer wk.Wait()
 	r.Pairs = make([]Pair, len(cmp.Pairs))
 	var lsd, hsd Range
@@ -50,12 +56,10 @@ func separate(r *Result, a *stats.ANOVA, lsm []float64, o Options) (float64, err
 	if len(r.Pairs) > 0 && finite(lsd.Min) && finite(lsd.Max) && finite(hsd.Min) && finite(hsd.Max) {
 		r.LSDRange, r.HSDRange = &lsd, &hsd
 	}
-	trtLine, _ := a.Treatment()
-	lsdL, err := cmp.LSDLetters(trtLine.P, o.Unprotected, lo)
-	if err != nil {
-		return 0, err
-	}
 	wk.Wait()
+	if lsdErr != nil {
+		return 0, lsdErr
+	}
 	if tkErr != nil {
 		return 0, tkErr
 	}
