@@ -50,7 +50,7 @@ func ResponseTables(r *analysis.Response, dec int) (trends, models, sensitivity 
 		trends.Head = []string{"Trend", "df", "SS", "MS", "F", "P"}
 		for _, l := range r.Trends {
 			trends.Rows = append(trends.Rows, []string{strings.ReplaceAll(l.Source, "_", " "), strconv.Itoa(l.DF),
-				sig5(l.SS), sig5(l.MS), fixedText(l.F, 2), stats.FormatP(l.P)})
+				sig5(l.SS), sig5(l.MS), Fixed(l.F, 2), stats.FormatP(l.P)})
 		}
 	}
 	if len(r.Models) > 0 {
@@ -67,15 +67,15 @@ func ResponseTables(r *analysis.Response, dec int) (trends, models, sensitivity 
 			if len(m.Coef) > 2 {
 				c = sig5(m.Coef[2])
 			}
-			row := []string{name, sig5(m.Coef[0]), sig5(m.Coef[1]), c, fixedText(m.RSquared, 4), optText(m.RMSE, dec+1),
-				fixedText(m.AIC, 2), optText(m.Join, 1), optText(m.Plateau, dec), optText(m.Optimum, 1)}
+			row := []string{name, sig5(m.Coef[0]), sig5(m.Coef[1]), c, Fixed(m.RSquared, 4), OptFixed(m.RMSE, dec+1),
+				Fixed(m.AIC, 2), OptFixed(m.Join, 1), OptFixed(m.Plateau, dec), OptFixed(m.Optimum, 1)}
 			if r.PriceRatio > 0 {
-				econ := optText(m.Econ, 1)
+				econ := OptFixed(m.Econ, 1)
 				if m.AtEdge {
 					econ += "*"
 					models.Foot = EdgeNote
 				}
-				row = append(row, econ, optText(m.EconYield, dec))
+				row = append(row, econ, OptFixed(m.EconYield, dec))
 			}
 			models.Rows = append(models.Rows, row)
 		}
@@ -90,7 +90,7 @@ func ResponseTables(r *analysis.Response, dec int) (trends, models, sensitivity 
 				sensitivity.Rows = append(sensitivity.Rows, []string{s.Model})
 			}
 			last := &sensitivity.Rows[len(sensitivity.Rows)-1]
-			*last = append(*last, fixedText(s.Rate, 1))
+			*last = append(*last, Fixed(s.Rate, 1))
 		}
 	}
 	return trends, models, sensitivity
@@ -113,18 +113,26 @@ func ResponseNote(r *analysis.Response, dfError int) string {
 
 func sig5(v float64) string { return strconv.FormatFloat(v, 'g', 5, 64) }
 
-func fixedText(v float64, dec int) string {
+// Fixed formats v with dec decimals for a table, a dash when it is not a
+// number; a negative value that rounds to zero is shown as 0. The window's
+// tables and the shared text tables here use it.
+func Fixed(v float64, dec int) string {
 	if math.IsNaN(v) || math.IsInf(v, 0) {
 		return "–"
 	}
-	return strconv.FormatFloat(v, 'f', dec, 64)
+	s := strconv.FormatFloat(v, 'f', max(dec, 0), 64)
+	if strings.HasPrefix(s, "-") && strings.Trim(s, "-0.") == "" {
+		return s[1:]
+	}
+	return s
 }
 
-func optText(v *float64, dec int) string {
+// OptFixed is Fixed for an optional value, a dash when there is none.
+func OptFixed(v *float64, dec int) string {
 	if v == nil {
 		return "–"
 	}
-	return fixedText(*v, dec)
+	return Fixed(*v, dec)
 }
 
 // MarginsFor is the margins over input cost of r's trait as the season
@@ -149,8 +157,8 @@ func MarginsTable(m *analysis.Margins, dec int) TextTable {
 	}
 	tt := TextTable{Head: []string{"Treatment", "Mean", "Gross return" + cur, "Product", "Application", "Margin" + cur, "SE", "Letters", "Cost"}}
 	for _, r := range m.Rows {
-		tt.Rows = append(tt.Rows, []string{r.Treatment, fixedText(r.Mean, dec), fixedText(r.Gross, 2), fixedText(r.Product, 2),
-			fixedText(r.Application, 2), fixedText(r.Margin, 2), fixedText(r.MarginSE, 2), r.Letters, r.CostFrom})
+		tt.Rows = append(tt.Rows, []string{r.Treatment, Fixed(r.Mean, dec), Fixed(r.Gross, 2), Fixed(r.Product, 2),
+			Fixed(r.Application, 2), Fixed(r.Margin, 2), Fixed(r.MarginSE, 2), r.Letters, r.CostFrom})
 	}
 	return tt
 }
@@ -167,7 +175,7 @@ func MarginsNote(m *analysis.Margins) string {
 		per = a
 	}
 	s := fmt.Sprintf("Gross return = %s × the mean at %s %s per %s; margin = gross return − product cost − application cost, per unit area. The margin's SE is the price times the mean's SE (the costs are fixed amounts); F test of equal margins: F = %s on %d and %d df, p %s.",
-		m.TraitName, strconv.FormatFloat(m.Price, 'g', -1, 64), cur, per, fixedText(m.F, 2), m.DF1, m.DF, stats.FormatP(m.P))
+		m.TraitName, strconv.FormatFloat(m.Price, 'g', -1, 64), cur, per, Fixed(m.F, 2), m.DF1, m.DF, stats.FormatP(m.P))
 	if m.InputPrice > 0 {
 		s += fmt.Sprintf(" Rate treatments without a product cost are costed at %s %s per %s of input (the price ratio %s × the produce price).",
 			strconv.FormatFloat(m.InputPrice, 'g', 4, 64), cur, rateUnitOf(m.RateUnit), strconv.FormatFloat(m.PriceRatio, 'g', -1, 64))

@@ -107,14 +107,7 @@ func (v *contrastsView) tab() *container.TabItem { return v.item }
 
 // say shows what the last add or remove did; the line takes no room while
 // there is nothing to say.
-func (v *contrastsView) say(s string) {
-	v.message.SetText(s)
-	if s == "" {
-		v.message.Hide()
-	} else {
-		v.message.Show()
-	}
-}
+func (v *contrastsView) say(s string) { sayIn(v.message, s) }
 
 // saved is the open trial's contrasts.
 func (v *contrastsView) saved() []trial.Contrast {

@@ -91,14 +91,7 @@ func (v *marginsView) trial() *trial.Trial {
 	return v.c.u.doc.t
 }
 
-func (v *marginsView) say(s string) {
-	v.msg.SetText(s)
-	if s == "" {
-		v.msg.Hide()
-	} else {
-		v.msg.Show()
-	}
-}
+func (v *marginsView) say(s string) { sayIn(v.msg, s) }
 
 // yieldChoice is the trait select's entry for "the yield trait".
 const yieldChoice = "the yield trait"

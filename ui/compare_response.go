@@ -98,14 +98,7 @@ func (v *responseView) trial() *trial.Trial {
 }
 
 // say shows what the last change did; no room taken when empty.
-func (v *responseView) say(s string) {
-	v.msg.SetText(s)
-	if s == "" {
-		v.msg.Hide()
-	} else {
-		v.msg.Show()
-	}
-}
+func (v *responseView) say(s string) { sayIn(v.msg, s) }
 
 // syncSettings fills the controls from the trial's saved settings.
 func (v *responseView) syncSettings() {

@@ -224,3 +224,14 @@ func (t *textTable) width() float32 {
 	}
 	return w + theme.ScrollBarSize()
 }
+
+// sayIn shows s in l, a line under a view's controls that says what the
+// last change did; the line takes no room while there is nothing to say.
+func sayIn(l *widget.Label, s string) {
+	l.SetText(s)
+	if s == "" {
+		l.Hide()
+	} else {
+		l.Show()
+	}
+}

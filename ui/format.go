@@ -3,7 +3,8 @@ package ui
 import (
 	"math"
 	"strconv"
-	"strings"
+
+	"furlong/export"
 )
 
 // num formats a statistic with sig significant digits; NaN and infinities
@@ -26,22 +27,8 @@ func num(v float64, sig int) string {
 	return strconv.FormatFloat(v, 'f', d, 64)
 }
 
-// fixed formats v with dec decimals, or a dash.
-func fixed(v float64, dec int) string {
-	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return "–"
-	}
-	s := strconv.FormatFloat(v, 'f', max(dec, 0), 64)
-	if strings.HasPrefix(s, "-") && strings.Trim(s, "-0.") == "" {
-		return s[1:] // a negative value that rounds to zero is shown as 0
-	}
-	return s
-}
+// fixed formats v with dec decimals, or a dash (export.Fixed).
+func fixed(v float64, dec int) string { return export.Fixed(v, dec) }
 
-// optNum formats an optional statistic.
-func optNum(p *float64, dec int) string {
-	if p == nil {
-		return "–"
-	}
-	return fixed(*p, dec)
-}
+// optNum formats an optional statistic (export.OptFixed).
+func optNum(p *float64, dec int) string { return export.OptFixed(p, dec) }

@@ -15,6 +15,7 @@ import (
 	"fyne.io/fyne/v2/widget"
 	"github.com/xuri/excelize/v2"
 
+	"furlong/export"
 	"furlong/export/xlsx"
 	"furlong/sampledata"
 	stseries "furlong/stats/series"
@@ -202,7 +203,7 @@ func TestSeriesOpenFillsTables(t *testing.T) {
 	}
 	for k, src := range want.ANOVA {
 		row := v.w.anova.rows[k]
-		if row[0] != seriesSourceName(src.Name) || row[1] != strconv.Itoa(src.DF) || row[2] != num(src.SS, 5) {
+		if row[0] != export.SeriesSourceLabel(src.Name) || row[1] != strconv.Itoa(src.DF) || row[2] != num(src.SS, 5) {
 			t.Errorf("ANOVA line %d: %q, want %s df %d SS %s", k, row, src.Name, src.DF, num(src.SS, 5))
 		}
 		if src.HasTest && row[4] != fixed(src.F, 2) {

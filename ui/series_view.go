@@ -644,25 +644,6 @@ func seriesLettersText(r *series.Result) string {
 	return "Means across sites with a letter in common do not differ at the " + level + " level (" + how + ")."
 }
 
-// seriesSourceName names a line of the series ANOVA.
-func seriesSourceName(s string) string {
-	switch s {
-	case stseries.SourceSite:
-		return "Sites"
-	case stseries.SourceBlockWithinSite:
-		return "Blocks within sites"
-	case stseries.SourceEntry:
-		return "Entries"
-	case stseries.SourceEntryBySite:
-		return "Entries × sites"
-	case stseries.SourceError:
-		return "Pooled error"
-	case stseries.SourceTotal:
-		return "Total"
-	}
-	return s
-}
-
 // showCombined fills the combined analysis tab.
 func (v *seriesView) showCombined() {
 	r := v.res
@@ -697,7 +678,7 @@ func (v *seriesView) showCombined() {
 		if s.HasTest {
 			f, p = fixed(s.F, 2), stats.FormatP(s.P)
 		}
-		rows = append(rows, []string{seriesSourceName(s.Name), strconv.Itoa(s.DF), num(s.SS, 5), ms, f, p})
+		rows = append(rows, []string{export.SeriesSourceLabel(s.Name), strconv.Itoa(s.DF), num(s.SS, 5), ms, f, p})
 	}
 	v.w.anova.set([]string{"Source", "df", "SS", "MS", "F", "P"}, rows)
 	el := fmt.Sprintf("Means across sites are compared on %d error df (mean square %s).", r.DFError, num(r.MSError, 5))

@@ -226,11 +226,4 @@ func (c *setOperations) kind() change        { return changeDetails }
 func (c *setOperations) label() string       { return c.what }
 
 // say shows what the last add or remove did (no room taken when empty).
-func (l *logTab) say(s string) {
-	l.message.SetText(s)
-	if s == "" {
-		l.message.Hide()
-	} else {
-		l.message.Show()
-	}
-}
+func (l *logTab) say(s string) { sayIn(l.message, s) }

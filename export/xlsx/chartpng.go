@@ -6,6 +6,8 @@ import (
 	"fmt"
 	"runtime"
 
+	"github.com/xuri/excelize/v2"
+	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
 
 	"furlong/export"
@@ -30,15 +32,49 @@ func meansChartPNG(t *trial.Trial, a *analysis.Result, opts ReportOptions) ([]by
 	if err != nil {
 		return nil, fmt.Errorf("the chart of the means of %s could not be drawn: %w", a.TraitName, err)
 	}
-	w := chartWidthPt
-	if n := len(a.Means); n > 30 {
-		w = min(w+float64(n-30)*chartPerMean, chartMaxWidth)
+	return plotPNG(p, widthFor(len(a.Means)))
+}
+
+// widthFor is the width of a chart of n treatments, in points: wider from
+// 30 treatments on, up to chartMaxWidth.
+func widthFor(n int) float64 {
+	if n > 30 {
+		return min(chartWidthPt+float64(n-30)*chartPerMean, chartMaxWidth)
 	}
+	return chartWidthPt
+}
+
+// plotPNG draws p as a PNG image w points wide and chartHeightPt high.
+func plotPNG(p *plot.Plot, w float64) ([]byte, error) {
 	var buf bytes.Buffer
 	if err := chart.Save(p, &buf, "png", vg.Length(w), vg.Length(chartHeightPt)); err != nil {
 		return nil, err
 	}
 	return buf.Bytes(), nil
+}
+
+// chartBelow draws a chart (draw) w points wide and puts it in column A at
+// row once the sheet's columns are fitted (sheet.later), with alt as its
+// alternative text; it returns the next free row. A chart that cannot be
+// drawn leaves a note naming what instead.
+func (s *sheet) chartBelow(f *excelize.File, row int, what, alt string, w float64, draw func() (*plot.Plot, error)) int {
+	p, err := draw()
+	var png []byte
+	if err == nil {
+		png, err = plotPNG(p, w)
+	}
+	if err != nil {
+		s.textNoWidth(1, row, "The "+what+" could not be drawn: "+err.Error(), noteStyle)
+		return row + 2
+	}
+	s.later = append(s.later, func() {
+		yes := true
+		s.fail(f.AddPictureFromBytes(s.name, cellName(1, row), &excelize.Picture{
+			Extension: ".png", File: png,
+			Format: &excelize.GraphicOptions{AltText: alt, PrintObject: &yes, LockAspectRatio: true},
+		}))
+	})
+	return row + vsCheckChartRows
 }
 
 // chartPNG is a drawn chart, or why it could not be drawn.

@@ -416,7 +416,7 @@ func (r *seriesReport) writeTrait(name string, i int) error {
 	row++
 	heads("Source", "df", "Sum of squares", "Mean square", "F", "p")
 	for _, l := range res.ANOVA {
-		s.text(1, row, seriesSourceLabel(l.Name), proseStyle)
+		s.text(1, row, export.SeriesSourceLabel(l.Name), proseStyle)
 		s.integer(2, row, l.DF, styleKey{})
 		s.num(3, row, l.SS, numStyle(4))
 		if l.Name != stseries.SourceTotal {
@@ -620,23 +620,4 @@ func pngRows(png []byte) int {
 	}
 	h := int(png[20])<<24 | int(png[21])<<16 | int(png[22])<<8 | int(png[23])
 	return h/20 + 1
-}
-
-// seriesSourceLabel names an ANOVA line of a series in words.
-func seriesSourceLabel(src string) string {
-	switch src {
-	case stseries.SourceSite:
-		return "Sites"
-	case stseries.SourceBlockWithinSite:
-		return "Blocks within sites"
-	case stseries.SourceEntry:
-		return "Entries"
-	case stseries.SourceEntryBySite:
-		return "Entries × sites"
-	case stseries.SourceError:
-		return "Pooled error"
-	case stseries.SourceTotal:
-		return "Total"
-	}
-	return src
 }

@@ -122,8 +122,8 @@ func TestSeriesWorkbookAgainstR(t *testing.T) {
 	}
 	for k, l := range ref.Combined {
 		row := at + 1 + k
-		if got := rows[row-1][0]; got != seriesSourceLabel(l.Source) {
-			t.Errorf("ANOVA line %d is %q, want %q", k, got, seriesSourceLabel(l.Source))
+		if got := rows[row-1][0]; got != export.SeriesSourceLabel(l.Source) {
+			t.Errorf("ANOVA line %d is %q, want %q", k, got, export.SeriesSourceLabel(l.Source))
 		}
 		if got := cellFloat(t, f, trait, 2, row); int(got) != l.DF {
 			t.Errorf("%s df %g, R %d", l.Source, got, l.DF)

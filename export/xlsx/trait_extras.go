@@ -1,12 +1,11 @@
 package xlsx
 
 import (
-	"bytes"
 	"fmt"
 	"strconv"
 
 	"github.com/xuri/excelize/v2"
-	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot"
 
 	"furlong/export"
 	"furlong/export/chart"
@@ -81,20 +80,8 @@ func (s *sheet) writeVsCheck(f *excelize.File, t *trial.Trial, a *analysis.Resul
 	if !charts || s.err != nil {
 		return row
 	}
-	png, err := vsCheckChartPNG(t, a)
-	if err != nil {
-		s.textNoWidth(1, row, "The chart against the check could not be drawn: "+err.Error(), noteStyle)
-		return row + 2
-	}
-	at := row
-	s.later = append(s.later, func() {
-		yes := true
-		s.fail(f.AddPictureFromBytes(s.name, cellName(1, at), &excelize.Picture{
-			Extension: ".png", File: png,
-			Format: &excelize.GraphicOptions{AltText: "Chart of each entry against the check " + vc.Check + " for " + a.TraitName, PrintObject: &yes, LockAspectRatio: true},
-		}))
-	})
-	return row + vsCheckChartRows
+	return s.chartBelow(f, row, "chart against the check", "Chart of each entry against the check "+vc.Check+" for "+a.TraitName,
+		widthFor(len(vc.Rows)), func() (*plot.Plot, error) { return chart.VsCheck(t, a, vc) })
 }
 
 // vsCheckMethodNote says how the multivariate t probabilities were worked
@@ -107,23 +94,6 @@ func vsCheckMethodNote(vc *analysis.CheckComparison) string {
 		return "probabilities to within " + strconv.FormatFloat(vc.Error, 'g', 2, 64) + " (deterministic lattice integration)"
 	}
 	return "probabilities approximate (nearest one-factor correlation structure)"
-}
-
-// vsCheckChartPNG draws the comparisons with the check as a PNG image.
-func vsCheckChartPNG(t *trial.Trial, a *analysis.Result) ([]byte, error) {
-	p, err := chart.VsCheck(t, a, a.VsCheck)
-	if err != nil {
-		return nil, err
-	}
-	w := chartWidthPt
-	if n := len(a.VsCheck.Rows); n > 30 {
-		w = min(w+float64(n-30)*chartPerMean, chartMaxWidth)
-	}
-	var buf bytes.Buffer
-	if err := chart.Save(p, &buf, "png", vg.Length(w), vg.Length(chartHeightPt)); err != nil {
-		return nil, err
-	}
-	return buf.Bytes(), nil
 }
 
 // writeContrasts writes the table of the user's contrasts at row and returns
@@ -182,35 +152,12 @@ func (s *sheet) writeProgress(f *excelize.File, r *report, key string, row int) 
 	row++
 	s.textNoWidth(1, row, "Each treatment's mean at each assessment (the plots assessed; excluded plots left out).", noteStyle)
 	row++
-	png, err := progressChartPNG(r.t, series)
-	if err != nil {
-		s.textNoWidth(1, row, "The chart over the season could not be drawn: "+err.Error(), noteStyle)
-		return row + 2
-	}
-	at := row
-	s.later = append(s.later, func() {
-		yes := true
-		s.fail(f.AddPictureFromBytes(s.name, cellName(1, at), &excelize.Picture{
-			Extension: ".png", File: png,
-			Format: &excelize.GraphicOptions{AltText: "Chart of series " + series + " over the season", PrintObject: &yes, LockAspectRatio: true},
-		}))
-	})
-	return row + vsCheckChartRows
-}
-
-// progressChartPNG draws an assessment series over the season as a PNG.
-func progressChartPNG(t *trial.Trial, series string) ([]byte, error) {
-	pr, err := analysis.ProgressOf(t, series)
-	if err != nil {
-		return nil, err
-	}
-	p, err := chart.Progress(t, pr)
-	if err != nil {
-		return nil, err
-	}
-	var buf bytes.Buffer
-	if err := chart.Save(p, &buf, "png", vg.Length(chartWidthPt), vg.Length(chartHeightPt)); err != nil {
-		return nil, err
-	}
-	return buf.Bytes(), nil
+	return s.chartBelow(f, row, "chart over the season", "Chart of series "+series+" over the season", chartWidthPt,
+		func() (*plot.Plot, error) {
+			pr, err := analysis.ProgressOf(r.t, series)
+			if err != nil {
+				return nil, err
+			}
+			return chart.Progress(r.t, pr)
+		})
 }

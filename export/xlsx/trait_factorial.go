@@ -1,12 +1,10 @@
 package xlsx
 
 import (
-	"bytes"
 	"fmt"
 	"strings"
 
 	"github.com/xuri/excelize/v2"
-	"gonum.org/v1/plot/vg"
 
 	"furlong/export/chart"
 	"furlong/stats"
@@ -308,11 +306,7 @@ func interactionChartPNG(a *analysis.Result) ([]byte, error) {
 	if err != nil {
 		return nil, err
 	}
-	var buf bytes.Buffer
-	if err := chart.Save(p, &buf, "png", vg.Length(chartWidthPt), vg.Length(chartHeightPt)); err != nil {
-		return nil, err
-	}
-	return buf.Bytes(), nil
+	return plotPNG(p, chartWidthPt)
 }
 
 // addInteractionChart puts the interaction chart right of the two-way

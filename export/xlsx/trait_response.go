@@ -1,13 +1,12 @@
 package xlsx
 
 import (
-	"bytes"
 	"fmt"
 	"strconv"
 	"strings"
 
 	"github.com/xuri/excelize/v2"
-	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot"
 
 	"furlong/export"
 	"furlong/export/chart"
@@ -138,20 +137,8 @@ func (s *sheet) writeResponse(f *excelize.File, t *trial.Trial, a *analysis.Resu
 	if !charts || s.err != nil {
 		return row
 	}
-	png, cerr := rateResponsePNG(t, resp)
-	if cerr != nil {
-		s.textNoWidth(1, row, "The response chart could not be drawn: "+cerr.Error(), noteStyle)
-		return row + 2
-	}
-	at := row
-	s.later = append(s.later, func() {
-		yes := true
-		s.fail(f.AddPictureFromBytes(s.name, cellName(1, at), &excelize.Picture{
-			Extension: ".png", File: png,
-			Format: &excelize.GraphicOptions{AltText: "Chart of the response of " + a.TraitName + " to rate", PrintObject: &yes, LockAspectRatio: true},
-		}))
-	})
-	return row + vsCheckChartRows
+	return s.chartBelow(f, row, "response chart", "Chart of the response of "+a.TraitName+" to rate", chartWidthPt,
+		func() (*plot.Plot, error) { return chart.RateResponse(t, resp) })
 }
 
 // optNum writes an optional number, a dash when there is none.
@@ -161,17 +148,4 @@ func (s *sheet) optNum(col, row int, v *float64, k styleKey) {
 		return
 	}
 	s.num(col, row, *v, k)
-}
-
-// rateResponsePNG draws the response chart as a PNG image.
-func rateResponsePNG(t *trial.Trial, resp *analysis.Response) ([]byte, error) {
-	p, err := chart.RateResponse(t, resp)
-	if err != nil {
-		return nil, err
-	}
-	var buf bytes.Buffer
-	if err := chart.Save(p, &buf, "png", vg.Length(chartWidthPt), vg.Length(chartHeightPt)); err != nil {
-		return nil, err
-	}
-	return buf.Bytes(), nil
 }

@@ -46,13 +46,6 @@ func RatesOf(t *trial.Trial, leaveOut []string) (Rates, error) {
 	return r, nil
 }
 
-// IsRateTrial reports whether t has a rate series a response analysis can
-// use (RatesOf with the trial's saved leave-out list succeeds).
-func IsRateTrial(t *trial.Trial) bool {
-	_, err := RatesOf(t, t.Analysis.Response.LeaveOut)
-	return err == nil
-}
-
 // RatePoint is one treatment mean of a rate series.
 type RatePoint struct {
 	Treatment string
