@@ -35,7 +35,11 @@ func (s *sheet) writeMargins(t *trial.Trial, a *analysis.Result, row, dec int) i
 	}
 	for i, h := range []string{"Treatment", "Name", "Mean", "Gross return" + cur, "Product cost", "Application cost", "Cost", "Margin" + cur, "SE", "Letters", "Cost from"} {
 		k := headNumStyle
-		if i < 2 || i >= 9 {
+		switch {
+		case i == 9: // the letters, centred as on the means table
+			k = headStyle
+			k.halign = "center"
+		case i < 2 || i > 9:
 			k = headStyle
 		}
 		s.text(1+i, row, h, k)
@@ -51,7 +55,7 @@ func (s *sheet) writeMargins(t *trial.Trial, a *analysis.Result, row, dec int) i
 		s.num(7, row, r.Cost, numStyle(2))
 		s.num(8, row, r.Margin, numStyle(2))
 		s.num(9, row, r.MarginSE, numStyle(2))
-		s.text(10, row, r.Letters, styleKey{})
+		s.text(10, row, r.Letters, styleKey{halign: "center"})
 		s.text(11, row, r.CostFrom, styleKey{})
 		row++
 	}
